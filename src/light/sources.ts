@@ -1,0 +1,78 @@
+/**
+ * Resolving what the user names as light: the built-in AM1.5G, a blackbody
+ * sun, or a file; then concentration or rescale to a target irradiance.
+ */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { DILUTION_ONE_SUN, MAX_CONCENTRATION } from '../physics/constants.js';
+import { UserError } from '../errors.js';
+import { blackbodySpectrum } from './blackbody.js';
+import { scaleSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
+import { readSpectrumFile, spectrumFromText, type TableUnits } from './table-file.js';
+
+/** Path of a file shipped in the package's spectra/ folder. */
+export function builtinSpectrumPath(fileName: string): string {
+  return fileURLToPath(new URL(`../../spectra/${fileName}`, import.meta.url));
+}
+
+let am15gCache: Spectrum | undefined;
+
+/** ASTM G173-03 global tilt (AM1.5G) as shipped in spectra/am1.5g.tsv; P_in = 1000.37 W/m². */
+export function am15g(): Spectrum {
+  if (!am15gCache) {
+    const path = builtinSpectrumPath('am1.5g.tsv');
+    const bytes = readFileSync(path);
+    const s = spectrumFromText(path, bytes.toString('utf8'), undefined, sha256Hex(bytes));
+    am15gCache = { ...s, name: 'AM1.5G (ASTM G173-03 global tilt)', source: 'ASTM G173-03 global tilt, spectra/am1.5g.tsv' };
+  }
+  return am15gCache;
+}
+
+export interface LightOptions {
+  /** Concentration [suns], a number ≥ 1e-6, or 'max' for full concentration (≈ 46 240). */
+  suns?: number | 'max';
+  /** Rescale the spectrum to this irradiance [W/m²]. */
+  irradianceWm2?: number;
+  /** Units declared for a headerless file. */
+  units?: TableUnits;
+}
+
+/** Parse `--suns`: a positive number or "max". */
+export function parseSuns(value: unknown): number | 'max' | undefined {
+  if (value === undefined) return undefined;
+  if (value === 'max') return 'max';
+  const x = typeof value === 'number' ? value : Number(value);
+  if (!Number.isFinite(x) || !(x > 0)) throw new UserError(`--suns must be a positive number or "max", got "${String(value)}"`);
+  if (x > MAX_CONCENTRATION * (1 + 1e-9)) throw new UserError(`--suns ${x} exceeds full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`);
+  return x;
+}
+
+/**
+ * Resolve a spectrum name: "am1.5g", "blackbody:<K>" or a file path, then
+ * apply concentration (--suns) or a target irradiance. For a blackbody the
+ * concentration sets the dilution f = C·(R_sun/D)²; for a table it scales it.
+ */
+export function resolveSpectrum(name: string, opts: LightOptions = {}): Spectrum {
+  if (opts.suns !== undefined && opts.irradianceWm2 !== undefined) throw new UserError('give either --suns or --irradiance, not both');
+  const suns = opts.suns === 'max' ? MAX_CONCENTRATION : opts.suns;
+  if (opts.irradianceWm2 !== undefined && !(opts.irradianceWm2 > 0 && Number.isFinite(opts.irradianceWm2))) {
+    throw new UserError(`--irradiance must be a positive number of W/m2, got ${opts.irradianceWm2}`);
+  }
+  const key = name.trim().toLowerCase();
+  let s: Spectrum;
+  if (key === 'am1.5g' || key === 'am15g') {
+    s = am15g();
+  } else if (key.startsWith('blackbody:') || key.startsWith('bb:')) {
+    const t = Number(key.slice(key.indexOf(':') + 1).replace(/k$/, ''));
+    if (!Number.isFinite(t)) throw new UserError(`"${name}": blackbody temperature must be a number of kelvin, e.g. blackbody:5778`);
+    const dilution = suns === undefined ? DILUTION_ONE_SUN : Math.min(1, suns * DILUTION_ONE_SUN);
+    s = blackbodySpectrum({ tempK: t, dilution });
+    if (opts.irradianceWm2 !== undefined) s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+    return s;
+  } else {
+    s = readSpectrumFile(name, opts.units);
+  }
+  if (suns !== undefined) s = scaleSpectrum(s, suns);
+  if (opts.irradianceWm2 !== undefined) s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+  return s;
+}

@@ -1,0 +1,182 @@
+/**
+ * The one representation of light in gapstack: a spectral irradiance table on
+ * an ascending wavelength grid with its cumulative photon table, built once.
+ *
+ * Photons above a gap come from the exact integral of the linear interpolant
+ * of the photon flux, so N(E_g) is continuous in E_g and costs one binary
+ * search (no staircase artefacts in maps).
+ */
+import { createHash } from 'node:crypto';
+import { ELEMENTARY_CHARGE_C, HC_EV_NM, HC_J_NM } from '../physics/constants.js';
+import { UserError } from '../errors.js';
+
+export interface Spectrum {
+  /** Human-readable name, e.g. "AM1.5G (ASTM G173-03 global tilt)". */
+  readonly name: string;
+  /** SHA-256 (hex) of the source data: the file bytes, or the generated table. */
+  readonly sha256: string;
+  /** Wavelength grid [nm], strictly ascending. */
+  readonly wavelengthNm: Float64Array;
+  /** Spectral irradiance [W m⁻² nm⁻¹]. */
+  readonly irradiance: Float64Array;
+  /** Spectral photon flux [m⁻² s⁻¹ nm⁻¹]. */
+  readonly photonFlux: Float64Array;
+  /** Cumulative photon flux from the shortest wavelength [m⁻² s⁻¹] (trapezoid). */
+  readonly cumulativePhotons: Float64Array;
+  /** Incident power P_in [W/m²]; analytic for a blackbody, trapezoid otherwise. */
+  readonly pinWm2: number;
+  /** Scale applied to the source data (concentration or irradiance rescale) [-]. */
+  readonly scale: number;
+  /** Free-text provenance (file path, standard, generator). */
+  readonly source: string;
+}
+
+export interface SpectrumInput {
+  name: string;
+  sha256: string;
+  source: string;
+  wavelengthNm: ArrayLike<number>;
+  irradiance: ArrayLike<number>;
+  /** Use this P_in instead of the trapezoid (analytic blackbody) [W/m²]. */
+  pinWm2?: number;
+}
+
+/** Trapezoid integral of y over x. */
+export function trapezoid(x: ArrayLike<number>, y: ArrayLike<number>): number {
+  let s = 0;
+  for (let i = 1; i < x.length; i++) s += 0.5 * (y[i] + y[i - 1]) * (x[i] - x[i - 1]);
+  return s;
+}
+
+/** Build a spectrum from validated arrays: photon flux and the cumulative table. */
+export function makeSpectrum(input: SpectrumInput): Spectrum {
+  const n = input.wavelengthNm.length;
+  if (n < 2 || input.irradiance.length !== n) throw new UserError('a spectrum needs at least two points with one irradiance each');
+  const wavelengthNm = Float64Array.from(input.wavelengthNm);
+  const irradiance = Float64Array.from(input.irradiance);
+  const photonFlux = new Float64Array(n);
+  for (let i = 0; i < n; i++) photonFlux[i] = (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
+  const cumulativePhotons = new Float64Array(n);
+  for (let i = 1; i < n; i++) {
+    cumulativePhotons[i] = cumulativePhotons[i - 1] + 0.5 * (photonFlux[i] + photonFlux[i - 1]) * (wavelengthNm[i] - wavelengthNm[i - 1]);
+  }
+  return {
+    name: input.name,
+    sha256: input.sha256,
+    source: input.source,
+    wavelengthNm,
+    irradiance,
+    photonFlux,
+    cumulativePhotons,
+    pinWm2: input.pinWm2 ?? trapezoid(wavelengthNm, irradiance),
+    scale: 1,
+  };
+}
+
+/** The same spectrum multiplied by a factor (concentration, rescale) [-]. */
+export function scaleSpectrum(s: Spectrum, factor: number): Spectrum {
+  if (!(factor > 0) || !Number.isFinite(factor)) throw new UserError(`spectrum scale factor must be a positive number, got ${factor}`);
+  if (factor === 1) return s;
+  const mul = (a: Float64Array) => a.map((v) => v * factor);
+  return {
+    ...s,
+    irradiance: mul(s.irradiance),
+    photonFlux: mul(s.photonFlux),
+    cumulativePhotons: mul(s.cumulativePhotons),
+    pinWm2: s.pinWm2 * factor,
+    scale: s.scale * factor,
+  };
+}
+
+/** Index i with λ[i] ≤ λ < λ[i+1], for λ inside the grid. */
+function bracket(grid: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = grid.length - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (grid[mid] <= x) lo = mid;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/**
+ * Photon flux with wavelength ≤ λ [m⁻² s⁻¹]: exact integral of the linear
+ * interpolant of φ_λ from the start of the table to λ [nm].
+ */
+export function photonsBelowWavelength(s: Spectrum, wavelengthNm: number): number {
+  const w = s.wavelengthNm;
+  const n = w.length;
+  if (!(wavelengthNm > w[0])) return 0;
+  if (wavelengthNm >= w[n - 1]) return s.cumulativePhotons[n - 1];
+  const i = bracket(w, wavelengthNm);
+  const t = wavelengthNm - w[i];
+  const f = s.photonFlux;
+  const fx = f[i] + ((f[i + 1] - f[i]) * t) / (w[i + 1] - w[i]);
+  return s.cumulativePhotons[i] + 0.5 * (f[i] + fx) * t;
+}
+
+/** Photon flux above a photon energy N(E) [m⁻² s⁻¹] for an energy [eV]. */
+export function photonsAboveEv(s: Spectrum, energyEv: number): number {
+  if (!(energyEv > 0)) return s.cumulativePhotons[s.cumulativePhotons.length - 1];
+  return photonsBelowWavelength(s, HC_EV_NM / energyEv);
+}
+
+/** Photocurrent density of an ideal step absorber, q·N(E_g) [A/m²], for a gap [eV]. */
+export function stepJscAm2(s: Spectrum, gapEv: number): number {
+  return ELEMENTARY_CHARGE_C * photonsAboveEv(s, gapEv);
+}
+
+/** Total photon flux of the table [m⁻² s⁻¹]. */
+export function totalPhotonFlux(s: Spectrum): number {
+  return s.cumulativePhotons[s.cumulativePhotons.length - 1];
+}
+
+/** Irradiance between two wavelengths [W/m²] (trapezoid on the linear interpolant). */
+export function irradianceBetweenNm(s: Spectrum, loNm: number, hiNm: number): number {
+  const w = s.wavelengthNm;
+  const e = s.irradiance;
+  const interp = (x: number) => {
+    const i = bracket(w, x);
+    return e[i] + ((e[i + 1] - e[i]) * (x - w[i])) / (w[i + 1] - w[i]);
+  };
+  const a = Math.max(loNm, w[0]);
+  const b = Math.min(hiNm, w[w.length - 1]);
+  if (!(b > a)) return 0;
+  let sum = 0;
+  let x0 = a;
+  let y0 = interp(a);
+  let i = bracket(w, a) + 1;
+  while (i < w.length && w[i] < b) {
+    sum += 0.5 * (y0 + e[i]) * (w[i] - x0);
+    x0 = w[i];
+    y0 = e[i];
+    i++;
+  }
+  sum += 0.5 * (y0 + interp(b)) * (b - x0);
+  return sum;
+}
+
+/**
+ * Average photon energy [eV] over a wavelength window [nm]: P / (q·Φ) in that
+ * window (Jardine et al., 3rd World Conf. PV Energy Conversion, 2003 / Prog.
+ * Photovolt. 2002).
+ */
+export function averagePhotonEnergyEv(s: Spectrum, loNm: number, hiNm: number): number {
+  const photons = photonsBelowWavelength(s, hiNm) - photonsBelowWavelength(s, loNm);
+  if (!(photons > 0)) return NaN;
+  return irradianceBetweenNm(s, loNm, hiNm) / (ELEMENTARY_CHARGE_C * photons);
+}
+
+/** SHA-256 of bytes, hex. */
+export function sha256Hex(data: Uint8Array | string): string {
+  return createHash('sha256').update(data).digest('hex');
+}
+
+/** SHA-256 of a generated table: the little-endian float64 bytes of λ then E_λ. */
+export function sha256OfTable(wavelengthNm: Float64Array, irradiance: Float64Array): string {
+  const h = createHash('sha256');
+  h.update(new Uint8Array(wavelengthNm.buffer, wavelengthNm.byteOffset, wavelengthNm.byteLength));
+  h.update(new Uint8Array(irradiance.buffer, irradiance.byteOffset, irradiance.byteLength));
+  return h.digest('hex');
+}

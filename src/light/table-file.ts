@@ -1,0 +1,200 @@
+/**
+ * Reading a spectrum table from a file: CSV, TSV or whitespace columns, `#`
+ * comment lines, an optional header naming the units, or units declared by
+ * the caller. A wrong guess is worse than an error, so units must be stated
+ * or unambiguous, and every rejected value names its file and line.
+ */
+import { readFileSync, statSync } from 'node:fs';
+import { parse } from 'csv-parse/sync';
+import { HC_EV_NM, HC_J_NM } from '../physics/constants.js';
+import { UserError, fileError } from '../errors.js';
+import { makeSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
+
+export type AbscissaUnit = 'nm' | 'um' | 'ev';
+export type OrdinateUnit = 'W/m2/nm' | 'W/m2/um' | 'W/m2/eV' | 'photons/m2/s/nm' | 'photons/m2/s/um' | 'photons/m2/s/eV';
+
+export interface TableUnits {
+  x: AbscissaUnit;
+  y: OrdinateUnit;
+}
+
+/** Largest spectrum file read [bytes]; reference tables are a few hundred kB. */
+export const MAX_SPECTRUM_FILE_BYTES = 64 * 1024 * 1024;
+/** Fewest points accepted in a spectrum table. */
+export const MIN_SPECTRUM_POINTS = 5;
+
+export const UNIT_HELP =
+  'wavelength in nm or um, or photon energy in eV; then W/m2/nm, W/m2/um, W/m2/eV, photons/m2/s/nm, photons/m2/s/um or photons/m2/s/eV';
+
+function tokens(text: string): string[] {
+  return text
+    .toLowerCase()
+    .replace(/[µμ]/g, 'u')
+    .replace(/⁻/g, '-')
+    .replace(/²/g, '2')
+    .replace(/¹/g, '1')
+    .split(/[^a-z0-9]+/)
+    .filter((t) => t.length > 0);
+}
+
+function perUnit(tk: string[]): AbscissaUnit | undefined {
+  const found = new Set<AbscissaUnit>();
+  for (const t of tk) {
+    if (t === 'nm' || t === 'nanometer' || t === 'nanometers' || t === 'nanometre' || t === 'nanometres') found.add('nm');
+    if (t === 'um' || t === 'micron' || t === 'microns' || t === 'micrometer' || t === 'micrometers' || t === 'micrometre') found.add('um');
+    if (t === 'ev') found.add('ev');
+  }
+  return found.size === 1 ? [...found][0] : undefined;
+}
+
+/** Abscissa unit named in a column header or declaration, or undefined. */
+export function abscissaUnitOf(text: string): AbscissaUnit | undefined {
+  return perUnit(tokens(text));
+}
+
+/** Ordinate unit named in a column header or declaration, or undefined when absent or ambiguous. */
+export function ordinateUnitOf(text: string): OrdinateUnit | undefined {
+  const tk = tokens(text);
+  const photons = tk.some((t) => t.startsWith('photon'));
+  const watts = tk.includes('w') || tk.some((t) => t.startsWith('watt'));
+  if (photons === watts) return undefined;
+  const per = perUnit(tk);
+  if (!per) return undefined;
+  const perLabel = per === 'ev' ? 'eV' : per;
+  return (photons ? `photons/m2/s/${perLabel}` : `W/m2/${perLabel}`) as OrdinateUnit;
+}
+
+/** Parse a declaration like "nm,W/m2/nm" (abscissa, ordinate). */
+export function parseUnitDeclaration(decl: string): TableUnits {
+  const parts = decl.split(',');
+  const x = parts.length === 2 ? abscissaUnitOf(parts[0]) : undefined;
+  const y = parts.length === 2 ? ordinateUnitOf(parts[1]) : undefined;
+  if (!x || !y) throw new UserError(`--units "${decl}" is not understood: give "<abscissa>,<ordinate>" with ${UNIT_HELP}, e.g. "nm,W/m2/nm"`);
+  return { x, y };
+}
+
+interface Row {
+  line: number;
+  cells: string[];
+}
+
+function splitRows(file: string, text: string): Row[] {
+  const lines = text.split(/\r?\n/);
+  const firstData = lines.find((l) => l.trim() !== '' && !l.trim().startsWith('#')) ?? '';
+  const delimiter = firstData.includes(',') ? ',' : firstData.includes(';') ? ';' : '\t';
+  const normalised = delimiter === '\t' ? lines.map((l) => l.trim().replace(/[ \t]+/g, '\t')).join('\n') : text;
+  let records: { record: string[]; info: { lines: number } }[];
+  try {
+    records = parse(normalised, {
+      delimiter,
+      comment: '#',
+      comment_no_infix: true,
+      skip_empty_lines: true,
+      relax_column_count: true,
+      trim: true,
+      info: true,
+    }) as unknown as { record: string[]; info: { lines: number } }[];
+  } catch (err) {
+    const e = err as { lines?: number; message: string };
+    throw fileError(file, e.lines, `cannot read the table: ${e.message}`);
+  }
+  return records.map((r) => ({ line: r.info.lines, cells: r.record }));
+}
+
+const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** Read a spectrum file into a Spectrum. `declared` overrides or replaces the header units. */
+export function readSpectrumFile(file: string, declared?: TableUnits): Spectrum {
+  let size: number;
+  try {
+    const st = statSync(file);
+    if (!st.isFile()) throw fileError(file, undefined, 'is not a regular file');
+    size = st.size;
+  } catch (err) {
+    if (err instanceof UserError) throw err;
+    throw new UserError(`${file}: cannot open spectrum file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  if (size > MAX_SPECTRUM_FILE_BYTES) {
+    throw fileError(file, undefined, `is ${(size / 2 ** 20).toFixed(0)} MiB; spectrum tables above ${MAX_SPECTRUM_FILE_BYTES / 2 ** 20} MiB are refused`);
+  }
+  const bytes = readFileSync(file);
+  if (bytes.includes(0)) throw fileError(file, undefined, 'contains binary data (NUL bytes); expected a text table');
+  const text = bytes.toString('utf8');
+  return spectrumFromText(file, text, declared, sha256Hex(bytes));
+}
+
+/** Parse table text (file name used in messages). */
+export function spectrumFromText(file: string, text: string, declared?: TableUnits, sha?: string): Spectrum {
+  const rows = splitRows(file, text);
+  if (rows.length === 0) throw fileError(file, undefined, 'holds no data rows');
+  let units = declared;
+  let start = 0;
+  const first = rows[0];
+  const firstIsNumeric = first.cells.length >= 2 && NUMBER.test(first.cells[0]) && NUMBER.test(first.cells[1]);
+  if (!firstIsNumeric) {
+    start = 1;
+    if (first.cells.length !== 2) throw fileError(file, first.line, `header must name exactly two columns, found ${first.cells.length}`);
+    if (!declared) {
+      const x = abscissaUnitOf(first.cells[0]);
+      const y = ordinateUnitOf(first.cells[1]);
+      if (!x) throw fileError(file, first.line, `header column "${first.cells[0]}" names no abscissa unit (nm, um or eV); rename it or declare --units`);
+      if (!y) throw fileError(file, first.line, `header column "${first.cells[1]}" names no clear unit (${UNIT_HELP}); rename it or declare --units`);
+      units = { x, y };
+    }
+  }
+  if (!units) throw fileError(file, first.line, `no header names the units; add one (e.g. "wavelength_nm,irradiance_W_m2_nm") or declare --units`);
+  const n = rows.length - start;
+  if (n < MIN_SPECTRUM_POINTS) throw fileError(file, undefined, `has ${n} data rows; at least ${MIN_SPECTRUM_POINTS} are needed`);
+  const xs = new Float64Array(n);
+  const ys = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    const { line, cells } = rows[start + k];
+    if (cells.length !== 2) throw fileError(file, line, `expected 2 columns, found ${cells.length}`);
+    for (let c = 0; c < 2; c++) {
+      const cell = cells[c];
+      if (!NUMBER.test(cell)) throw fileError(file, line, `"${cell}" is not a finite number`);
+    }
+    const x = Number(cells[0]);
+    const y = Number(cells[1]);
+    if (!Number.isFinite(x) || !Number.isFinite(y)) throw fileError(file, line, 'value is not finite');
+    if (!(x > 0)) throw fileError(file, line, `abscissa ${cells[0]} must be positive`);
+    if (y < 0) throw fileError(file, line, `negative spectral value ${cells[1]}`);
+    if (k > 0) {
+      if (x === xs[k - 1]) throw fileError(file, line, `duplicated abscissa ${cells[0]}`);
+      if (x < xs[k - 1]) throw fileError(file, line, `abscissa ${cells[0]} is below the previous row's ${xs[k - 1]}: the table must be strictly ascending`);
+    }
+    xs[k] = x;
+    ys[k] = y;
+  }
+  const { wavelengthNm, irradiance } = toCanonical(xs, ys, units);
+  return makeSpectrum({
+    name: file.split(/[\\/]/).pop() ?? file,
+    sha256: sha ?? sha256Hex(text),
+    source: `file ${file} (${units.x}, ${units.y})`,
+    wavelengthNm,
+    irradiance,
+  });
+}
+
+/** Convert a table to ascending wavelength [nm] and irradiance [W m⁻² nm⁻¹]. */
+export function toCanonical(xs: Float64Array, ys: Float64Array, units: TableUnits): { wavelengthNm: Float64Array; irradiance: Float64Array } {
+  const n = xs.length;
+  const wl = new Float64Array(n);
+  const irr = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const x = xs[i];
+    const lambda = units.x === 'nm' ? x : units.x === 'um' ? x * 1000 : HC_EV_NM / x;
+    let y = ys[i];
+    // Spectral density per unit of the ordinate's own variable → per nm.
+    if (units.y.endsWith('/um')) y /= 1000;
+    else if (units.y.endsWith('/eV')) y *= HC_EV_NM / (lambda * lambda);
+    if (units.y.startsWith('photons')) y *= HC_J_NM / lambda;
+    wl[i] = lambda;
+    irr[i] = y;
+  }
+  if (units.x === 'ev') {
+    wl.reverse();
+    irr.reverse();
+  }
+  return { wavelengthNm: wl, irradiance: irr };
+}

@@ -1,0 +1,257 @@
+/**
+ * Electrical operation of a stack (PHYSICS.md §5): series groups at a common
+ * current, independent groups each at its own maximum, voltage-matched
+ * strings at one free voltage, with luminescent coupling carried top-down.
+ *
+ * Every subcell obeys J_i = J_ph,i − J0_i(exp(V_i/V_t) − 1). With coupling,
+ * J_ph,i+1 = J_gen,i+1 + η_i·(J_ph,i − J_i), so every photocurrent is affine in
+ * the operating currents and u_i = J_ph,i − J_i + J0_i is affine in any one
+ * group current. P(J) = J·Σ V_t·ln(u_i/J0_i) is then concave on its domain,
+ * and the group maximum is the root of dP/dJ by safeguarded Newton.
+ */
+
+/** Electrical inputs of a stack, top first. */
+export interface StackElectrical {
+  /** Photogeneration [A/m²]. */
+  jgenAm2: Float64Array;
+  /** Saturation current, including ERE and any coupling factor [A/m²]. */
+  j0Am2: Float64Array;
+  /** Coupling efficiency per interface (length n − 1) [-]. */
+  eta: Float64Array;
+  /** Thermal voltage [V]. */
+  vt: number;
+}
+
+/** Cascade photocurrents top-down for given operating currents [A/m²]. */
+export function cascadePhotocurrents(el: StackElectrical, currents: Float64Array, jph: Float64Array): void {
+  const n = el.jgenAm2.length;
+  jph[0] = el.jgenAm2[0];
+  for (let i = 1; i < n; i++) jph[i] = el.jgenAm2[i] + el.eta[i - 1] * (jph[i - 1] - currents[i - 1]);
+}
+
+/** Relative tolerance on the operating current. */
+export const CURRENT_RTOL = 1e-12;
+
+/**
+ * Maximise f(J) = J·Σ_{in} V_t ln(u_i/J0_i) + Σ_{out} J_i·V_t ln(u_i/J0_i) over J ≥ 0
+ * where u_i = c_i + d_i·J. `inGroup[i]` marks the cells that carry J; `fixedJ[i]`
+ * is the current of the others. Returns the maximising J [A/m²].
+ */
+export function maximiseGroupCurrent(
+  c: Float64Array,
+  d: Float64Array,
+  j0: Float64Array,
+  inGroup: Uint8Array,
+  fixedJ: Float64Array,
+  n: number,
+  vt: number,
+): number {
+  let jMax = Infinity;
+  for (let i = 0; i < n; i++) if (d[i] < 0) jMax = Math.min(jMax, -c[i] / d[i]);
+  if (!(jMax > 0) || !Number.isFinite(jMax)) return 0;
+  const slope = (j: number, second: boolean): number => {
+    let s = 0;
+    let s2 = 0;
+    for (let i = 0; i < n; i++) {
+      const u = c[i] + d[i] * j;
+      const r = d[i] / u;
+      if (inGroup[i]) {
+        s += Math.log(u / j0[i]) + j * r;
+        if (second) s2 += 2 * r - j * r * r;
+      } else if (d[i] !== 0) {
+        s += fixedJ[i] * r;
+        if (second) s2 -= fixedJ[i] * r * r;
+      }
+    }
+    return second ? vt * s2 : vt * s;
+  };
+  if (slope(0, false) <= 0) return 0;
+  let lo = 0;
+  let hi = jMax;
+  let j = jMax * 0.97;
+  for (let it = 0; it < 200; it++) {
+    const g = slope(j, false);
+    if (g > 0) lo = j;
+    else hi = j;
+    const g2 = slope(j, true);
+    let next = j - g / g2;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (Math.abs(next - j) <= CURRENT_RTOL * next || hi - lo <= CURRENT_RTOL * hi) return next;
+    j = next;
+  }
+  return j;
+}
+
+/** Result of operating a stack. */
+export interface Operation {
+  /** Operating current of each subcell [A/m²]. */
+  currentsAm2: Float64Array;
+  /** Operating voltage of each subcell [V]. */
+  voltagesV: Float64Array;
+  /** Photocurrent at the operating point, coupling included [A/m²]. */
+  jphAm2: Float64Array;
+  /** Total electrical power [W/m²]. */
+  powerWm2: number;
+}
+
+function cellVoltage(jph: number, j: number, j0: number, vt: number): number {
+  const u = (jph - j) / j0;
+  return u > -1 ? vt * Math.log1p(u) : -Infinity;
+}
+
+function finish(el: StackElectrical, currents: Float64Array, jph: Float64Array): Operation {
+  const n = currents.length;
+  const voltages = new Float64Array(n);
+  let p = 0;
+  for (let i = 0; i < n; i++) {
+    voltages[i] = cellVoltage(jph[i], currents[i], el.j0Am2[i], el.vt);
+    p += voltages[i] * currents[i];
+  }
+  return { currentsAm2: currents, voltagesV: voltages, jphAm2: jph, powerWm2: p };
+}
+
+/** Operate groups of cells, each group in series, each at its own maximum (jointly, with coupling). */
+export function operateGroups(el: StackElectrical, groups: number[][]): Operation {
+  const n = el.jgenAm2.length;
+  const currents = new Float64Array(n);
+  const jph = new Float64Array(n);
+  const c = new Float64Array(n);
+  const d = new Float64Array(n);
+  const inGroup = new Uint8Array(n);
+  const u1 = new Float64Array(n);
+  const coupled = el.eta.some((e) => e !== 0);
+  for (const g of groups) for (const i of g) currents[i] = 0.9 * el.jgenAm2[i];
+  const maxSweeps = coupled && groups.length > 1 ? 500 : 1;
+  for (let sweep = 0; sweep < maxSweeps; sweep++) {
+    let change = 0;
+    for (const g of groups) {
+      const old = currents[g[0]];
+      // u(J) = J_ph(J) − J_i + J0, affine in this group's J: read it at J = 0 and J = 1.
+      for (const i of g) currents[i] = 0;
+      cascadePhotocurrents(el, currents, jph);
+      for (let i = 0; i < n; i++) c[i] = jph[i] - currents[i] + el.j0Am2[i];
+      for (const i of g) currents[i] = 1;
+      cascadePhotocurrents(el, currents, jph);
+      for (let i = 0; i < n; i++) {
+        u1[i] = jph[i] - currents[i] + el.j0Am2[i];
+        d[i] = u1[i] - c[i];
+        inGroup[i] = 0;
+      }
+      for (const i of g) inGroup[i] = 1;
+      const j = maximiseGroupCurrent(c, d, el.j0Am2, inGroup, currents, n, el.vt);
+      for (const i of g) currents[i] = j;
+      change = Math.max(change, Math.abs(j - old) / Math.max(j, 1e-30));
+    }
+    if (change < 1e-13) break;
+  }
+  cascadePhotocurrents(el, currents, jph);
+  return finish(el, currents, jph);
+}
+
+/**
+ * Current [A/m²] at which a series group's voltage equals V [V], given the
+ * currents of other cells (for coupling); cells of the group get the result.
+ */
+function groupCurrentAtVoltage(el: StackElectrical, group: number[], voltageV: number, currents: Float64Array, jph: Float64Array): number {
+  const v = (j: number): number => {
+    for (const i of group) currents[i] = j;
+    cascadePhotocurrents(el, currents, jph);
+    let s = 0;
+    for (const i of group) s += cellVoltage(jph[i], j, el.j0Am2[i], el.vt);
+    return s;
+  };
+  // Upper bound: the current at which some cell of the group reaches u = 0.
+  let hi = Infinity;
+  for (const i of group) hi = Math.min(hi, el.jgenAm2[i] + el.j0Am2[i] + 10 * Math.abs(el.jgenAm2[0]));
+  while (v(hi) > voltageV) hi *= 2;
+  let lo = -1;
+  let guard = 0;
+  while (!(v(lo) >= voltageV) && guard++ < 2000) lo *= 2;
+  for (let it = 0; it < 300; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (v(mid) >= voltageV) lo = mid;
+    else hi = mid;
+    if (hi - lo <= 1e-13 * Math.max(1, Math.abs(mid))) break;
+  }
+  const j = 0.5 * (lo + hi);
+  for (const i of group) currents[i] = j;
+  return j;
+}
+
+/** Golden-section maximum of a function on [a, b] after a coarse scan; returns the argument. */
+export function maximiseScan(f: (x: number) => number, a: number, b: number, scan = 48, tol = 1e-12): number {
+  let best = a;
+  let bestF = -Infinity;
+  for (let k = 0; k <= scan; k++) {
+    const x = a + ((b - a) * k) / scan;
+    const fx = f(x);
+    if (fx > bestF) {
+      bestF = fx;
+      best = x;
+    }
+  }
+  const h = (b - a) / scan;
+  let lo = Math.max(a, best - h);
+  let hi = Math.min(b, best + h);
+  const g = (Math.sqrt(5) - 1) / 2;
+  let x1 = hi - g * (hi - lo);
+  let x2 = lo + g * (hi - lo);
+  let f1 = f(x1);
+  let f2 = f(x2);
+  while (hi - lo > tol * Math.max(1, Math.abs(hi))) {
+    if (f1 < f2) {
+      lo = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = lo + g * (hi - lo);
+      f2 = f(x2);
+    } else {
+      hi = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = hi - g * (hi - lo);
+      f1 = f(x1);
+    }
+  }
+  return 0.5 * (lo + hi);
+}
+
+/**
+ * Voltage-matched strings (Warren et al., Sustainable Energy Fuels 2 (2018)
+ * 1412; Schulte-Huxel et al., IEEE J. Photovolt. 8 (2018) 1370): m circuits of
+ * the upper group in series match n of the lower, m·V_upper = n·V_lower, so
+ * P = max_V [P_upper(V) + P_lower(m·V/n)] per unit area.
+ */
+export function operateVoltageMatched(el: StackElectrical, upper: number[], lower: number[], m: number, n: number): Operation {
+  const cells = el.jgenAm2.length;
+  const currents = new Float64Array(cells);
+  const jph = new Float64Array(cells);
+  const power = (v: number): number => {
+    const ja = groupCurrentAtVoltage(el, upper, v, currents, jph);
+    const vb = (m * v) / n;
+    const jb = groupCurrentAtVoltage(el, lower, vb, currents, jph);
+    return v * ja + vb * jb;
+  };
+  // The upper group's open-circuit voltage bounds the search.
+  for (let i = 0; i < cells; i++) currents[i] = 0;
+  cascadePhotocurrents(el, currents, jph);
+  let vocUpper = 0;
+  for (const i of upper) vocUpper += cellVoltage(jph[i], 0, el.j0Am2[i], el.vt);
+  const v = maximiseScan(power, 0, vocUpper);
+  power(v);
+  cascadePhotocurrents(el, currents, jph);
+  return finish(el, currents, jph);
+}
+
+/** Open-circuit voltage [V] and short-circuit current [A/m²] of one series group (2T terminals). */
+export function seriesTerminals(el: StackElectrical, group: number[]): { vocV: number; jscAm2: number } {
+  const n = el.jgenAm2.length;
+  const currents = new Float64Array(n);
+  const jph = new Float64Array(n);
+  for (const i of group) currents[i] = 0;
+  cascadePhotocurrents(el, currents, jph);
+  let voc = 0;
+  for (const i of group) voc += cellVoltage(jph[i], 0, el.j0Am2[i], el.vt);
+  const jsc = groupCurrentAtVoltage(el, group, 0, currents, jph);
+  return { vocV: voc, jscAm2: jsc };
+}

@@ -1,0 +1,157 @@
+/**
+ * Evaluate a stack under a spectrum: optics, then coupling, then wiring.
+ * This is the general (cold) path used by `evaluate`, reports and yields;
+ * the search has its own allocation-free step path over the same equations.
+ */
+import { UserError } from '../errors.js';
+import { thermalVoltageV } from '../physics/constants.js';
+import type { Spectrum } from '../light/spectrum.js';
+import { maxPowerPoint, vocV } from '../junction/diode.js';
+import type { StackSpec } from './model.js';
+import { stackOptics, isStepOptics } from './optics.js';
+import { operateGroups, operateVoltageMatched, seriesTerminals, type StackElectrical } from './electrical.js';
+
+export interface SubcellResult {
+  gapEv: number;
+  /** Photogeneration before coupling [A/m²]. */
+  jgenAm2: number;
+  /** Photocurrent at the operating point, coupling included [A/m²]. */
+  jphAm2: number;
+  /** Coupled-in photocurrent from the cell above [A/m²]. */
+  lcInAm2: number;
+  /** Saturation current used (ERE and coupling included) [A/m²]. */
+  j0Am2: number;
+  /** Operating point in the stack. */
+  jOpAm2: number;
+  vOpV: number;
+  powerWm2: number;
+  /** The subcell alone at its photocurrent: Voc [V], FF [-], Vmp [V], Jmp [A/m²]. */
+  vocV: number;
+  ff: number;
+  vmpV: number;
+  jmpAm2: number;
+}
+
+export interface StackResult {
+  efficiency: number;
+  pmaxWm2: number;
+  pinWm2: number;
+  subcells: SubcellResult[];
+  /** Terminal Voc [V] and Jsc [A/m²] where the wiring has one pair of terminals (one series group). */
+  stackVocV: number | null;
+  stackJscAm2: number | null;
+}
+
+/** Reject stacks that the physics cannot describe, naming the faulty part. */
+export function validateStack(spec: StackSpec): void {
+  const n = spec.subcells.length;
+  if (n < 1 || n > 6) throw new UserError(`a stack holds 1 to 6 subcells, got ${n}`);
+  if (!(spec.tempK > 0 && spec.tempK <= 1000)) throw new UserError(`cell temperature must be within (0, 1000] K, got ${spec.tempK}`);
+  spec.subcells.forEach((c, i) => {
+    const name = `subcell ${i + 1}`;
+    if (!(c.gapEv > 0) || !Number.isFinite(c.gapEv)) throw new UserError(`${name}: gap must be a positive number of eV, got ${c.gapEv}`);
+    if (c.gapEv < 0.1 || c.gapEv > 6) throw new UserError(`${name}: gap ${c.gapEv} eV is outside 0.1–6 eV`);
+    if (!(c.ere > 0 && c.ere <= 1)) throw new UserError(`${name}: ERE must be within (0, 1], got ${c.ere}`);
+    const a = c.absorptance;
+    if (a.kind === 'step' && !(a.value > 0 && a.value <= 1)) throw new UserError(`${name}: absorptance must be within (0, 1], got ${a.value}`);
+    if (a.kind !== 'step' && !(a.thicknessNm > 0)) throw new UserError(`${name}: thickness must be positive nm, got ${a.thicknessNm}`);
+  });
+  const steps = spec.subcells.every((c) => c.absorptance.kind === 'step');
+  if (steps) {
+    for (let i = 1; i < n; i++) {
+      if (!(spec.subcells[i].gapEv < spec.subcells[i - 1].gapEv)) {
+        throw new UserError(`gaps must be strictly descending from the top for step absorbers: subcell ${i + 1} (${spec.subcells[i].gapEv} eV) is not below subcell ${i} (${spec.subcells[i - 1].gapEv} eV)`);
+      }
+    }
+  }
+  if (spec.interlayerTransmittance.length !== n - 1) throw new UserError(`expected ${n - 1} interlayer transmittances, got ${spec.interlayerTransmittance.length}`);
+  const c = spec.coupling;
+  if (c.model === 'empirical') {
+    if (c.eta.length !== n - 1) throw new UserError(`luminescent coupling needs ${n - 1} value(s), one per interface, got ${c.eta.length}`);
+    c.eta.forEach((e) => {
+      if (!(e >= 0 && e <= 1)) throw new UserError(`luminescent coupling efficiency must be within [0, 1], got ${e}`);
+    });
+  }
+  if (c.model === 'radiative' && !(c.refractiveIndex >= 1 && c.refractiveIndex <= 10)) {
+    throw new UserError(`refractive index for radiative coupling must be within 1–10, got ${c.refractiveIndex}`);
+  }
+  const seen = new Set<number>();
+  for (const g of spec.wiring.groups) {
+    if (g.length === 0) throw new UserError('a wiring group is empty');
+    for (const i of g) {
+      if (!(Number.isInteger(i) && i >= 0 && i < n)) throw new UserError(`wiring names subcell ${i + 1}, but the stack has ${n}`);
+      if (seen.has(i)) throw new UserError(`wiring names subcell ${i + 1} twice`);
+      seen.add(i);
+    }
+  }
+  if (seen.size !== n) throw new UserError(`wiring must place every subcell in one group (${seen.size} of ${n} placed)`);
+  if (spec.wiring.kind === 'voltage-matched') {
+    const { m, n: k } = spec.wiring;
+    if (!(Number.isInteger(m) && Number.isInteger(k) && m >= 1 && k >= 1 && m <= 100 && k <= 100)) {
+      throw new UserError(`voltage-matched ratio must be whole numbers 1–100, got ${m}:${k}`);
+    }
+  }
+}
+
+/** Saturation currents with ERE and the coupling model applied, plus per-interface η. */
+export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Float64Array): StackElectrical {
+  const n = spec.subcells.length;
+  const j0 = new Float64Array(n);
+  const eta = new Float64Array(Math.max(0, n - 1));
+  const c = spec.coupling;
+  for (let i = 0; i < n; i++) {
+    const ere = spec.subcells[i].ere;
+    let factor = 1;
+    // Radiative limit (Brown & Wu, Prog. Photovolt. 10 (2002) 299): an upper cell also
+    // emits into the cell below (index n), raising its J0 by 1 + n²; n²/(1+n²) of its
+    // radiative recombination (ERE of the total) goes down.
+    if (c.model === 'radiative' && i < n - 1) {
+      const n2 = c.refractiveIndex ** 2;
+      factor = 1 + n2;
+      eta[i] = (ere * n2) / (1 + n2);
+    }
+    if (c.model === 'empirical' && i < n - 1) eta[i] = c.eta[i];
+    j0[i] = (j0Rad[i] * factor) / ere;
+  }
+  return { jgenAm2: jgen, j0Am2: j0, eta, vt: thermalVoltageV(spec.tempK) };
+}
+
+/** Full evaluation of a stack under a spectrum. */
+export function evaluateStack(spec: StackSpec, spectrum: Spectrum): StackResult {
+  validateStack(spec);
+  const optics = stackOptics(spec, spectrum);
+  const el = electricalInputs(spec, optics.jgenAm2, optics.j0RadAm2);
+  const w = spec.wiring;
+  const op = w.kind === 'voltage-matched' ? operateVoltageMatched(el, w.groups[0], w.groups[1], w.m, w.n) : operateGroups(el, w.groups);
+  const subcells: SubcellResult[] = spec.subcells.map((c, i) => {
+    const jph = op.jphAm2[i];
+    const mpp = maxPowerPoint(jph, el.j0Am2[i], el.vt);
+    const voc = vocV(jph, el.j0Am2[i], el.vt);
+    return {
+      gapEv: c.gapEv,
+      jgenAm2: el.jgenAm2[i],
+      jphAm2: jph,
+      lcInAm2: jph - el.jgenAm2[i],
+      j0Am2: el.j0Am2[i],
+      jOpAm2: op.currentsAm2[i],
+      vOpV: op.voltagesV[i],
+      powerWm2: op.currentsAm2[i] * op.voltagesV[i],
+      vocV: voc,
+      ff: jph > 0 && voc > 0 ? mpp.pmaxWm2 / (jph * voc) : 0,
+      vmpV: mpp.vmpV,
+      jmpAm2: mpp.jmpAm2,
+    };
+  });
+  const oneGroup = w.kind === 'groups' && w.groups.length === 1;
+  const terminals = oneGroup ? seriesTerminals(el, w.groups[0]) : null;
+  return {
+    efficiency: op.powerWm2 / spectrum.pinWm2,
+    pmaxWm2: op.powerWm2,
+    pinWm2: spectrum.pinWm2,
+    subcells,
+    stackVocV: terminals ? terminals.vocV : null,
+    stackJscAm2: terminals ? terminals.jscAm2 : null,
+  };
+}
+
+export { isStepOptics };

@@ -1,0 +1,109 @@
+/**
+ * Plain-data description of a stack: subcells top (light side) first, their
+ * absorptance, the optics between them, luminescent coupling and wiring.
+ */
+
+/** Absorption coefficient α(E) [cm⁻¹]. */
+export type AlphaModel =
+  | {
+      /** Direct-gap edge α = α0·√((E − E_g)/1 eV), optional Urbach tail exp((E − E_g)/E_U) below the gap. */
+      kind: 'direct';
+      /** α at 1 eV above the gap [cm⁻¹]. */
+      alpha0PerCm: number;
+      /** Urbach energy [eV]; 0 for a sharp edge. */
+      urbachEv: number;
+    }
+  | {
+      /** Tabulated α(E), linear interpolation; 0 below the first energy, last value above the last. */
+      kind: 'table';
+      energyEv: number[];
+      alphaPerCm: number[];
+    };
+
+/** Absorptance a(E) of one subcell; the same curve sets photogeneration and J0 (reciprocity). */
+export type AbsorptanceModel =
+  | {
+      /** Ideal step: a = `value` above the gap, 0 below; value 1 is the classic limit. */
+      kind: 'step';
+      value: number;
+    }
+  | {
+      /** Beer–Lambert: a = 1 − exp(−p·α·d), p = 1 (single pass) or 2 (rear mirror). */
+      kind: 'beer-lambert';
+      passes: 1 | 2;
+      thicknessNm: number;
+      alpha: AlphaModel;
+    }
+  | {
+      /** Lambertian light trapping: a = 4n²αd / (1 + 4n²αd) (Tiedje et al., IEEE TED 31 (1984) 711). */
+      kind: 'lambertian';
+      refractiveIndex: number;
+      thicknessNm: number;
+      alpha: AlphaModel;
+    };
+
+/** A constant or a table over photon energy [eV]; linear interpolation, end values held. */
+export type SpectralValue = number | { energyEv: number[]; value: number[] };
+
+export interface SubcellSpec {
+  /** Band gap [eV]. */
+  gapEv: number;
+  /** External radiative efficiency (0, 1]. */
+  ere: number;
+  absorptance: AbsorptanceModel;
+}
+
+/** Luminescent coupling between neighbouring subcells. */
+export type Coupling =
+  | { model: 'none' }
+  | {
+      /** Empirical: fraction η_i of subcell i's recombination current that becomes photocurrent in subcell i+1; J0 unchanged. */
+      model: 'empirical';
+      /** One value per interface, top first (length = subcells − 1). */
+      eta: number[];
+    }
+  | {
+      /** Radiative limit: downward share n²/(1+n²) of the radiative part (ERE) of recombination; upper cells' J0 × (1+n²). */
+      model: 'radiative';
+      refractiveIndex: number;
+    };
+
+/** Wiring: a partition of the subcells (0-based, top first) into series groups, or voltage-matched strings. */
+export type Wiring =
+  | { kind: 'groups'; label: string; groups: number[][] }
+  | {
+      /** m circuits of the upper group in series match n circuits of the lower: m·V_upper = n·V_lower. */
+      kind: 'voltage-matched';
+      label: string;
+      m: number;
+      n: number;
+      groups: [number[], number[]];
+    };
+
+export interface StackSpec {
+  subcells: SubcellSpec[];
+  /** Cell temperature [K]. */
+  tempK: number;
+  /** Front reflectance R(E) [-]. */
+  frontReflectance: SpectralValue;
+  /** Transmittance of the interlayer below subcell i, i = 0 … N−2 [-]. */
+  interlayerTransmittance: SpectralValue[];
+  coupling: Coupling;
+  wiring: Wiring;
+}
+
+/** Ideal step subcells (a = 1), no reflection, lossless interlayers, isolated, at 300 K. */
+export function idealStack(gapsEv: number[], wiring: Wiring, overrides: Partial<StackSpec> = {}): StackSpec {
+  return {
+    subcells: gapsEv.map((g) => ({ gapEv: g, ere: 1, absorptance: { kind: 'step', value: 1 } })),
+    tempK: 300,
+    frontReflectance: 0,
+    interlayerTransmittance: gapsEv.slice(1).map(() => 1),
+    coupling: { model: 'none' },
+    wiring,
+    ...overrides,
+  };
+}
+
+export const seriesWiring = (n: number): Wiring => ({ kind: 'groups', label: 'series', groups: [Array.from({ length: n }, (_, i) => i)] });
+export const independentWiring = (n: number): Wiring => ({ kind: 'groups', label: 'independent', groups: Array.from({ length: n }, (_, i) => [i]) });

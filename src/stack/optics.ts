@@ -1,0 +1,177 @@
+/**
+ * Optics down the stack (PHYSICS.md §4): light that the cells above did not
+ * absorb, that was not reflected and not lost in interlayers reaches the next
+ * cell, φ_i(E) = φ_0(E)·(1 − R)·Π_{j<i}(1 − a_j(E))·T_j(E).
+ *
+ * Two paths give per-subcell photogeneration J_gen [A/m²] and radiative
+ * saturation current J0_rad [A/m²] from the same a(E) (reciprocity):
+ * a closed form for step absorbers with constant optics (band look-ups in the
+ * cumulative photon table), and an energy-bin path for everything else whose
+ * bins are exact integrals of the same cumulative table and of the
+ * Bose–Einstein kernel.
+ */
+import { ELEMENTARY_CHARGE_C } from '../physics/constants.js';
+import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';
+import { boseEinsteinTailEv3, BLACKBODY_PREFACTOR_EV, j0RadStepAm2 } from '../junction/radiative.js';
+import type { AbsorptanceModel, AlphaModel, SpectralValue, StackSpec } from './model.js';
+
+export interface StackOptics {
+  /** Photogeneration of each subcell before coupling [A/m²]. */
+  jgenAm2: Float64Array;
+  /** Radiative saturation current of each subcell, J0_rad·∫a (front emission) [A/m²], before ERE. */
+  j0RadAm2: Float64Array;
+  /** Photon current incident on the stack above the lowest gap [A/m²] (for bookkeeping). */
+  incidentAboveLowestGapAm2: number;
+}
+
+/** True when the closed-form step path applies. */
+export function isStepOptics(spec: StackSpec): boolean {
+  return (
+    spec.subcells.every((c) => c.absorptance.kind === 'step') &&
+    typeof spec.frontReflectance === 'number' &&
+    spec.interlayerTransmittance.every((t) => typeof t === 'number')
+  );
+}
+
+/** Evaluate a spectral value at an energy [eV]. */
+export function spectralValueAt(v: SpectralValue, energyEv: number): number {
+  if (typeof v === 'number') return v;
+  return interpolateClamped(v.energyEv, v.value, energyEv);
+}
+
+function interpolateClamped(xs: number[], ys: number[], x: number): number {
+  const n = xs.length;
+  if (x <= xs[0]) return ys[0];
+  if (x >= xs[n - 1]) return ys[n - 1];
+  let lo = 0;
+  let hi = n - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (xs[mid] <= x) lo = mid;
+    else hi = mid;
+  }
+  return ys[lo] + ((ys[hi] - ys[lo]) * (x - xs[lo])) / (xs[hi] - xs[lo]);
+}
+
+/** Absorption coefficient [cm⁻¹] at an energy [eV] for a subcell of a gap [eV]. */
+export function alphaPerCm(model: AlphaModel, gapEv: number, energyEv: number): number {
+  if (model.kind === 'table') {
+    if (energyEv < model.energyEv[0]) return 0;
+    return interpolateClamped(model.energyEv, model.alphaPerCm, energyEv);
+  }
+  const eu = model.urbachEv;
+  if (!(eu > 0)) return energyEv > gapEv ? model.alpha0PerCm * Math.sqrt(energyEv - gapEv) : 0;
+  // Square-root edge above E_g + E_U/2, Urbach exponential below; value and slope match at the join.
+  const join = gapEv + eu / 2;
+  if (energyEv >= join) return model.alpha0PerCm * Math.sqrt(energyEv - gapEv);
+  return model.alpha0PerCm * Math.sqrt(eu / 2) * Math.exp((energyEv - join) / eu);
+}
+
+/** Absorptance a(E) [-] of a subcell model at an energy [eV]. */
+export function absorptanceAt(model: AbsorptanceModel, gapEv: number, energyEv: number): number {
+  switch (model.kind) {
+    case 'step':
+      return energyEv >= gapEv ? model.value : 0;
+    case 'beer-lambert': {
+      const ad = alphaPerCm(model.alpha, gapEv, energyEv) * model.thicknessNm * 1e-7;
+      return -Math.expm1(-model.passes * ad);
+    }
+    case 'lambertian': {
+      const x = 4 * model.refractiveIndex ** 2 * alphaPerCm(model.alpha, gapEv, energyEv) * model.thicknessNm * 1e-7;
+      return x / (1 + x);
+    }
+  }
+}
+
+/**
+ * Closed-form optics for step absorbers with constant R and T. In band k,
+ * [E_k, E_{k−1}), cells 1…k−1 are transparent and cells k… absorb their
+ * constant a_j, so cell i receives B_k·Π_{j=k}^{i−1}(1 − a_j) of it.
+ */
+export function stepOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
+  const cells = spec.subcells;
+  const n = cells.length;
+  const jgen = new Float64Array(n);
+  const j0 = new Float64Array(n);
+  const r = spec.frontReflectance as number;
+  let above = 0;
+  let throughput = 1 - r;
+  for (let i = 0; i < n; i++) {
+    const a = (cells[i].absorptance as { value: number }).value;
+    const nAbove = photonsAboveEv(spectrum, cells[i].gapEv);
+    // Photons reaching cell i: each earlier band attenuated by the cells it has passed.
+    let reaching = 0;
+    let prevN = 0;
+    for (let k = 0; k <= i; k++) {
+      const nk = photonsAboveEv(spectrum, cells[k].gapEv);
+      let band = nk - prevN;
+      prevN = nk;
+      for (let j = k; j < i; j++) band *= 1 - (cells[j].absorptance as { value: number }).value;
+      reaching += band;
+    }
+    jgen[i] = ELEMENTARY_CHARGE_C * throughput * a * reaching;
+    j0[i] = a * j0RadStepAm2(cells[i].gapEv, spec.tempK);
+    above = nAbove;
+    if (i < n - 1) throughput *= spec.interlayerTransmittance[i] as number;
+  }
+  return { jgenAm2: jgen, j0RadAm2: j0, incidentAboveLowestGapAm2: ELEMENTARY_CHARGE_C * above * (1 - r) };
+}
+
+/** Energy step of the bin path [eV]. */
+export const BIN_STEP_EV = 0.002;
+
+/**
+ * General optics on energy bins. Bin edges are a uniform grid plus every
+ * subcell gap, so step edges are exact; each bin's photons are a difference
+ * of the cumulative table and each bin's emission kernel a difference of the
+ * Bose–Einstein series. Absorptance is taken at bin centres.
+ */
+export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
+  const cells = spec.subcells;
+  const n = cells.length;
+  const minGap = Math.min(...cells.map((c) => c.gapEv));
+  const lo = Math.max(0.05, minGap - 0.6);
+  const hi = Math.max(4.6, Math.max(...cells.map((c) => c.gapEv)) + 0.5);
+  const edges: number[] = [];
+  for (let e = lo; e < hi; e += BIN_STEP_EV) edges.push(e);
+  edges.push(hi);
+  for (const c of cells) if (c.gapEv > lo && c.gapEv < hi) edges.push(c.gapEv);
+  edges.sort((a, b) => a - b);
+  const jgen = new Float64Array(n);
+  const j0 = new Float64Array(n);
+  const t = spec.tempK;
+  let incident = 0;
+  const addBin = (eMid: number, photons: number, kernel: number) => {
+    let flux = photons * (1 - spectralValueAt(spec.frontReflectance, eMid));
+    if (eMid >= minGap) incident += flux;
+    for (let i = 0; i < n; i++) {
+      const a = absorptanceAt(cells[i].absorptance, cells[i].gapEv, eMid);
+      jgen[i] += flux * a;
+      j0[i] += kernel * a;
+      flux *= 1 - a;
+      if (i < n - 1) flux *= spectralValueAt(spec.interlayerTransmittance[i], eMid);
+    }
+  };
+  let nPrev = photonsAboveEv(spectrum, edges[0]);
+  let bPrev = boseEinsteinTailEv3(edges[0], t);
+  for (let k = 1; k < edges.length; k++) {
+    if (edges[k] - edges[k - 1] < 1e-12) continue;
+    const nk = photonsAboveEv(spectrum, edges[k]);
+    const bk = boseEinsteinTailEv3(edges[k], t);
+    addBin(0.5 * (edges[k] + edges[k - 1]), nPrev - nk, bPrev - bk);
+    nPrev = nk;
+    bPrev = bk;
+  }
+  // Everything above the last edge, at the last absorptance.
+  addBin(hi, nPrev, bPrev);
+  for (let i = 0; i < n; i++) {
+    jgen[i] *= ELEMENTARY_CHARGE_C;
+    j0[i] *= ELEMENTARY_CHARGE_C * BLACKBODY_PREFACTOR_EV;
+  }
+  return { jgenAm2: jgen, j0RadAm2: j0, incidentAboveLowestGapAm2: ELEMENTARY_CHARGE_C * incident };
+}
+
+/** Optics of a stack under a spectrum, by the fastest exact path that applies. */
+export function stackOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
+  return isStepOptics(spec) ? stepOptics(spec, spectrum) : binnedOptics(spec, spectrum);
+}
