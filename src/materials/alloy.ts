@@ -344,11 +344,12 @@ export function describeGap(family: AbsorberFamily, gapEv: number): GapDescripti
     const parts = compositions.map(
       (c) => `${sym}=${xs(c.x)}${compositions.length > 1 ? (c.inWindow ? ' (in window)' : ' (outside window)') : ''}`,
     );
-    const needs = `${eV(gapEv)} eV needs ${parts.join(' or ')} (${family.variable?.meaning ?? 'composition'})`;
+    const needs = `${eV(gapEv)} eV needs ${parts.join(' or ')}, where ${sym} = ${family.variable?.meaning ?? 'composition'}`;
     if (compositions.every((c) => c.inWindow)) {
       note = `${needs}; inside the practical window ${windowText(family)}`;
     } else if (inWindow) {
-      note = `${needs}; only the in-window composition is practical (window ${windowText(family)}: ${family.window.reason})`;
+      const good = compositions.filter((c) => c.inWindow).map((c) => `${sym}=${xs(c.x)}`);
+      note = `${needs}; only ${good.join(' or ')} lies in the practical window ${windowText(family)}: ${family.window.reason}`;
     } else {
       note = `${needs}; outside the practical window ${windowText(family)}: ${family.window.reason}`;
     }
