@@ -1,0 +1,16 @@
+/** Plain-text tables for the terminal. */
+
+export function table(headers: string[], rows: (string | number)[][]): string {
+  const cells = [headers, ...rows.map((r) => r.map((c) => String(c)))];
+  const widths = headers.map((_, k) => Math.max(...cells.map((r) => (r[k] ?? '').length)));
+  const line = (r: string[]) => r.map((c, k) => (k === 0 ? c.padEnd(widths[k]) : c.padStart(widths[k]))).join('  ');
+  return [line(cells[0]), widths.map((w) => '-'.repeat(w)).join('  '), ...cells.slice(1).map(line)].join('\n');
+}
+
+export const pct = (fraction: number, digits = 2) => `${(fraction * 100).toFixed(digits)} %`;
+export const fix = (x: number | null | undefined, digits: number) => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(digits));
+
+/** Round for JSON output without losing meaningful digits. */
+export function round(x: number, sig = 10): number {
+  return Number.isFinite(x) ? Number(x.toPrecision(sig)) : x;
+}

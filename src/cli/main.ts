@@ -1,0 +1,98 @@
+/**
+ * The gapstack command line: a thin shell over the library. Each command's
+ * module loads only when it runs, so a quick call stays quick.
+ */
+import yargs, { type Argv } from 'yargs';
+import { hideBin } from 'yargs/helpers';
+import { UserError } from '../errors.js';
+
+const EXIT_USER = 2;
+const EXIT_INTERNAL = 1;
+
+function lightOptions<T>(y: Argv<T>) {
+  return y
+    .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt), blackbody:<K>, or a table file', default: 'am1.5g' })
+    .option('suns', { type: 'string', describe: 'concentration [suns], a number or "max" (full concentration ≈ 46 240)' })
+    .option('irradiance', { type: 'string', describe: 'rescale the spectrum to this irradiance [W/m²]' })
+    .option('units', { type: 'string', describe: 'units of a headerless file: "<nm|um|eV>,<W/m2/nm|W/m2/um|W/m2/eV|photons/m2/s/nm|…>"' });
+}
+
+function stackOptions<T>(y: Argv<T>) {
+  return y
+    .option('wiring', { type: 'string', describe: 'series (2T) | independent (4T) | 3t | vm:M:N (voltage-matched strings)', default: 'series' })
+    .option('temp', { type: 'string', describe: 'cell temperature [K] (default 300 K, the detailed-balance convention)' })
+    .option('ere', { type: 'string', describe: 'external radiative efficiency (0, 1], one value or one per subcell' })
+    .option('voc-loss', { type: 'string', describe: 'non-radiative Voc loss [V] instead of --ere, one value or one per subcell' })
+    .option('lc', { type: 'string', describe: 'luminescent coupling: η (one or one per interface), or radiative[:n] (default: isolated)' })
+    .option('top-absorptance', { type: 'string', describe: 'constant absorptance of the top cell above its gap (0, 1]' })
+    .option('top-thickness', { type: 'string', describe: 'top-cell thickness [nm] with a direct-gap absorption edge' })
+    .option('top-alpha0', { type: 'string', describe: 'top-cell α at 1 eV above the gap [cm⁻¹] (default 1.5e5)' })
+    .option('top-urbach', { type: 'string', describe: 'top-cell Urbach energy [eV] (default 0.015)' })
+    .option('top-optics', { type: 'string', describe: 'top-cell light path: single | double | lambertian (default single)' })
+    .option('reflectance', { type: 'string', describe: 'front reflectance [0, 1) (default 0)' })
+    .option('interlayer-t', { type: 'string', describe: 'transmittance of each interlayer (0, 1], one value or one per interface (default 1)' });
+}
+
+type Handler = (a: Record<string, unknown>) => Promise<void>;
+
+/** Register a command; yargs' inferred option types are not needed past this point. */
+function command(cli: Argv, name: string, describe: string, builder: (y: Argv) => Argv, handler: Handler): Argv {
+  return cli.command(name, describe, builder as never, handler as never);
+}
+
+async function run(argv: string[]): Promise<void> {
+  const debug = argv.includes('--debug');
+  const print = (text: string): void => {
+    process.stdout.write(text.endsWith("\n") ? text : `${text}\n`);
+  };
+  let cli: Argv = yargs(argv)
+    .scriptName('gapstack')
+    .usage('$0 <command> [options]\n\nDetailed-balance design of multijunction solar-cell stacks. Results are theoretical limits.');
+  cli = command(
+      cli,
+      'evaluate',
+      'efficiency of one stack: Jsc, Voc, FF, operating point of every subcell',
+      (y) => stackOptions(lightOptions(y)).option('gaps', { type: 'string', describe: 'band gaps [eV], top first, e.g. 1.72,1.12', demandOption: true }).option('json', { type: 'boolean', default: false }),
+      async (a) => print((await import('./evaluate-command.js')).evaluateCommand(a as never)),
+    );
+  cli = command(
+      cli,
+      'spectrum [source]',
+      'irradiance, photon flux, average photon energy and photon current above gaps of a light source',
+      (y) =>
+        lightOptions(y)
+          .positional('source', { type: 'string', describe: 'am1.5g | blackbody:<K> | file' })
+          .option('gaps', { type: 'string', describe: 'gaps [eV] for the photon-current table' })
+          .option('ape-window', { type: 'string', describe: 'window for the average photon energy [nm], low:high (default 350:1050)' })
+          .option('json', { type: 'boolean', default: false }),
+      async (args) => {
+        if (args.source !== undefined) args.spectrum = args.source;
+        print((await import('./spectrum-command.js')).spectrumCommand(args as never));
+      },
+    );
+  cli = cli
+    .demandCommand(1, 'name a command; see gapstack --help')
+    .option('debug', { type: 'boolean', describe: 'print internal details on failure', default: false })
+    .strict()
+    .help()
+    .alias('h', 'help')
+    .version()
+    .wrap(Math.min(110, process.stdout.columns || 100))
+    .fail((msg, err) => {
+      throw err ?? new UserError(msg);
+    });
+  try {
+    await cli.parseAsync();
+  } catch (err) {
+    if (err instanceof UserError || (err as Error)?.name === 'YError') {
+      process.stderr.write(`gapstack: ${(err as Error).message.split('\n')[0]}\n`);
+      process.exitCode = EXIT_USER;
+      return;
+    }
+    const e = err as Error;
+    process.stderr.write(`gapstack: internal error: ${e?.message ?? String(e)}${debug ? `\n${e?.stack ?? ''}` : ' (rerun with --debug for details)'}\n`);
+    process.exitCode = EXIT_INTERNAL;
+  }
+}
+
+await run(hideBin(process.argv));

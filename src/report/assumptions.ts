@@ -1,0 +1,48 @@
+/**
+ * The words that travel with every number: what was assumed, and the caution
+ * that detailed-balance results are limits, not device predictions.
+ */
+import type { Spectrum } from '../light/spectrum.js';
+import type { Coupling, StackSpec, AbsorptanceModel } from '../stack/model.js';
+
+export const CAUTION =
+  'These are detailed-balance limits under the stated assumptions, not predictions of a real device. ' +
+  'They are no substitute for certified measurement, engineering sign-off, local codes or licensed professional practice.';
+
+export const EMISSION_CONVENTION = 'radiative emission through the front surface only, into air (solid angle π); no rear emission';
+
+export function describeCoupling(c: Coupling): string {
+  switch (c.model) {
+    case 'none':
+      return 'isolated subcells (no luminescent coupling)';
+    case 'empirical':
+      return `empirical luminescent coupling η = ${c.eta.join(', ')} per interface (J0 unchanged)`;
+    case 'radiative':
+      return `radiative-limit coupling, index n = ${c.refractiveIndex}: downward share n²/(1+n²) of radiative recombination, upper-cell J0 × (1+n²)`;
+  }
+}
+
+export function describeAbsorptance(a: AbsorptanceModel): string {
+  switch (a.kind) {
+    case 'step':
+      return a.value === 1 ? 'ideal step' : `step, absorptance ${a.value}`;
+    case 'beer-lambert':
+      return `Beer–Lambert ${a.passes === 2 ? 'double' : 'single'} pass, ${a.thicknessNm} nm`;
+    case 'lambertian':
+      return `Lambertian trapping (n = ${a.refractiveIndex}), ${a.thicknessNm} nm`;
+  }
+}
+
+/** Assumption lines for a stack under a spectrum. */
+export function assumptionLines(spec: StackSpec, spectrum: Spectrum): string[] {
+  const eres = spec.subcells.map((c) => c.ere);
+  const optics = spec.subcells.map((c, i) => `${i + 1}: ${describeAbsorptance(c.absorptance)}`).join('; ');
+  return [
+    `spectrum: ${spectrum.name}, P_in = ${spectrum.pinWm2.toFixed(2)} W/m², SHA-256 ${spectrum.sha256.slice(0, 16)}…`,
+    `cell temperature: ${spec.tempK} K${spec.tempK === 300 ? ' (the detailed-balance convention)' : ''}`,
+    `emission: ${EMISSION_CONVENTION}`,
+    `ERE: ${eres.every((e) => e === 1) ? '1 (fully radiative)' : eres.join(', ')}`,
+    `optics: ${optics}; front reflectance ${typeof spec.frontReflectance === 'number' ? spec.frontReflectance : 'tabulated'}`,
+    `coupling: ${describeCoupling(spec.coupling)}`,
+  ];
+}
