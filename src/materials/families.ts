@@ -184,7 +184,7 @@ const FAMILIES: readonly AbsorberFamily[] = [
     window: {
       gapEv: [GAAS_EV, 1.9],
       reason:
-        'becomes indirect near x ≈ 0.43–0.45 (Γ–X crossover at ≈2.0 eV from the Vurgaftman 2001 parameters), above which the model’s Γ gap is no longer the absorption edge; Al-rich layers oxidise and DX centres appear in n-type material above x ≈ 0.2, so absorbers stay below ≈1.9 eV (common practice)',
+        'becomes indirect near x ≈ 0.43–0.45 (Γ–X crossover at ≈2.0 eV from the Vurgaftman 2001 parameters), above which the model’s Γ gap is no longer the absorption edge; Al-rich layers oxidise and DX centres appear in n-type material above x ≈ 0.2, so absorbers stay below ≈1.9 eV (DX-centre onset from memory; the 1.9 eV limit is common practice)',
     },
     dEgDtEvPerK: interpolatedSlope(III_V_GAMMA.GaAs, III_V_GAMMA.AlAs, 0.2),
     refractiveIndex: 3.5,
