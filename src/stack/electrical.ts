@@ -29,9 +29,6 @@ export function cascadePhotocurrents(el: StackElectrical, currents: Float64Array
   for (let i = 1; i < n; i++) jph[i] = el.jgenAm2[i] + el.eta[i - 1] * (jph[i - 1] - currents[i - 1]);
 }
 
-/** Relative tolerance on the operating current. */
-export const CURRENT_RTOL = 1e-12;
-
 /**
  * Maximise f(J) = J·Σ_{in} V_t ln(u_i/J0_i) + Σ_{out} J_i·V_t ln(u_i/J0_i) over J ≥ 0
  * where u_i = c_i + d_i·J. `inGroup[i]` marks the cells that carry J; `fixedJ[i]`
@@ -66,20 +63,27 @@ export function maximiseGroupCurrent(
     return second ? vt * s2 : vt * s;
   };
   if (slope(0, false) <= 0) return 0;
-  let lo = 0;
-  let hi = jMax;
-  let j = jMax * 0.97;
+  // Newton in y = ln(J_max − J), where the log barrier at J_max becomes an
+  // exponential wall and dP/dJ is smooth; bracketed so it cannot escape.
+  let sLog = 0;
+  for (let i = 0; i < n; i++) if (inGroup[i]) sLog += Math.log(Math.max(c[i], j0[i] * 1.0000001) / j0[i]);
+  const yMax = Math.log(jMax);
+  let yLo = -Infinity;
+  let yHi = yMax;
+  let y = yMax - Math.log(Math.max(1, sLog) + 1);
   for (let it = 0; it < 200; it++) {
+    const t = Math.exp(y);
+    const j = jMax - t;
     const g = slope(j, false);
-    if (g > 0) lo = j;
-    else hi = j;
-    const g2 = slope(j, true);
-    let next = j - g / g2;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - j) <= CURRENT_RTOL * next || hi - lo <= CURRENT_RTOL * hi) return next;
-    j = next;
+    if (g < 0) yLo = y;
+    else yHi = y;
+    const gy = -t * slope(j, true);
+    let next = y - g / gy;
+    if (!(next > yLo && next < yHi)) next = Number.isFinite(yLo) ? 0.5 * (yLo + yHi) : Math.min(y, yHi) - 2;
+    if (Math.abs(next - y) < 1e-13 || yHi - yLo < 1e-13) return jMax - Math.exp(next);
+    y = next;
   }
-  return j;
+  return jMax - Math.exp(y);
 }
 
 /** Result of operating a stack. */

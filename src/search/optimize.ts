@@ -1,0 +1,228 @@
+/**
+ * Global search for the gaps of a stack (PHYSICS.md §6): enumerate ordered
+ * combinations on a coarse axis that also holds the spectrum's band edges,
+ * keep every combination within a margin of the best, refine many distinct
+ * seeds locally to sub-meV, and report the best, the runner-up basins and the
+ * tolerance region.
+ */
+import { UserError } from '../errors.js';
+import { bandEdgeEnergiesEv, gapAxis } from './axis.js';
+import { enumerateGeneric, enumerateStep, type Candidate } from './enumerate.js';
+import { compassMax, nelderMeadMax, type Box } from './refine.js';
+import { StepObjective, type GapObjective } from './step-objective.js';
+
+export interface SearchProblem {
+  cells: number;
+  /** Global gap span [eV], default 0.5–2.6. */
+  spanEv: [number, number];
+  /** Per-subcell gap range [eV] (undefined: the span). */
+  ranges: ([number, number] | undefined)[];
+  /** Per-subcell fixed gap [eV]. */
+  fixed: (number | undefined)[];
+  /** Coarse grid step [eV]; default by number of free subcells. */
+  stepEv?: number;
+  /** Relative loss that defines the tolerance region [-], default 0.01. */
+  loss: number;
+  /** Candidate margin (relative) kept from the coarse pass [-]. */
+  margin?: number;
+  /** Seeds refined locally. */
+  seeds?: number;
+  progress?: (fraction: number) => void;
+}
+
+export interface Basin {
+  gapsEv: number[];
+  value: number;
+}
+
+export interface ToleranceInterval {
+  /** 0-based subcell index. */
+  subcell: number;
+  gapEv: number;
+  lowEv: number;
+  highEv: number;
+  /** The interval reaches the edge of the allowed range there: the true edge lies beyond. */
+  openLow: boolean;
+  openHigh: boolean;
+}
+
+export interface ToleranceRegion {
+  loss: number;
+  threshold: number;
+  /** Slices through the optimum, other gaps held at their optimum. */
+  intervals: ToleranceInterval[];
+}
+
+export interface SearchResult {
+  best: Basin;
+  basins: Basin[];
+  tolerance: ToleranceRegion;
+  stats: { stepEv: number; axisPoints: number; edgePoints: number; leaves: number; pruned: number; seeds: number; evaluations: number; seconds: number };
+  /** Bounds actually used per subcell [eV]. */
+  bounds: [number, number][];
+}
+
+/** Default coarse step [eV] by number of free subcells. */
+export function defaultStepEv(free: number): number {
+  return [0.005, 0.005, 0.005, 0.01, 0.02, 0.03, 0.04][Math.min(free, 6)];
+}
+
+/** Per-subcell bounds [eV] after span, ranges and fixed gaps, checked for feasibility. */
+export function subcellBounds(p: SearchProblem): [number, number][] {
+  const [s0, s1] = p.spanEv;
+  if (!(s0 > 0 && s1 > s0)) throw new UserError(`--span must be a positive range low:high in eV, got ${s0}:${s1}`);
+  const bounds: [number, number][] = [];
+  for (let i = 0; i < p.cells; i++) {
+    const f = p.fixed[i];
+    const r = p.ranges[i];
+    if (f !== undefined && r !== undefined) throw new UserError(`subcell ${i + 1} is both fixed and given a range; choose one`);
+    if (f !== undefined) {
+      if (!(f > 0)) throw new UserError(`--fix ${i + 1}=${f}: gap must be positive eV`);
+      bounds.push([f, f]);
+    } else if (r) {
+      const lo = Math.max(r[0], s0);
+      const hi = Math.min(r[1], s1);
+      if (!(hi >= lo)) throw new UserError(`--range ${i + 1}=${r[0]}:${r[1]} lies outside the span ${s0}:${s1} eV`);
+      bounds.push([lo, hi]);
+    } else bounds.push([s0, s1]);
+  }
+  // Ordering: each subcell must be able to sit below the one above.
+  for (let i = 1; i < p.cells; i++) {
+    if (!(bounds[i][0] < bounds[i - 1][1])) {
+      throw new UserError(`subcell ${i + 1} (≥ ${bounds[i][0]} eV) cannot lie below subcell ${i} (≤ ${bounds[i - 1][1]} eV): gaps must descend from the top`);
+    }
+  }
+  return bounds;
+}
+
+function distinctSeeds(cands: Candidate[], count: number, radius: number): Candidate[] {
+  const seeds: Candidate[] = [];
+  for (const c of cands) {
+    if (seeds.length >= count) break;
+    if (seeds.every((s) => s.gapsEv.some((g, i) => Math.abs(g - c.gapsEv[i]) > radius))) seeds.push(c);
+  }
+  return seeds;
+}
+
+/** Run the global search. */
+export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = []): SearchResult {
+  const t0 = performance.now();
+  const n = p.cells;
+  if (!(n >= 1 && n <= 6)) throw new UserError(`--cells must be 1 to 6, got ${n}`);
+  if (obj.cells !== n) throw new Error('objective and problem disagree on the number of subcells');
+  if (!(p.loss > 0 && p.loss < 0.5)) throw new UserError(`--loss must be a relative loss within (0, 0.5), got ${p.loss}`);
+  const bounds = subcellBounds(p);
+  const freeIdx = bounds.map((b, i) => (b[0] === b[1] ? -1 : i)).filter((i) => i >= 0);
+  const fast = obj instanceof StepObjective;
+  const step = p.stepEv ?? (fast ? defaultStepEv(freeIdx.length) : Math.max(0.02, defaultStepEv(freeIdx.length) * 2));
+  if (!(step >= 1e-4 && step <= 0.2)) throw new UserError(`--step must be within 0.0001–0.2 eV, got ${step}`);
+  const fixedValues = bounds.filter((b) => b[0] === b[1]).map((b) => b[0]);
+  const rangeEnds = bounds.flat();
+  const lo = Math.min(...bounds.map((b) => b[0]));
+  const hi = Math.max(...bounds.map((b) => b[1]));
+  const edges = edgeEnergiesEv.filter((e) => e > lo && e < hi);
+  const axis = gapAxis(lo, hi, step, [...edges, ...fixedValues, ...rangeEnds]);
+  const ranges: [number, number][] = bounds.map(([a, b]) => {
+    let i0 = 0;
+    while (i0 < axis.length && axis[i0] < a - 1e-12) i0++;
+    let i1 = axis.length - 1;
+    while (i1 >= 0 && axis[i1] > b + 1e-12) i1--;
+    return [i0, i1];
+  });
+  const margin = p.margin ?? 0.01;
+  let evaluations = 0;
+  const value = (gaps: number[]) => {
+    evaluations++;
+    return obj.value(gaps);
+  };
+  const en = fast
+    ? enumerateStep(obj as StepObjective, { axis, ranges, margin, progress: p.progress })
+    : enumerateGeneric(value, n, axis, ranges, margin, p.progress);
+  if (!(en.best.value > 0)) throw new UserError('no stack in the allowed ranges produces power; check --span, --range and --fix');
+  evaluations += fast ? en.leaves : 0;
+
+  // Refine distinct seeds over the free gaps only.
+  const seeds = distinctSeeds(en.candidates, p.seeds ?? (n <= 2 ? 40 : 24), 1.5 * step);
+  const box: Box = { lo: freeIdx.map((i) => bounds[i][0]), hi: freeIdx.map((i) => bounds[i][1]) };
+  const full = (free: number[]) => {
+    const g = bounds.map((b) => b[0]);
+    freeIdx.forEach((i, k) => (g[i] = free[k]));
+    return g;
+  };
+  const f = (free: number[]) => value(full(free));
+  const refined: Basin[] = [];
+  for (const s of seeds) {
+    const x0 = freeIdx.map((i) => s.gapsEv[i]);
+    const nm = nelderMeadMax(f, x0, step / 2, box, 2e-6, 3000);
+    const polished = compassMax(f, nm.x, 0.002, box, 2e-5);
+    refined.push({ gapsEv: full(polished.x), value: polished.value });
+  }
+  refined.sort((a, b) => b.value - a.value);
+  const basins: Basin[] = [];
+  for (const r of refined) if (basins.every((b) => b.gapsEv.some((g, i) => Math.abs(g - r.gapsEv[i]) > 0.003))) basins.push(r);
+  const best = basins[0];
+  const tolerance = toleranceIntervals(value, best, bounds, p.loss);
+  return {
+    best,
+    basins: basins.slice(1, 8),
+    tolerance,
+    bounds,
+    stats: {
+      stepEv: step,
+      axisPoints: axis.length,
+      edgePoints: edges.length,
+      leaves: en.leaves,
+      pruned: en.pruned,
+      seeds: seeds.length,
+      evaluations,
+      seconds: (performance.now() - t0) / 1000,
+    },
+  };
+}
+
+/** Slice intervals of the tolerance region: each free gap moved alone, others at the optimum. */
+export function toleranceIntervals(value: (g: number[]) => number, best: Basin, bounds: [number, number][], loss: number): ToleranceRegion {
+  const threshold = best.value * (1 - loss);
+  const intervals: ToleranceInterval[] = [];
+  best.gapsEv.forEach((g0, i) => {
+    if (bounds[i][0] === bounds[i][1]) return;
+    const at = (e: number) => {
+      const g = best.gapsEv.slice();
+      g[i] = e;
+      return value(g);
+    };
+    const edge = (dir: 1 | -1): { e: number; open: boolean } => {
+      const limitOrder = dir > 0 ? (i > 0 ? best.gapsEv[i - 1] : Infinity) : i < best.gapsEv.length - 1 ? best.gapsEv[i + 1] : -Infinity;
+      const limit = dir > 0 ? Math.min(bounds[i][1], limitOrder - 1e-6) : Math.max(bounds[i][0], limitOrder + 1e-6);
+      let inside = g0;
+      let h = 0.001;
+      for (;;) {
+        const next = inside + dir * h;
+        if ((dir > 0 && next >= limit) || (dir < 0 && next <= limit)) {
+          if (at(limit) >= threshold) return { e: limit, open: true };
+          return { e: bisect(at, inside, limit, threshold), open: false };
+        }
+        if (at(next) < threshold) return { e: bisect(at, inside, next, threshold), open: false };
+        inside = next;
+        h = Math.min(h * 1.5, 0.02);
+      }
+    };
+    const low = edge(-1);
+    const high = edge(1);
+    intervals.push({ subcell: i, gapEv: g0, lowEv: low.e, highEv: high.e, openLow: low.open, openHigh: high.open });
+  });
+  return { loss, threshold, intervals };
+}
+
+function bisect(f: (e: number) => number, inside: number, outside: number, threshold: number): number {
+  let a = inside;
+  let b = outside;
+  for (let k = 0; k < 60 && Math.abs(b - a) > 1e-6; k++) {
+    const m = 0.5 * (a + b);
+    if (f(m) >= threshold) a = m;
+    else b = m;
+  }
+  return 0.5 * (a + b);
+}
+
+export { bandEdgeEnergiesEv };
