@@ -70,6 +70,64 @@ async function run(argv: string[]): Promise<void> {
         print((await import('./spectrum-command.js')).spectrumCommand(args as never));
       },
     );
+  const searchOptions = (y: Argv) =>
+    stackOptions(lightOptions(y))
+      .option('cells', { type: 'string', describe: 'number of subcells, 1–6', default: '2' })
+      .option('fix', { type: 'string', array: true, describe: 'fix a subcell gap: i=E [eV], 1 = top (repeatable), e.g. --fix 2=1.12' })
+      .option('range', { type: 'string', array: true, describe: 'limit a subcell gap: i=low:high [eV] (repeatable)' })
+      .option('material', { type: 'string', array: true, describe: 'bind a subcell to an absorber family: i=<id> (see gapstack materials)' })
+      .option('full-range', { type: 'boolean', default: false, describe: 'let material-bound subcells use the family\'s full reach, not its practical window (warns)' })
+      .option('span', { type: 'string', describe: 'global gap span [eV], low:high (default 0.5:2.6)' })
+      .option('ensemble', { type: 'string', describe: 'a set of spectra (folder, manifest or wide table): maximise the yield-weighted efficiency' });
+  cli = command(
+    cli,
+    'optimize',
+    'global optimum gaps, runner-up basins and the tolerance region',
+    (y) =>
+      searchOptions(y)
+        .option('step', { type: 'string', describe: 'coarse grid step [eV] (default 5–40 meV by free subcells); refinement goes below 1 meV' })
+        .option('loss', { type: 'string', describe: 'relative efficiency loss that bounds the tolerance region (default 0.01)' })
+        .option('free-top-absorptance', { type: 'boolean', default: false, describe: '2T: let the search thin the top cell (constant absorptance above its gap)' })
+        .option('json', { type: 'boolean', default: false }),
+    async (a) => print(await (await import('./optimize-command.js')).optimizeCommand(a as never)),
+  );
+  cli = command(
+    cli,
+    'map',
+    'efficiency over two subcell gaps (others fixed, or maximised: a profile map) as CSV or JSON',
+    (y) =>
+      searchOptions(y)
+        .option('axes', { type: 'string', describe: 'the two mapped subcells "i,j", upper first (default 1,2)' })
+        .option('x', { type: 'string', describe: 'gap range of the upper mapped subcell [eV], low:high', demandOption: true })
+        .option('y', { type: 'string', describe: 'gap range of the lower mapped subcell [eV], low:high', demandOption: true })
+        .option('step', { type: 'string', describe: 'map resolution [eV]', demandOption: true })
+        .option('out', { type: 'string', describe: 'write the map to a .csv or .json file (atomically)' })
+        .option('json', { type: 'boolean', default: false }),
+    async (a) => print(await (await import('./map-command.js')).mapCommand(a as never)),
+  );
+  cli = command(
+    cli,
+    'materials [id]',
+    'absorber families: composition ↔ gap and practical windows',
+    (y) =>
+      y
+        .positional('id', { type: 'string', describe: 'family id, e.g. perovskite-i-br' })
+        .option('gap', { type: 'string', describe: 'gap [eV] → composition(s)' })
+        .option('composition', { type: 'string', describe: 'composition x → gap [eV]' })
+        .option('json', { type: 'boolean', default: false }),
+    async (a) => {
+      const { parseNumber } = await import('./options.js');
+      const { materialsCommand } = await import('./materials-command.js');
+      print(
+        materialsCommand({
+          id: a.id as string | undefined,
+          gap: a.gap === undefined ? undefined : parseNumber('gap', a.gap),
+          composition: a.composition === undefined ? undefined : parseNumber('composition', a.composition),
+          json: Boolean(a.json),
+        }),
+      );
+    },
+  );
   cli = cli
     .demandCommand(1, 'name a command; see gapstack --help')
     .option('debug', { type: 'boolean', describe: 'print internal details on failure', default: false })

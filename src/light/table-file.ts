@@ -5,7 +5,7 @@
  * or unambiguous, and every rejected value names its file and line.
  */
 import { readFileSync, statSync } from 'node:fs';
-import { parse } from 'csv-parse/sync';
+import { createRequire } from 'node:module';
 import { HC_EV_NM, HC_J_NM } from '../physics/constants.js';
 import { UserError, fileError } from '../errors.js';
 import { makeSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
@@ -78,7 +78,27 @@ interface Row {
   cells: string[];
 }
 
+const requireCjs = createRequire(import.meta.url);
+/** csv-parse loads on first use: the built-in spectrum never needs it. */
+const csvParse = (): typeof import('csv-parse/sync').parse => (requireCjs('csv-parse/sync') as typeof import('csv-parse/sync')).parse;
+
+/** Rows of a plain two-column numeric table with # comments, without csv-parse (fast path). */
+function splitPlainRows(text: string): Row[] | null {
+  const rows: Row[] = [];
+  const lines = text.split('\n');
+  for (let i = 0; i < lines.length; i++) {
+    const l = lines[i].trim();
+    if (l === '' || l.startsWith('#')) continue;
+    if (l.includes(',') || l.includes(';') || l.includes('"')) return null;
+    rows.push({ line: i + 1, cells: l.split(/[ \t]+/) });
+  }
+  return rows;
+}
+
 function splitRows(file: string, text: string): Row[] {
+  const plain = splitPlainRows(text);
+  if (plain) return plain;
+  const parse = csvParse();
   const lines = text.split(/\r?\n/);
   const firstData = lines.find((l) => l.trim() !== '' && !l.trim().startsWith('#')) ?? '';
   const delimiter = firstData.includes(',') ? ',' : firstData.includes(';') ? ';' : '\t';

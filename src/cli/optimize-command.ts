@@ -1,0 +1,143 @@
+/** `gapstack optimize`: the global optimum, runner-up basins and tolerance region. */
+import type { Spectrum } from '../light/spectrum.js';
+import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
+import type { StackSpec } from '../stack/model.js';
+import { evaluateStack } from '../stack/evaluate.js';
+import { assumptionLines, CAUTION, describeCoupling, EMISSION_CONVENTION } from '../report/assumptions.js';
+import { fix, pct, round, table } from './format.js';
+import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
+import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
+import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
+import { startProgress } from './progress.js';
+
+export interface OptimizeArgs extends LightArgs, StackArgs, ConstraintArgs, SpectraArgs {
+  cells?: unknown;
+  span?: unknown;
+  step?: unknown;
+  loss?: unknown;
+  freeTopAbsorptance?: boolean;
+  json?: boolean;
+}
+
+const gapsText = (g: number[]) => g.map((x) => x.toFixed(4)).join(' / ');
+
+export function optimizeJson(spec: StackSpec, spectra: { label: string; spectrum: Spectrum }[], d: DesignSearchResult): Record<string, unknown> {
+  const r = d.result;
+  const basin = (b: { gapsEv: number[]; value: number }) => ({ gaps_ev: b.gapsEv.map((g) => round(g, 7)), efficiency: round(b.value, 10) });
+  return {
+    objective: d.objective.label,
+    cells: spec.subcells.length,
+    wiring: spec.wiring.label,
+    temp_k: spec.tempK,
+    coupling: { ...spec.coupling, description: describeCoupling(spec.coupling) },
+    emission: EMISSION_CONVENTION,
+    best: {
+      ...basin(r.best),
+      ...(d.topAbsorptance !== undefined ? { top_absorptance: round(d.topAbsorptance, 6) } : {}),
+      compositions: d.compositions.map((c) => ({
+        subcell: c.subcell + 1,
+        family: c.family,
+        gap_ev: round(c.gapEv, 7),
+        compositions: c.compositions.map((x) => ({ x: round(x.x, 6), in_window: x.inWindow })),
+        in_window: c.inWindow,
+        note: c.note,
+      })),
+    },
+    basins: r.basins.map(basin),
+    tolerance: {
+      loss_rel: r.tolerance.loss,
+      threshold_efficiency: round(r.tolerance.threshold, 10),
+      intervals: r.tolerance.intervals.map((t) => ({
+        subcell: t.subcell + 1,
+        gap_ev: round(t.gapEv, 7),
+        low_ev: round(t.lowEv, 6),
+        high_ev: round(t.highEv, 6),
+        open_low: t.openLow,
+        open_high: t.openHigh,
+      })),
+      convention: 'each interval moves one gap with the others held at the optimum; open_* means the interval reaches the allowed range there',
+    },
+    unconstrained: d.unconstrained ? basin(d.unconstrained.best) : null,
+    warnings: d.warnings,
+    bounds_ev: r.bounds,
+    search: {
+      step_ev: r.stats.stepEv,
+      axis_points: r.stats.axisPoints,
+      band_edge_points: r.stats.edgePoints,
+      combinations: r.stats.leaves,
+      pruned: r.stats.pruned,
+      seeds_refined: r.stats.seeds,
+      evaluations: r.stats.evaluations,
+      seconds: round(r.stats.seconds, 4),
+    },
+    spectra: spectra.map((s) => ({ label: s.label, name: s.spectrum.name, sha256: s.spectrum.sha256, pin_w_m2: round(s.spectrum.pinWm2) })),
+    caution: CAUTION,
+  };
+}
+
+export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
+  const cells = cellsFromArgs(a.cells);
+  const placeholder = Array.from({ length: cells }, (_, i) => 2.5 - i * 0.3);
+  const spec = stackFromArgs(placeholder, a);
+  const constraints = constraintsFromArgs(a, cells);
+  const members = await spectraFromArgs(a, spec.tempK);
+  const bar = a.json ? null : await startProgress('searching');
+  let d: DesignSearchResult;
+  try {
+    d = runDesignSearch({
+      template: spec,
+      spectra: members,
+      constraints,
+      spanEv: spanFromArgs(a.span),
+      stepEv: stepFromArgs(a.step),
+      loss: lossFromArgs(a.loss),
+      freeTopAbsorptance: Boolean(a.freeTopAbsorptance),
+      progress: bar?.update,
+    });
+  } finally {
+    bar?.stop();
+  }
+  if (a.json) return JSON.stringify(optimizeJson(spec, members, d), null, 2);
+  const r = d.result;
+  const first = members[0].spectrum;
+  const bestSpec = { ...spec, subcells: spec.subcells.map((c, i) => ({ ...c, gapEv: r.best.gapsEv[i] })) };
+  const detail = members.length === 1 && d.topAbsorptance === undefined ? evaluateStack(bestSpec, first) : null;
+  const lines = [
+    `Best ${d.objective.label}: ${pct(r.best.value, 3)}  wiring ${spec.wiring.label}, ${cells} subcell(s)`,
+    `Gaps [eV], top first: ${gapsText(r.best.gapsEv)}${d.topAbsorptance !== undefined ? `   top absorptance ${d.topAbsorptance.toFixed(3)}` : ''}`,
+  ];
+  if (detail) {
+    lines.push(
+      '',
+      table(
+        ['cell', 'gap [eV]', 'Jph [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]'],
+        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), fix(c.jphAm2 / 10, 2), fix(c.vocV, 4), fix(c.ff, 4), fix(c.jOpAm2 / 10, 2), fix(c.vOpV, 4)]),
+      ),
+    );
+  }
+  for (const c of d.compositions) {
+    const xs = c.compositions.map((x) => `x = ${x.x.toFixed(3)}${x.inWindow ? '' : ' (outside practical window)'}`).join(', ');
+    lines.push(`Subcell ${c.subcell + 1} as ${c.familyName}: ${xs || c.note}`);
+  }
+  lines.push('', `Tolerance region: gaps keeping ${d.objective.label} ≥ ${pct(r.tolerance.threshold, 3)} (${(r.tolerance.loss * 100).toFixed(2)} % relative loss), one gap moved at a time:`);
+  lines.push(
+    table(
+      ['cell', 'optimum [eV]', 'low [eV]', 'high [eV]'],
+      r.tolerance.intervals.map((t) => [String(t.subcell + 1), fix(t.gapEv, 4), `${t.openLow ? '≤' : ''}${fix(t.lowEv, 4)}`, `${t.openHigh ? '≥' : ''}${fix(t.highEv, 4)}`]),
+    ),
+  );
+  if (r.basins.length > 0) {
+    lines.push('', 'Runner-up basins:');
+    lines.push(table(['gaps [eV]', d.objective.label], r.basins.slice(0, 5).map((b) => [gapsText(b.gapsEv), pct(b.value, 3)])));
+  }
+  for (const w of d.warnings) lines.push('', `Warning: ${w}`);
+  lines.push(
+    '',
+    `Search: ${r.stats.leaves} combinations on a ${r.stats.stepEv * 1000} meV grid plus ${r.stats.edgePoints} band-edge gaps, ${r.stats.seeds} seeds refined, ${r.stats.seconds.toFixed(2)} s.`,
+    ...assumptionLines(bestSpec, first).map((l) => `  ${l}`),
+    members.length > 1 ? `  ensemble of ${members.length} spectra; ${d.objective.label} = Σ w·P_max / Σ w·P_in` : '',
+    '',
+    CAUTION,
+  );
+  return lines.filter((l, i, all) => !(l === '' && all[i - 1] === '')).join('\n');
+}

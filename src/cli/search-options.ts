@@ -1,0 +1,89 @@
+/** Options shared by `optimize`, `map` and `report`: constraints, span, step and loss. */
+import { UserError } from '../errors.js';
+import { getFamily } from '../materials/index.js';
+import type { SubcellConstraint } from '../search/design-search.js';
+import { parseNumber, parseRange } from './options.js';
+
+function asList(value: unknown): string[] {
+  if (value === undefined) return [];
+  return (Array.isArray(value) ? value : [value]).flatMap((v) => String(v).split(/\s+/)).filter((v) => v !== '');
+}
+
+/** Parse "i=value" items (1-based subcell from the top). */
+export function parseIndexed(option: string, value: unknown, cells: number): Map<number, string> {
+  const out = new Map<number, string>();
+  for (const item of asList(value)) {
+    const m = /^(\d+)=(.+)$/.exec(item);
+    if (!m) throw new UserError(`--${option} takes "i=value" with i the subcell from the top (1 = top), got "${item}"`);
+    const i = Number(m[1]);
+    if (!(i >= 1 && i <= cells)) throw new UserError(`--${option} ${item}: subcell ${i} does not exist in a ${cells}-subcell stack`);
+    if (out.has(i - 1)) throw new UserError(`--${option} names subcell ${i} twice`);
+    out.set(i - 1, m[2]);
+  }
+  return out;
+}
+
+export interface ConstraintArgs {
+  fix?: unknown;
+  range?: unknown;
+  material?: unknown;
+  fullRange?: boolean;
+}
+
+/** Per-subcell constraints from --fix, --range and --material. */
+export function constraintsFromArgs(a: ConstraintArgs, cells: number): SubcellConstraint[] {
+  const out: SubcellConstraint[] = Array.from({ length: cells }, () => ({ kind: 'free' }) as SubcellConstraint);
+  const taken = new Map<number, string>();
+  const claim = (i: number, opt: string) => {
+    if (taken.has(i)) throw new UserError(`subcell ${i + 1} is given both --${taken.get(i)} and --${opt}; choose one`);
+    taken.set(i, opt);
+  };
+  for (const [i, v] of parseIndexed('fix', a.fix, cells)) {
+    claim(i, 'fix');
+    const g = parseNumber('fix', v);
+    if (!(g > 0)) throw new UserError(`--fix ${i + 1}=${v}: gap must be a positive number of eV`);
+    out[i] = { kind: 'fixed', gapEv: g };
+  }
+  for (const [i, v] of parseIndexed('range', a.range, cells)) {
+    claim(i, 'range');
+    const [lo, hi] = parseRange('range', v);
+    if (!(lo > 0)) throw new UserError(`--range ${i + 1}=${v}: gaps must be positive eV`);
+    out[i] = { kind: 'range', loEv: lo, hiEv: hi };
+  }
+  for (const [i, v] of parseIndexed('material', a.material, cells)) {
+    claim(i, 'material');
+    out[i] = { kind: 'material', family: getFamily(v), fullRange: Boolean(a.fullRange) };
+  }
+  return out;
+}
+
+/** --cells: 1 to 6. */
+export function cellsFromArgs(value: unknown): number {
+  const n = parseNumber('cells', value ?? 2);
+  if (!(Number.isInteger(n) && n >= 1 && n <= 6)) throw new UserError(`--cells must be a whole number 1–6, got ${String(value)}`);
+  return n;
+}
+
+/** --span (default 0.5–2.6 eV). */
+export function spanFromArgs(value: unknown): [number, number] {
+  if (value === undefined) return [0.5, 2.6];
+  const [lo, hi] = parseRange('span', value);
+  if (!(lo >= 0.2 && hi <= 5)) throw new UserError(`--span must lie within 0.2–5 eV, got ${String(value)}`);
+  return [lo, hi];
+}
+
+/** --loss (default 1 % relative). */
+export function lossFromArgs(value: unknown): number {
+  if (value === undefined) return 0.01;
+  const l = parseNumber('loss', value);
+  if (!(l > 0 && l < 0.5)) throw new UserError(`--loss must be a relative loss within (0, 0.5), e.g. 0.01 for 1 %, got ${l}`);
+  return l;
+}
+
+/** --step (coarse grid) [eV], optional. */
+export function stepFromArgs(value: unknown): number | undefined {
+  if (value === undefined) return undefined;
+  const s = parseNumber('step', value);
+  if (!(s >= 1e-4 && s <= 0.2)) throw new UserError(`--step must be within 0.0001–0.2 eV, got ${s}`);
+  return s;
+}

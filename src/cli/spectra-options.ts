@@ -1,0 +1,23 @@
+/** The light a search or yield uses: one spectrum, or a weighted ensemble. */
+import type { WeightedSpectrum } from '../search/step-objective.js';
+import { spectrumFromArgs, type LightArgs } from './options.js';
+import { UserError } from '../errors.js';
+
+export interface SpectraArgs extends LightArgs {
+  ensemble?: string;
+}
+
+export interface LabelledSpectrum extends WeightedSpectrum {
+  label: string;
+}
+
+/** One spectrum at the cell temperature, or every member of --ensemble. */
+export async function spectraFromArgs(a: SpectraArgs, tempK: number): Promise<LabelledSpectrum[]> {
+  if (a.ensemble !== undefined) {
+    if (a.spectrum !== undefined && a.spectrum !== 'am1.5g') throw new UserError('give either --spectrum or --ensemble, not both');
+    const { loadEnsemble } = (await import('../light/ensemble.js' as string)) as { loadEnsemble: (p: string, o: { defaultTempK: number }) => { members: LabelledSpectrum[] } };
+    return loadEnsemble(a.ensemble, { defaultTempK: tempK }).members;
+  }
+  const spectrum = spectrumFromArgs(a);
+  return [{ spectrum, weight: 1, tempK, label: spectrum.name }];
+}

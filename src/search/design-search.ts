@@ -1,0 +1,136 @@
+/**
+ * A design question answered by search: a template stack, spectra, subcell
+ * constraints (free, ranged, fixed, or bound to an absorber family), and what
+ * the practitioner takes away: best gaps with compositions, runner-up basins,
+ * the tolerance region, and warnings when a window binds.
+ */
+import type { StackSpec } from '../stack/model.js';
+import { UserError } from '../errors.js';
+import { describeGap, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
+import { REFERENCE_TEMPERATURE_K } from '../materials/index.js';
+import { buildObjective } from './objectives.js';
+import { bandEdgeEnergiesEv, searchGaps, type SearchProblem, type SearchResult } from './optimize.js';
+import { StepObjective, type WeightedSpectrum, type GapObjective } from './step-objective.js';
+
+/** How one subcell may vary. */
+export type SubcellConstraint =
+  | { kind: 'free' }
+  | { kind: 'range'; loEv: number; hiEv: number }
+  | { kind: 'fixed'; gapEv: number }
+  | { kind: 'material'; family: AbsorberFamily; fullRange: boolean };
+
+export interface DesignSearchRequest {
+  template: StackSpec;
+  spectra: WeightedSpectrum[];
+  constraints: SubcellConstraint[];
+  spanEv: [number, number];
+  stepEv?: number;
+  loss: number;
+  freeTopAbsorptance?: boolean;
+  progress?: (fraction: number) => void;
+}
+
+export interface CompositionNote {
+  subcell: number;
+  family: string;
+  familyName: string;
+  gapEv: number;
+  /** Compositions giving the gap (at 300 K, after the family's dE_g/dT), with window flags. */
+  compositions: readonly { readonly x: number; readonly inWindow: boolean }[];
+  inWindow: boolean;
+  note: string;
+}
+
+export interface DesignSearchResult {
+  result: SearchResult;
+  objective: GapObjective;
+  /** Best constant top absorptance when it was free. */
+  topAbsorptance?: number;
+  compositions: CompositionNote[];
+  warnings: string[];
+  /** The unconstrained optimum when a material window bound the search. */
+  unconstrained?: SearchResult;
+}
+
+/** Gap at the operating temperature → gap at the family's reference temperature (linear dE_g/dT). */
+export function gapAtReference(family: AbsorberFamily, gapEv: number, tempK: number): number {
+  return gapEv - family.dEgDtEvPerK * (tempK - REFERENCE_TEMPERATURE_K);
+}
+
+function constraintBounds(c: SubcellConstraint, tempK: number): { range?: [number, number]; fixed?: number } {
+  const shift = (fam: AbsorberFamily, e: number) => gapAtTemperature(fam, e, tempK);
+  switch (c.kind) {
+    case 'free':
+      return {};
+    case 'range':
+      return { range: [c.loEv, c.hiEv] };
+    case 'fixed':
+      return { fixed: c.gapEv };
+    case 'material': {
+      const f = c.family;
+      if (f.kind === 'fixed') return { fixed: shift(f, f.gapSpanEv[0]) };
+      const r = gapReach(f);
+      const [lo, hi] = c.fullRange ? [r.minEv, r.maxEv] : f.window.gapEv;
+      return { range: [shift(f, lo), shift(f, hi)] };
+    }
+  }
+}
+
+function problemFor(req: DesignSearchRequest, constraints: SubcellConstraint[]): SearchProblem {
+  const t = req.template.tempK;
+  const b = constraints.map((c) => constraintBounds(c, t));
+  return {
+    cells: req.template.subcells.length,
+    spanEv: req.spanEv,
+    ranges: b.map((x) => x.range),
+    fixed: b.map((x) => x.fixed),
+    stepEv: req.stepEv,
+    loss: req.loss,
+    progress: req.progress,
+  };
+}
+
+/** Answer a design question. */
+export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
+  const n = req.template.subcells.length;
+  if (req.constraints.length !== n) throw new UserError(`expected ${n} subcell constraints, got ${req.constraints.length}`);
+  if (req.freeTopAbsorptance && !(req.template.wiring.kind === 'groups' && req.template.wiring.groups.length === 1 && n >= 2)) {
+    throw new UserError('a free top-cell absorptance is offered for series (2T) stacks of 2 or more subcells');
+  }
+  const objective = buildObjective(req.template, req.spectra, { freeTopAbsorptance: req.freeTopAbsorptance });
+  if (req.freeTopAbsorptance && !(objective instanceof StepObjective)) {
+    throw new UserError('a free top-cell absorptance needs ideal step subcells without coupling, reflectance or interlayer loss');
+  }
+  const edges = [...new Set(req.spectra.flatMap((s) => bandEdgeEnergiesEv(s.spectrum, req.spanEv[0], req.spanEv[1])))];
+  const result = searchGaps(objective, problemFor(req, req.constraints), edges);
+  const warnings: string[] = [];
+  const tempK = req.template.tempK;
+  const compositions: CompositionNote[] = [];
+  req.constraints.forEach((c, i) => {
+    if (c.kind !== 'material') return;
+    const g = result.best.gapsEv[i];
+    const d = describeGap(c.family, gapAtReference(c.family, g, tempK));
+    compositions.push({ subcell: i, family: c.family.id, familyName: c.family.name, gapEv: g, compositions: d.compositions, inWindow: d.inWindow, note: d.note });
+    if (c.fullRange && !d.inWindow) warnings.push(`subcell ${i + 1}: ${g.toFixed(3)} eV lies outside the practical window of ${c.family.name} (${c.family.window.gapEv[0]}–${c.family.window.gapEv[1]} eV): ${c.family.window.reason}`);
+  });
+  let unconstrained: SearchResult | undefined;
+  const bound = req.constraints.map((c, i) => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? i : -1)).filter((i) => i >= 0);
+  if (bound.length > 0) {
+    const loose = req.constraints.map((c): SubcellConstraint => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? { kind: 'free' } : c));
+    unconstrained = searchGaps(objective, problemFor(req, loose), edges);
+    for (const i of bound) {
+      const c = req.constraints[i] as Extract<SubcellConstraint, { kind: 'material' }>;
+      const g = unconstrained.best.gapsEv[i];
+      const [lo, hi] = constraintBounds(c, tempK).range as [number, number];
+      if (g < lo - 5e-4 || g > hi + 5e-4) {
+        warnings.push(
+          `subcell ${i + 1}: the unconstrained optimum (${g.toFixed(3)} eV, ${(unconstrained.best.value * 100).toFixed(2)} %) lies outside the practical window of ${c.family.name} ` +
+            `(${lo.toFixed(3)}–${hi.toFixed(3)} eV at ${tempK} K); within the window the best is ${(result.best.value * 100).toFixed(2)} % at ${result.best.gapsEv[i].toFixed(3)} eV`,
+        );
+      }
+    }
+  }
+  let topAbsorptance: number | undefined;
+  if (req.freeTopAbsorptance && objective instanceof StepObjective) topAbsorptance = objective.bestTopAbsorptance(result.best.gapsEv).absorptance;
+  return { result, objective, topAbsorptance, compositions, warnings, unconstrained };
+}

@@ -1,0 +1,141 @@
+/**
+ * Efficiency maps over two subcell gaps (x the upper, y the lower), others
+ * fixed or maximised over (a profile map). The two-cell step case runs from
+ * tables along each axis: one series solve per pixel, nothing else.
+ */
+import { ELEMENTARY_CHARGE_C } from '../physics/constants.js';
+import { photonsAboveEv } from '../light/spectrum.js';
+import { j0RadStepAm2 } from '../junction/radiative.js';
+import { UserError } from '../errors.js';
+import { StepObjective, type GapObjective } from './step-objective.js';
+import { nelderMeadMax } from './refine.js';
+
+export interface MapRequest {
+  /** Axis values [eV] of the upper mapped subcell. */
+  x: Float64Array;
+  /** Axis values [eV] of the lower mapped subcell. */
+  y: Float64Array;
+  /** 0-based indices of the mapped subcells, xCell < yCell. */
+  xCell: number;
+  yCell: number;
+  /** Fixed gaps [eV] of the other subcells; undefined ones are maximised per pixel. */
+  fixed: (number | undefined)[];
+  /** Bounds [eV] for subcells maximised per pixel. */
+  bounds: [number, number][];
+}
+
+export interface GapMap {
+  x: Float64Array;
+  y: Float64Array;
+  xCell: number;
+  yCell: number;
+  /** Row-major values, index = iy·nx + ix; NaN where the gaps are out of order. */
+  values: Float64Array;
+  /** Gaps of the maximised subcells per pixel (profile maps), else empty. */
+  profileGaps: Float64Array[];
+  profile: boolean;
+  best: { x: number; y: number; value: number };
+}
+
+/** Uniform axis from lo to hi [eV] by step. */
+export function uniformAxis(lo: number, hi: number, step: number): Float64Array {
+  if (!(step > 0)) throw new UserError(`--step must be a positive number of eV, got ${step}`);
+  const n = Math.floor((hi - lo) / step + 1e-9) + 1;
+  if (n < 2) throw new UserError(`the range ${lo}:${hi} eV holds fewer than two points at step ${step} eV`);
+  if (n > 5001) throw new UserError(`${n} points per axis at step ${step} eV; use a coarser --step (at most 5001 per axis)`);
+  return Float64Array.from({ length: n }, (_, k) => Number((lo + k * step).toFixed(10)));
+}
+
+/** Compute a map. */
+export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
+  const { x, y, xCell, yCell } = req;
+  const n = obj.cells;
+  if (!(xCell >= 0 && yCell > xCell && yCell < n)) throw new UserError(`mapped subcells must be two of 1–${n}, upper first`);
+  const nx = x.length;
+  const ny = y.length;
+  const values = new Float64Array(nx * ny).fill(NaN);
+  const free = Array.from({ length: n }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && req.fixed[i] === undefined);
+  const profileGaps = free.map(() => new Float64Array(nx * ny).fill(NaN));
+  let best = { x: NaN, y: NaN, value: -Infinity };
+  const note = (ix: number, iy: number, v: number) => {
+    values[iy * nx + ix] = v;
+    if (v > best.value) best = { x: x[ix], y: y[iy], value: v };
+  };
+  const fast = obj instanceof StepObjective && n === 2 && typeof obj.options.topAbsorptance === 'number';
+  if (fast) {
+    const so = obj as StepObjective;
+    const spectra = so.spectra;
+    const tables = spectra.map((s) => ({
+      qx: Float64Array.from(x, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(s.spectrum, e)),
+      qy: Float64Array.from(y, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(s.spectrum, e)),
+      jx: Float64Array.from(x, (e) => j0RadStepAm2(e, s.tempK)),
+      jy: Float64Array.from(y, (e) => j0RadStepAm2(e, s.tempK)),
+    }));
+    const qn = new Float64Array(2);
+    const j0 = new Float64Array(2);
+    const a = so.options.topAbsorptance as number;
+    for (let iy = 0; iy < ny; iy++) {
+      for (let ix = 0; ix < nx; ix++) {
+        if (!(y[iy] < x[ix])) continue;
+        let p = 0;
+        for (let k = 0; k < spectra.length; k++) {
+          const t = tables[k];
+          qn[0] = t.qx[ix];
+          qn[1] = t.qy[iy];
+          j0[0] = t.jx[ix];
+          j0[1] = t.jy[iy];
+          p += spectra[k].weight * so.powerFromTables(k, qn, j0, a);
+        }
+        note(ix, iy, p / so.incidentPowerWm2);
+      }
+    }
+    return { x, y, xCell, yCell, values, profileGaps, profile: false, best };
+  }
+  const gaps = new Array<number>(n);
+  for (let i = 0; i < n; i++) gaps[i] = req.fixed[i] ?? NaN;
+  let warm: number[] | null = null;
+  for (let iy = 0; iy < ny; iy++) {
+    for (let ix = 0; ix < nx; ix++) {
+      if (!(y[iy] < x[ix])) continue;
+      gaps[xCell] = x[ix];
+      gaps[yCell] = y[iy];
+      if (free.length === 0) {
+        note(ix, iy, obj.value(gaps));
+        continue;
+      }
+      // Profile: maximise over the free subcells, each inside its bounds and the ordering.
+      const lo = free.map((i) => req.bounds[i][0]);
+      const hi = free.map((i) => req.bounds[i][1]);
+      const f = (v: number[]) => {
+        free.forEach((i, k) => (gaps[i] = v[k]));
+        return obj.value(gaps);
+      };
+      const starts: number[][] = [free.map((i, k) => (warm ? warm[k] : 0.5 * (lo[k] + hi[k])))];
+      let bestLocal = { x: starts[0], value: -Infinity };
+      for (const s of starts) {
+        const r = nelderMeadMax(f, s, 0.05, { lo, hi }, 1e-4, 400);
+        if (r.value > bestLocal.value) bestLocal = r;
+      }
+      warm = bestLocal.x;
+      free.forEach((_, k) => (profileGaps[k][iy * nx + ix] = bestLocal.x[k]));
+      note(ix, iy, bestLocal.value);
+    }
+  }
+  return { x, y, xCell, yCell, values, profileGaps, profile: free.length > 0, best };
+}
+
+/** CSV text of a map: one row per pixel, gaps [eV] and efficiency [-]. */
+export function mapToCsv(m: GapMap, freeCells: number[] = []): string {
+  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
+  const lines = [head.join(',')];
+  const nx = m.x.length;
+  for (let iy = 0; iy < m.y.length; iy++) {
+    for (let ix = 0; ix < nx; ix++) {
+      const v = m.values[iy * nx + ix];
+      if (Number.isNaN(v)) continue;
+      const extra = m.profileGaps.map((g) => g[iy * nx + ix].toFixed(5));
+      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, v.toFixed(8)].join(','));
+    }
+  }
+  return `${lines.join('\n')}\n`;
+}
