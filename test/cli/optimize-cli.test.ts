@@ -1,0 +1,101 @@
+import { mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, test } from 'vitest';
+import { runCli, runJson } from '../helpers/cli.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'gapstack-opt-'));
+
+describe('gapstack optimize', () => {
+  test('2T from scratch: 45.727 % at 1.6325/0.9601 with basins and tolerance (PHYSICS.md §5/§6)', () => {
+    const j = runJson(['optimize', '--cells', '2']);
+    expect(Math.abs(j.best.efficiency - 0.45727)).toBeLessThan(1e-4);
+    expect(Math.abs(j.best.gaps_ev[0] - 1.6325)).toBeLessThan(0.002);
+    expect(Math.abs(j.best.gaps_ev[1] - 0.9601)).toBeLessThan(0.002);
+    expect(j.basins.length).toBeGreaterThan(0);
+    expect(j.tolerance.loss_rel).toBe(0.01);
+    expect(j.tolerance.intervals).toHaveLength(2);
+    expect(j.caution).toMatch(/detailed-balance limits/);
+  });
+
+  test('4T with a fixed 1.12 eV bottom: 45.24 % near 1.81 eV (PHYSICS.md §5)', () => {
+    const j = runJson(['optimize', '--cells', '2', '--wiring', 'independent', '--fix', '2=1.12']);
+    expect(Math.abs(j.best.efficiency - 0.4524)).toBeLessThan(1e-4);
+    expect(Math.abs(j.best.gaps_ev[0] - 1.81)).toBeLessThan(0.005);
+  });
+
+  test('a mixed-halide top bound to its practical window on a silicon bottom returns a composition and says the unconstrained optimum lies outside', () => {
+    const j = runJson(['optimize', '--cells', '2', '--material', '1=perovskite-i-br', '--material', '2=si', '--wiring', 'independent']);
+    const c = j.best.compositions.find((x: { subcell: number }) => x.subcell === 1);
+    expect(c.family).toBe('perovskite-i-br');
+    expect(c.compositions.length).toBeGreaterThan(0);
+    expect(c.in_window).toBe(true);
+    // 4T on Si wants ≈1.81 eV (PHYSICS.md §5), above the ≈1.8 eV halide-segregation limit (Hoke et al., Chem. Sci. 2015).
+    expect(j.unconstrained.gaps_ev[0]).toBeGreaterThan(j.best.gaps_ev[0]);
+    expect(j.warnings.join(' ')).toMatch(/outside the practical window/);
+  });
+
+  test('text output names units, the tolerance table and the caution', () => {
+    const r = runCli(['optimize', '--cells', '2', '--fix', '2=1.12']);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/Gaps \[eV\], top first: 1\.729\d \/ 1\.1200/);
+    expect(r.stdout).toMatch(/Tolerance region/);
+    expect(r.stdout).toMatch(/not predictions of a real device/);
+    expect(r.stderr).toBe('');
+  });
+
+  test.each([
+    [['optimize', '--cells', '7'], /--cells must be a whole number 1–6/],
+    [['optimize', '--cells', '2', '--fix', '3=1.1'], /subcell 3 does not exist/],
+    [['optimize', '--cells', '2', '--fix', 'two=1.1'], /takes "i=value"/],
+    [['optimize', '--cells', '2', '--range', '1=1.9:1.7'], /low end must be below high end/],
+    [['optimize', '--cells', '2', '--range', '1=0.6:0.7', '--range', '2=1.0:1.2'], /cannot lie below/],
+    [['optimize', '--cells', '2', '--fix', '1=1.7', '--range', '1=1.5:1.8'], /both --fix and --range/],
+    [['optimize', '--cells', '2', '--material', '1=unobtainium'], /unobtainium/],
+    [['optimize', '--cells', '2', '--loss', '2'], /--loss must be a relative loss/],
+    [['optimize', '--cells', '2', '--span', '3:2'], /low end must be below high end/],
+  ])('bad input %j exits 2 with one line', (args, message) => {
+    const r = runCli(args as string[]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(message);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+  });
+});
+
+describe('gapstack map', () => {
+  test('writes a CSV map whose best point agrees with evaluate', () => {
+    const out = join(dir, 'map.csv');
+    const r = runCli(['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.01', '--out', out, '--json']);
+    expect(r.code).toBe(0);
+    const summary = JSON.parse(r.stdout);
+    const lines = readFileSync(out, 'utf8').trim().split('\n');
+    expect(lines[0]).toBe('gap1_ev,gap2_ev,efficiency');
+    expect(lines.length - 1).toBe(summary.points);
+    const e = runJson(['evaluate', '--gaps', `${summary.best.x_ev},${summary.best.y_ev}`]);
+    expect(e.efficiency).toBeCloseTo(summary.best.efficiency, 9);
+  });
+
+  test('writes JSON rows with nulls below the diagonal', () => {
+    const out = join(dir, 'map.json');
+    expect(runCli(['map', '--x', '1.0:1.4', '--y', '1.0:1.4', '--step', '0.1', '--wiring', 'independent', '--out', out]).code).toBe(0);
+    const j = JSON.parse(readFileSync(out, 'utf8'));
+    expect(j.x_ev).toHaveLength(5);
+    expect(j.efficiency[0][0]).toBeNull();
+    expect(j.efficiency[0][4]).toBeGreaterThan(0);
+  });
+
+  test('a failing map leaves an existing output untouched', () => {
+    const out = join(dir, 'keep.csv');
+    writeFileSync(out, 'precious\n');
+    const r = runCli(['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.01', '--wiring', 'bogus', '--out', out]);
+    expect(r.code).toBe(2);
+    expect(readFileSync(out, 'utf8')).toBe('precious\n');
+    expect(existsSync(join(dir, 'nothing.csv'))).toBe(false);
+  });
+
+  test('refuses an output name that is neither .csv nor .json', () => {
+    const r = runCli(['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.01', '--out', join(dir, 'map.txt')]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/--out must end in \.csv or \.json/);
+  });
+});
