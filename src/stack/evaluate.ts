@@ -102,7 +102,7 @@ export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Flo
   for (let i = 0; i < n; i++) {
     const ere = spec.subcells[i].ere;
     let factor = 1;
-    // Radiative limit (Brown & Wu, Prog. Photovolt. 10 (2002) 299): an upper cell also
+    // Radiative limit (Brown & Green, Prog. Photovolt. 10 (2002) 299, from memory): an upper cell also
     // emits into the cell below (index n), raising its J0 by 1 + n²; n²/(1+n²) of its
     // radiative recombination (ERE of the total) goes down.
     if (c.model === 'radiative' && i < n - 1) {
