@@ -143,14 +143,15 @@ export function yieldCommand(a: YieldArgs): string {
   if (hours) {
     out.push(`Energy over ${fix(y.totalWeight, 1)} h: in ${(y.weightedPinWm2 / 1000).toFixed(2)} kWh/m², out ${(y.weightedPmaxWm2 / 1000).toFixed(2)} kWh/m² (at the maximum power point of every spectrum)`);
   } else {
-    out.push(`Weights are energy shares (total ${fix(y.totalWeight, 4)}); no energy totals without hours.`);
+    const equal = e.members.every((m) => m.weight === e.members[0].weight);
+    out.push(`Weights are ${equal ? 'equal' : 'relative energy shares'} (total ${fix(y.totalWeight, 4)}); no energy totals without hours.`);
   }
   const ape = s.ape;
   out.push(
     '',
     `Ensemble ${e.name}: ${e.source}`,
     `  irradiance: weighted mean ${s.weightedMeanIrradianceWm2.toFixed(1)} W/m², min ${s.irradianceWm2.min.toFixed(1)}, weighted median ${s.irradianceWm2.median.toFixed(1)}, max ${s.irradianceWm2.max.toFixed(1)} W/m²`,
-    `  cell temperature: ${s.tempK.min}–${s.tempK.max} K`,
+    `  cell temperature: ${s.tempK.min === s.tempK.max ? s.tempK.min : `${s.tempK.min}–${s.tempK.max}`} K`,
     `  average photon energy (${ape.windowNm[0]}–${ape.windowNm[1]} nm): weighted mean ${fix(ape.weightedMeanEv, 4)} eV`,
   );
   if (ape.histogram.weights.length > 0) {

@@ -422,7 +422,7 @@ function loadYamlManifest(file: string, opts: LoadEnsembleOptions): Ensemble {
   const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false });
   if (doc.errors.length > 0) {
     const e = doc.errors[0];
-    throw fileError(file, e.linePos?.[0]?.line, `YAML: ${e.message.split('\n')[0]}`);
+    throw fileError(file, lc.linePos(e.pos[0]).line, `YAML: ${e.message.split('\n')[0]}`);
   }
   const lineOf = (n: unknown): number | undefined => {
     const r = (n as YamlNode | undefined)?.range;
