@@ -1,6 +1,8 @@
 /** `gapstack optimize`: the global optimum, runner-up basins and tolerance region. */
 import type { Spectrum } from '../light/spectrum.js';
-import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
+import { UserError } from '../errors.js';
+import { availableParallelism } from 'node:os';
+import { runDesignSearchParallel, type DesignSearchResult } from '../search/design-search.js';
 import type { StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import { assumptionLines, CAUTION, describeCoupling, EMISSION_CONVENTION } from '../report/assumptions.js';
@@ -10,7 +12,16 @@ import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFro
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
 
+/** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
+export function threadsFromArgs(value: unknown): number {
+  if (value === undefined) return Math.min(8, availableParallelism());
+  const t = Number(value);
+  if (!(Number.isInteger(t) && t >= 1 && t <= 64)) throw new UserError(`--threads must be a whole number 1–64, got ${String(value)}`);
+  return t;
+}
+
 export interface OptimizeArgs extends LightArgs, StackArgs, ConstraintArgs, SpectraArgs {
+  threads?: unknown;
   cells?: unknown;
   span?: unknown;
   step?: unknown;
@@ -84,7 +95,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const bar = a.json ? null : await startProgress('searching');
   let d: DesignSearchResult;
   try {
-    d = runDesignSearch({
+    d = await runDesignSearchParallel({
       template: spec,
       spectra: members,
       constraints,
@@ -93,7 +104,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       loss: lossFromArgs(a.loss),
       freeTopAbsorptance: Boolean(a.freeTopAbsorptance),
       progress: bar?.update,
-    });
+    }, threadsFromArgs(a.threads));
   } finally {
     bar?.stop();
   }

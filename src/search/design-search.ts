@@ -9,7 +9,7 @@ import { UserError } from '../errors.js';
 import { describeGap, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
 import { REFERENCE_TEMPERATURE_K } from '../materials/index.js';
 import { buildObjective } from './objectives.js';
-import { bandEdgeEnergiesEv, searchGaps, type SearchProblem, type SearchResult } from './optimize.js';
+import { bandEdgeEnergiesEv, searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
 import { StepObjective, type WeightedSpectrum, type GapObjective } from './step-objective.js';
 
 /** How one subcell may vary. */
@@ -90,8 +90,16 @@ function problemFor(req: DesignSearchRequest, constraints: SubcellConstraint[]):
   };
 }
 
-/** Answer a design question. */
-export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
+interface PreparedDesign {
+  objective: GapObjective;
+  edges: number[];
+  problem: SearchProblem;
+  /** The same question with window-bound alloy subcells set free, if any are bound. */
+  looseProblem?: SearchProblem;
+  bound: number[];
+}
+
+function prepareDesign(req: DesignSearchRequest): PreparedDesign {
   const n = req.template.subcells.length;
   if (req.constraints.length !== n) throw new UserError(`expected ${n} subcell constraints, got ${req.constraints.length}`);
   if (req.freeTopAbsorptance && !(req.template.wiring.kind === 'groups' && req.template.wiring.groups.length === 1 && n >= 2)) {
@@ -102,7 +110,13 @@ export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
     throw new UserError('a free top-cell absorptance needs ideal step subcells without coupling, reflectance or interlayer loss');
   }
   const edges = [...new Set(req.spectra.flatMap((s) => bandEdgeEnergiesEv(s.spectrum, req.spanEv[0], req.spanEv[1])))];
-  const result = searchGaps(objective, problemFor(req, req.constraints), edges);
+  const bound = req.constraints.map((c, i) => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? i : -1)).filter((i) => i >= 0);
+  const loose = req.constraints.map((c): SubcellConstraint => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? { kind: 'free' } : c));
+  return { objective, edges, problem: problemFor(req, req.constraints), looseProblem: bound.length > 0 ? problemFor(req, loose) : undefined, bound };
+}
+
+function assembleDesign(req: DesignSearchRequest, prep: PreparedDesign, result: SearchResult, unconstrained?: SearchResult): DesignSearchResult {
+  const { objective } = prep;
   const warnings: string[] = [];
   const tempK = req.template.tempK;
   const compositions: CompositionNote[] = [];
@@ -113,12 +127,8 @@ export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
     compositions.push({ subcell: i, family: c.family.id, familyName: c.family.name, gapEv: g, compositions: d.compositions, inWindow: d.inWindow, note: d.note });
     if (c.fullRange && !d.inWindow) warnings.push(`subcell ${i + 1}: ${g.toFixed(3)} eV lies outside the practical window of ${c.family.name} (${c.family.window.gapEv[0]}–${c.family.window.gapEv[1]} eV): ${c.family.window.reason}`);
   });
-  let unconstrained: SearchResult | undefined;
-  const bound = req.constraints.map((c, i) => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? i : -1)).filter((i) => i >= 0);
-  if (bound.length > 0) {
-    const loose = req.constraints.map((c): SubcellConstraint => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? { kind: 'free' } : c));
-    unconstrained = searchGaps(objective, problemFor(req, loose), edges);
-    for (const i of bound) {
+  if (unconstrained) {
+    for (const i of prep.bound) {
       const c = req.constraints[i] as Extract<SubcellConstraint, { kind: 'material' }>;
       const g = unconstrained.best.gapsEv[i];
       const [lo, hi] = constraintBounds(c, tempK).range as [number, number];
@@ -133,4 +143,20 @@ export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
   let topAbsorptance: number | undefined;
   if (req.freeTopAbsorptance && objective instanceof StepObjective) topAbsorptance = objective.bestTopAbsorptance(result.best.gapsEv).absorptance;
   return { result, objective, topAbsorptance, compositions, warnings, unconstrained };
+}
+
+/** Answer a design question in this thread. */
+export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
+  const prep = prepareDesign(req);
+  const result = searchGaps(prep.objective, prep.problem, prep.edges);
+  const unconstrained = prep.looseProblem ? searchGaps(prep.objective, prep.looseProblem, prep.edges) : undefined;
+  return assembleDesign(req, prep, result, unconstrained);
+}
+
+/** Answer a design question with the enumeration shared across worker threads. */
+export async function runDesignSearchParallel(req: DesignSearchRequest, threads: number): Promise<DesignSearchResult> {
+  const prep = prepareDesign(req);
+  const result = await searchGapsParallel(prep.objective, prep.problem, prep.edges, threads);
+  const unconstrained = prep.looseProblem ? await searchGapsParallel(prep.objective, prep.looseProblem, prep.edges, threads) : undefined;
+  return assembleDesign(req, prep, result, unconstrained);
 }

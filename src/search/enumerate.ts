@@ -25,6 +25,8 @@ export interface EnumerationResult {
   candidates: Candidate[];
   leaves: number;
   pruned: number;
+  /** Leaves whose power was actually solved (not cut by a bound). */
+  solved: number;
 }
 
 export interface EnumerationOptions {
@@ -106,6 +108,7 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   let kept: Candidate[] = [];
   let leaves = 0;
   let pruned = 0;
+  let solved = 0;
 
   // Per-spectrum partial state along the current path.
   const minJ = new Float64Array(ns * (n + 1));
@@ -233,6 +236,7 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
           if (monotoneTail && !list) break;
           continue;
         }
+        solved++;
         const v = !series && canPrune ? leafValueIndependent() : leafValue();
         if (v >= threshold()) {
           const c = { gapsEv: Array.from(idx, (q) => axis[q]), value: v };
@@ -268,7 +272,7 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   place(0);
   const cut = threshold();
   const candidates = kept.filter((c) => c.value >= cut).sort((a, b) => b.value - a.value);
-  return { best, candidates, leaves, pruned };
+  return { best, candidates, leaves, pruned, solved };
 }
 
 function matched(topBand: number, secondBand: number): number {
@@ -311,5 +315,5 @@ export function enumerateGeneric(
   };
   place(0);
   const cut = best.value * (1 - margin);
-  return { best, candidates: kept.filter((c) => c.value >= cut).sort((a, b) => b.value - a.value), leaves, pruned: 0 };
+  return { best, candidates: kept.filter((c) => c.value >= cut).sort((a, b) => b.value - a.value), leaves, pruned: 0, solved: leaves };
 }

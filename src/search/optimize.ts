@@ -7,7 +7,7 @@
  */
 import { UserError } from '../errors.js';
 import { bandEdgeEnergiesEv, gapAxis } from './axis.js';
-import { enumerateGeneric, enumerateStep, type Candidate } from './enumerate.js';
+import { enumerateGeneric, enumerateStep, type Candidate, type EnumerationResult } from './enumerate.js';
 import { compassMax, nelderMeadMax, type Box } from './refine.js';
 import { StepObjective, type GapObjective } from './step-objective.js';
 
@@ -104,8 +104,21 @@ function distinctSeeds(cands: Candidate[], count: number, radius: number): Candi
   return seeds;
 }
 
-/** Run the global search. */
-export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = []): SearchResult {
+/** Everything a search needs before enumeration. */
+interface PreparedSearch {
+  n: number;
+  bounds: [number, number][];
+  freeIdx: number[];
+  fast: boolean;
+  step: number;
+  axis: Float64Array;
+  ranges: [number, number][];
+  margin: number;
+  edgeCount: number;
+  t0: number;
+}
+
+function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[]): PreparedSearch {
   const t0 = performance.now();
   const n = p.cells;
   if (!(n >= 1 && n <= 6)) throw new UserError(`--cells must be 1 to 6, got ${n}`);
@@ -129,17 +142,89 @@ export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: 
     while (i1 >= 0 && axis[i1] > b + 1e-12) i1--;
     return [i0, i1];
   });
-  const margin = p.margin ?? 0.01;
+  return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, t0 };
+}
+
+/** Run the global search in this thread. */
+export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = []): SearchResult {
+  const prep = prepareSearch(obj, p, edgeEnergiesEv);
   let evaluations = 0;
   const value = (gaps: number[]) => {
     evaluations++;
     return obj.value(gaps);
   };
-  const en = fast
-    ? enumerateStep(obj as StepObjective, { axis, ranges, margin, progress: p.progress })
-    : enumerateGeneric(value, n, axis, ranges, margin, p.progress);
+  const { axis, ranges, margin } = prep;
+  const en = prep.fast
+    ? enumerateStep(obj as StepObjective, { axis, ranges, margin, progress: p.progress, initialBest: coarseIncumbent(obj as StepObjective, axis, ranges) })
+    : enumerateGeneric(value, prep.n, axis, ranges, margin, p.progress);
+  return finishSearch(obj, p, prep, en, evaluations);
+}
+
+/** Work below which a second thread costs more than it saves (coarse combinations). */
+export const PARALLEL_MIN_COMBINATIONS = 2e5;
+
+/**
+ * The global search with the enumeration shared across worker threads (a
+ * piscina pool). Each worker takes interleaved values of the top gap and
+ * starts from the best of a quick coarser pass, so pruning bites at once.
+ */
+export async function searchGapsParallel(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = [], threads = 2): Promise<SearchResult> {
+  const prep = prepareSearch(obj, p, edgeEnergiesEv);
+  const [lo0, hi0] = prep.ranges[0];
+  const width = Math.max(...prep.ranges.map(([a, b]) => b - a + 1));
+  const estimate = width ** prep.freeIdx.length / Math.max(1, factorial(prep.freeIdx.length));
+  if (!prep.fast || threads < 2 || estimate < PARALLEL_MIN_COMBINATIONS) return searchGaps(obj, p, edgeEnergiesEv);
+  const so = obj as StepObjective;
+  const incumbent = coarseIncumbent(so, prep.axis, prep.ranges);
+  const tops: number[][] = Array.from({ length: threads }, () => []);
+  for (let g = hi0, k = 0; g >= lo0; g--, k++) tops[k % threads].push(g);
+  const { runEnumerationTasks } = await import('./pool.js');
+  const parts = await runEnumerationTasks(
+    tops.map((firstIndices) => ({ objective: so.options, axis: prep.axis, ranges: prep.ranges, margin: prep.margin, firstIndices, initialBest: incumbent })),
+    threads,
+    p.progress,
+  );
+  const best = parts.reduce((a, b) => (b.best.value > a.best.value ? b : a)).best;
+  const cut = best.value * (1 - prep.margin);
+  const en: EnumerationResult = {
+    best,
+    candidates: parts.flatMap((r) => r.candidates).filter((c) => c.value >= cut).sort((a, b) => b.value - a.value),
+    leaves: parts.reduce((a, r) => a + r.leaves, 0),
+    pruned: parts.reduce((a, r) => a + r.pruned, 0),
+    solved: parts.reduce((a, r) => a + r.solved, 0),
+  };
+  if (!(best.gapsEv.length > 0)) return searchGaps(obj, p, edgeEnergiesEv);
+  return finishSearch(obj, p, prep, en, 0);
+}
+
+/**
+ * An achievable value to prune against from the start: the best of the same
+ * enumeration on every other axis point, itself seeded the same way. Its
+ * points lie on the finer axis, so the finer pass always meets or beats it.
+ */
+export function coarseIncumbent(obj: StepObjective, axis: Float64Array, ranges: [number, number][]): number {
+  if (axis.length < 48) return 0;
+  const coarseAxis = Float64Array.from({ length: Math.ceil(axis.length / 2) }, (_, k) => axis[2 * k]);
+  const coarseRanges = ranges.map(([a, b]): [number, number] => [Math.ceil(a / 2), Math.floor(b / 2)]);
+  if (!coarseRanges.every(([a, b]) => b >= a)) return 0;
+  const seed = coarseIncumbent(obj, coarseAxis, coarseRanges);
+  const r = enumerateStep(obj, { axis: coarseAxis, ranges: coarseRanges, margin: 0, initialBest: seed });
+  return r.best.gapsEv.length > 0 ? r.best.value * (1 - 1e-12) : seed;
+}
+
+function factorial(k: number): number {
+  return k <= 1 ? 1 : k * factorial(k - 1);
+}
+
+function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch, en: EnumerationResult, evaluationsSoFar: number): SearchResult {
+  const { n, bounds, freeIdx, fast, step, axis, t0 } = prep;
+  let evaluations = evaluationsSoFar;
+  const value = (gaps: number[]) => {
+    evaluations++;
+    return obj.value(gaps);
+  };
   if (!(en.best.value > 0)) throw new UserError('no stack in the allowed ranges produces power; check --span, --range and --fix');
-  evaluations += fast ? en.leaves : 0;
+  evaluations += fast ? en.solved : 0;
 
   // Refine distinct seeds over the free gaps only.
   const seeds = distinctSeeds(en.candidates, p.seeds ?? (n <= 2 ? 40 : 24), 1.5 * step);
@@ -170,7 +255,7 @@ export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: 
     stats: {
       stepEv: step,
       axisPoints: axis.length,
-      edgePoints: edges.length,
+      edgePoints: prep.edgeCount,
       leaves: en.leaves,
       pruned: en.pruned,
       seeds: seeds.length,

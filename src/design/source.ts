@@ -1,0 +1,106 @@
+/**
+ * Reading a design file's text into plain data, keeping where each value sat
+ * so that every later error can name the field and, for YAML, the line.
+ * JSON is parsed strictly with JSON.parse; its locations come from the YAML
+ * parser, which reads JSON as a subset.
+ */
+import { readFileSync } from 'node:fs';
+import { extname } from 'node:path';
+import { isMap, isSeq, LineCounter, parseDocument, type Document, type Node as YamlNode } from 'yaml';
+import { fileError, UserError } from '../errors.js';
+import { sha256Hex } from '../light/spectrum.js';
+
+/** A path into the design data: object keys and array indices. */
+export type FieldPath = readonly (string | number)[];
+
+/** Largest design file read [bytes]. */
+export const MAX_DESIGN_FILE_BYTES = 1_000_000;
+
+export interface DesignSource {
+  /** The path as given. */
+  path: string;
+  /** SHA-256 (hex) of the file bytes. */
+  sha256: string;
+  format: 'yaml' | 'json';
+  /** Parsed data, not yet validated. */
+  data: unknown;
+  /** 1-based line of the value at a field path (of the key, for `key: true`); undefined when unknown. */
+  lineOf(path: FieldPath, key?: boolean): number | undefined;
+}
+
+/** "subcells[1].gap" from ["subcells", 1, "gap"]; "(top level)" for the root. */
+export function fieldName(path: FieldPath): string {
+  let out = '';
+  for (const p of path) out += typeof p === 'number' ? `[${p}]` : out === '' ? p : `.${p}`;
+  return out === '' ? '(top level)' : out;
+}
+
+/** A UserError located in the design file: "file:line: field: message". */
+export function designError(src: Pick<DesignSource, 'path' | 'lineOf'>, path: FieldPath, message: string, key = false): UserError {
+  return fileError(src.path, src.lineOf(path, key), `${fieldName(path)}: ${message}`);
+}
+
+function locator(doc: Document | undefined, lc: LineCounter): DesignSource['lineOf'] {
+  return (path, key = false) => {
+    if (!doc) return undefined;
+    let node: unknown = doc.contents;
+    let keyNode: unknown;
+    let last: unknown = node;
+    for (const p of path) {
+      keyNode = undefined;
+      if (isMap(node)) {
+        const pair = node.items.find((it) => (it.key as { value?: unknown } | null)?.value === p);
+        if (!pair) break;
+        keyNode = pair.key;
+        node = pair.value;
+      } else if (isSeq(node) && typeof p === 'number') {
+        node = node.items[p];
+      } else break;
+      if (node) last = node;
+      else break;
+    }
+    const target = (key && keyNode ? keyNode : node ?? keyNode ?? last) as YamlNode | undefined;
+    const range = target?.range;
+    if (!range) return undefined;
+    return lc.linePos(range[0]).line;
+  };
+}
+
+/** Parse design text; `path` is used for messages and to choose YAML or JSON (by extension). */
+export function parseDesignText(path: string, text: string, sha256 = sha256Hex(text)): DesignSource {
+  const format = extname(path).toLowerCase() === '.json' ? 'json' : 'yaml';
+  const lc = new LineCounter();
+  if (format === 'json') {
+    let data: unknown;
+    try {
+      data = JSON.parse(text);
+    } catch (err) {
+      const msg = (err as Error).message;
+      const pos = /position (\d+)/.exec(msg);
+      const line = pos ? text.slice(0, Number(pos[1])).split('\n').length : undefined;
+      throw fileError(path, line, `not valid JSON: ${msg.replace(/^JSON\.parse: /, '')}`);
+    }
+    const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false, uniqueKeys: false });
+    return { path, sha256, format, data, lineOf: locator(doc.errors.length === 0 ? doc : undefined, lc) };
+  }
+  const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false });
+  if (doc.errors.length > 0) {
+    const e = doc.errors[0];
+    const line = e.linePos?.[0]?.line ?? lc.linePos(e.pos[0]).line;
+    throw fileError(path, line, `not valid YAML: ${e.message.split('\n')[0]}`);
+  }
+  const data = doc.toJS({ maxAliasCount: 100 }) as unknown;
+  return { path, sha256, format, data, lineOf: locator(doc, lc) };
+}
+
+/** Read and parse a design file. */
+export function readDesignSource(path: string): DesignSource {
+  let bytes: Buffer;
+  try {
+    bytes = readFileSync(path);
+  } catch (err) {
+    throw new UserError(`${path}: cannot read the design file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  if (bytes.length > MAX_DESIGN_FILE_BYTES) throw new UserError(`${path}: a design file is at most ${MAX_DESIGN_FILE_BYTES} bytes, this one has ${bytes.length}`);
+  return parseDesignText(path, bytes.toString('utf8'), sha256Hex(bytes));
+}

@@ -1,0 +1,126 @@
+/**
+ * A design file as written (keys in snake_case, as in
+ * schema/design.schema.json) and the resolved design the report runs on.
+ */
+import type { Spectrum } from '../light/spectrum.js';
+import type { SubcellConstraint } from '../search/design-search.js';
+import type { WeightedSpectrum } from '../search/step-objective.js';
+import type { StackSpec, Wiring } from '../stack/model.js';
+
+export interface SpectrumEntry {
+  source: string;
+  suns?: number | 'max';
+  irradiance?: number;
+  units?: string;
+}
+
+export interface SubcellEntry {
+  label?: string;
+  free?: true;
+  range?: [number, number];
+  gap?: number;
+  material?: string;
+  full_range?: boolean;
+  ere?: number;
+  voc_loss?: number;
+  absorptance?: number;
+}
+
+export interface MapPairEntry {
+  axes: [number, number];
+  x?: [number, number];
+  y?: [number, number];
+}
+
+/** The file as written, after schema validation. */
+export interface DesignFile {
+  name: string;
+  description?: string;
+  spectrum?: string | SpectrumEntry;
+  ensemble?: string;
+  temperature?: number;
+  subcells: SubcellEntry[];
+  optics?: {
+    reflectance?: number;
+    interlayer_transmittance?: number | number[];
+    lc?: 'none' | string | number | number[];
+  };
+  wirings?: string[];
+  search?: { span?: [number, number]; step?: number };
+  map?: { step?: number; pairs?: MapPairEntry[] };
+  tolerance?: { loss?: number };
+}
+
+export interface LabelledSpectrum extends WeightedSpectrum {
+  label: string;
+}
+
+/** The light of a design: one spectrum, or an ensemble of weighted members. */
+export type DesignLight =
+  | { kind: 'spectrum'; spectrum: Spectrum; request: string }
+  | {
+      kind: 'ensemble';
+      name: string;
+      sha256: string;
+      source: string;
+      /** Summary lines for the report (members, irradiance, APE, warnings). */
+      summaryLines: string[];
+      warnings: string[];
+      request: string;
+    };
+
+export interface DesignSubcell {
+  /** 1-based position from the top. */
+  index: number;
+  /** The user's label, or "subcell i". */
+  label: string;
+  /** True when the user gave a label. */
+  labelled: boolean;
+  constraint: SubcellConstraint;
+  ere: number;
+  /** Non-radiative Voc loss as given [V], when the file gave voc_loss. */
+  vocLossV?: number;
+  /** Constant absorptance above the gap (top cell only) [-]. */
+  absorptance: number;
+}
+
+export interface DesignWiring {
+  /** As written in the file, lower case (series, independent, 3t, vm:1:2). */
+  key: string;
+  /** For file names and ids: series, independent, 3t, vm-1-2. */
+  slug: string;
+  wiring: Wiring;
+  /** Template stack (placeholder gaps) with this wiring. */
+  template: StackSpec;
+}
+
+export interface DesignMapPair {
+  /** 0-based subcells, xCell above yCell. */
+  xCell: number;
+  yCell: number;
+  xRangeEv?: [number, number];
+  yRangeEv?: [number, number];
+}
+
+/** A validated, resolved design. */
+export interface Design {
+  path: string;
+  sha256: string;
+  file: DesignFile;
+  name: string;
+  description: string;
+  tempK: number;
+  light: DesignLight;
+  /** Spectra the objective weighs (one for a single spectrum). */
+  spectra: LabelledSpectrum[];
+  /** The spectrum used for per-subcell detail (J–V, bands): the single one, or the ensemble member with the largest energy share. */
+  reference: LabelledSpectrum;
+  subcells: DesignSubcell[];
+  wirings: DesignWiring[];
+  spanEv: [number, number];
+  searchStepEv?: number;
+  loss: number;
+  /** Map step given in the file [eV], else undefined (chosen per map). */
+  mapStepEv?: number;
+  pairs: DesignMapPair[];
+}
