@@ -108,6 +108,19 @@ async function run(argv: string[]): Promise<void> {
   );
   cli = command(
     cli,
+    'yield',
+    'yield-weighted efficiency of one stack over a set of spectra (each re-solved: 2T re-matches its current)',
+    (y) =>
+      stackOptions(y)
+        .option('gaps', { type: 'string', describe: 'band gaps [eV], top first', demandOption: true })
+        .option('ensemble', { type: 'string', describe: 'folder of spectra, manifest (CSV/YAML) or wide table', demandOption: true })
+        .option('units', { type: 'string', describe: 'units of headerless member files' })
+        .option('ape-window', { type: 'string', describe: 'window for the average photon energy [nm], low:high (default 350:1050)' })
+        .option('json', { type: 'boolean', default: false }),
+    async (a) => print((await import('./yield-command.js')).yieldCommand(a as never)),
+  );
+  cli = command(
+    cli,
     'materials [id]',
     'absorber families: composition ↔ gap and practical windows',
     (y) =>

@@ -2,6 +2,7 @@
 import type { WeightedSpectrum } from '../search/step-objective.js';
 import { spectrumFromArgs, type LightArgs } from './options.js';
 import { UserError } from '../errors.js';
+import { parseUnitDeclaration } from '../light/table-file.js';
 
 export interface SpectraArgs extends LightArgs {
   ensemble?: string;
@@ -15,8 +16,9 @@ export interface LabelledSpectrum extends WeightedSpectrum {
 export async function spectraFromArgs(a: SpectraArgs, tempK: number): Promise<LabelledSpectrum[]> {
   if (a.ensemble !== undefined) {
     if (a.spectrum !== undefined && a.spectrum !== 'am1.5g') throw new UserError('give either --spectrum or --ensemble, not both');
-    const { loadEnsemble } = (await import('../light/ensemble.js' as string)) as { loadEnsemble: (p: string, o: { defaultTempK: number }) => { members: LabelledSpectrum[] } };
-    return loadEnsemble(a.ensemble, { defaultTempK: tempK }).members;
+    const { loadEnsemble } = await import('../light/ensemble.js');
+    const units = a.units === undefined ? undefined : parseUnitDeclaration(a.units);
+    return loadEnsemble(a.ensemble, { defaultTempK: tempK, units }).members;
   }
   const spectrum = spectrumFromArgs(a);
   return [{ spectrum, weight: 1, tempK, label: spectrum.name }];
