@@ -153,32 +153,64 @@ export function operateGroups(el: StackElectrical, groups: number[][]): Operatio
 }
 
 /**
- * Current [A/m²] at which a series group's voltage equals V [V], given the
- * currents of other cells (for coupling); cells of the group get the result.
+ * Operate a series group at a terminal voltage V [V]: find the common current
+ * and each cell's voltage, given the currents of other cells (for coupling).
+ * With w_i(J) = J_ph,i(J) − J affine in J, write J = J_max − δ so that the
+ * limiting cell has w = q·δ exactly; V(δ) = Σ V_t ln(w_i/J0_i + 1) rises with δ.
+ * Bisection on z = ln(δ − δ_min) keeps the voltages accurate even when a cell
+ * sits near short circuit (w ≪ J_ph), where V recomputed from J would not be.
+ * Writes the group's current into `currents`, its voltages into `voltages`.
  */
-function groupCurrentAtVoltage(el: StackElectrical, group: number[], voltageV: number, currents: Float64Array, jph: Float64Array): number {
-  const v = (j: number): number => {
-    for (const i of group) currents[i] = j;
-    cascadePhotocurrents(el, currents, jph);
-    let s = 0;
-    for (const i of group) s += cellVoltage(jph[i], j, el.j0Am2[i], el.vt);
-    return s;
+function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: number, currents: Float64Array, jph: Float64Array, voltages: Float64Array): number {
+  const m = group.length;
+  const r = new Float64Array(m);
+  const q = new Float64Array(m);
+  for (const i of group) currents[i] = 0;
+  cascadePhotocurrents(el, currents, jph);
+  const a = group.map((i) => jph[i]);
+  for (const i of group) currents[i] = 1;
+  cascadePhotocurrents(el, currents, jph);
+  let jMax = Infinity;
+  let lim = 0;
+  group.forEach((i, k) => {
+    q[k] = -(jph[i] - 1 - a[k]); // −dw/dJ ≥ 1
+    const root = a[k] / q[k];
+    if (root < jMax) {
+      jMax = root;
+      lim = k;
+    }
+  });
+  let dMin = -Infinity;
+  group.forEach((i, k) => {
+    r[k] = k === lim ? 0 : Math.max(0, a[k] - q[k] * jMax);
+    dMin = Math.max(dMin, -(r[k] + el.j0Am2[i]) / q[k]);
+  });
+  const volts = (delta: number, out?: Float64Array): number => {
+    let v = 0;
+    group.forEach((i, k) => {
+      const vi = el.vt * Math.log1p((r[k] + q[k] * delta) / el.j0Am2[i]);
+      v += vi;
+      if (out) out[i] = vi;
+    });
+    return v;
   };
-  // Upper bound: the current at which some cell of the group reaches u = 0.
-  let hi = Infinity;
-  for (const i of group) hi = Math.min(hi, el.jgenAm2[i] + el.j0Am2[i] + 10 * Math.abs(el.jgenAm2[0]));
-  while (v(hi) > voltageV) hi *= 2;
-  let lo = -1;
-  let guard = 0;
-  while (!(v(lo) >= voltageV) && guard++ < 2000) lo *= 2;
-  for (let it = 0; it < 300; it++) {
-    const mid = 0.5 * (lo + hi);
-    if (v(mid) >= voltageV) lo = mid;
-    else hi = mid;
-    if (hi - lo <= 1e-13 * Math.max(1, Math.abs(mid))) break;
+  const deltaOf = (z: number) => dMin + Math.exp(z);
+  let zLo = -745;
+  let zHi = Math.log(Math.max(1e-300, Math.abs(dMin)) + Math.max(1, Math.abs(jMax)));
+  // NaN (a cell pushed past its reverse-bias limit by rounding) counts as −∞.
+  const below = (z: number) => !(volts(deltaOf(z)) >= voltageV);
+  for (let k = 0; k < 200 && below(zHi); k++) zHi += 1;
+  for (let it = 0; it < 200 && zHi - zLo > 1e-14 * Math.max(1, Math.abs(zHi)); it++) {
+    const mid = 0.5 * (zLo + zHi);
+    if (below(mid)) zLo = mid;
+    else zHi = mid;
   }
-  const j = 0.5 * (lo + hi);
+  // Report the upper end of the bracket, where every cell voltage is finite.
+  const delta = deltaOf(zHi);
+  volts(delta, voltages);
+  const j = jMax - delta;
   for (const i of group) currents[i] = j;
+  cascadePhotocurrents(el, currents, jph);
   return j;
 }
 
@@ -230,10 +262,11 @@ export function operateVoltageMatched(el: StackElectrical, upper: number[], lowe
   const cells = el.jgenAm2.length;
   const currents = new Float64Array(cells);
   const jph = new Float64Array(cells);
+  const voltages = new Float64Array(cells);
   const power = (v: number): number => {
-    const ja = groupCurrentAtVoltage(el, upper, v, currents, jph);
+    const ja = operateGroupAtVoltage(el, upper, v, currents, jph, voltages);
     const vb = (m * v) / n;
-    const jb = groupCurrentAtVoltage(el, lower, vb, currents, jph);
+    const jb = operateGroupAtVoltage(el, lower, vb, currents, jph, voltages);
     return v * ja + vb * jb;
   };
   // The upper group's open-circuit voltage bounds the search.
@@ -242,9 +275,8 @@ export function operateVoltageMatched(el: StackElectrical, upper: number[], lowe
   let vocUpper = 0;
   for (const i of upper) vocUpper += cellVoltage(jph[i], 0, el.j0Am2[i], el.vt);
   const v = maximiseScan(power, 0, vocUpper);
-  power(v);
-  cascadePhotocurrents(el, currents, jph);
-  return finish(el, currents, jph);
+  const p = power(v);
+  return { currentsAm2: currents, voltagesV: voltages, jphAm2: jph, powerWm2: p };
 }
 
 /** Open-circuit voltage [V] and short-circuit current [A/m²] of one series group (2T terminals). */
@@ -256,6 +288,6 @@ export function seriesTerminals(el: StackElectrical, group: number[]): { vocV: n
   cascadePhotocurrents(el, currents, jph);
   let voc = 0;
   for (const i of group) voc += cellVoltage(jph[i], 0, el.j0Am2[i], el.vt);
-  const jsc = groupCurrentAtVoltage(el, group, 0, currents, jph);
+  const jsc = operateGroupAtVoltage(el, group, 0, currents, jph, new Float64Array(n));
   return { vocV: voc, jscAm2: jsc };
 }

@@ -18,7 +18,7 @@ import type { AbsorptanceModel, AlphaModel, SpectralValue, StackSpec } from './m
 export interface StackOptics {
   /** Photogeneration of each subcell before coupling [A/m²]. */
   jgenAm2: Float64Array;
-  /** Radiative saturation current of each subcell, J0_rad·∫a (front emission) [A/m²], before ERE. */
+  /** Radiative saturation current of each subcell [A/m²] before ERE: q·2π/(h³c²)·∫ a(E)(1 − R(E)) E²/(e^{E/kT} − 1) dE. */
   j0RadAm2: Float64Array;
   /** Photon current incident on the stack above the lowest gap [A/m²] (for bookkeeping). */
   incidentAboveLowestGapAm2: number;
@@ -110,7 +110,9 @@ export function stepOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
       reaching += band;
     }
     jgen[i] = ELEMENTARY_CHARGE_C * throughput * a * reaching;
-    j0[i] = a * j0RadStepAm2(cells[i].gapEv, spec.tempK);
+    // Reciprocity: emission escapes through the same front surface, so R cuts J0 as it cuts
+    // absorption; an absorbing interlayer does not (at cell temperature it emits what it takes).
+    j0[i] = a * (1 - r) * j0RadStepAm2(cells[i].gapEv, spec.tempK);
     above = nAbove;
     if (i < n - 1) throughput *= spec.interlayerTransmittance[i] as number;
   }
@@ -142,12 +144,14 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
   const t = spec.tempK;
   let incident = 0;
   const addBin = (eMid: number, photons: number, kernel: number) => {
-    let flux = photons * (1 - spectralValueAt(spec.frontReflectance, eMid));
+    const front = 1 - spectralValueAt(spec.frontReflectance, eMid);
+    let flux = photons * front;
     if (eMid >= minGap) incident += flux;
     for (let i = 0; i < n; i++) {
       const a = absorptanceAt(cells[i].absorptance, cells[i].gapEv, eMid);
       jgen[i] += flux * a;
-      j0[i] += kernel * a;
+      // Reciprocity: the cell's own a(E) and the front surface's (1 − R) set its emission.
+      j0[i] += kernel * a * front;
       flux *= 1 - a;
       if (i < n - 1) flux *= spectralValueAt(spec.interlayerTransmittance[i], eMid);
     }
