@@ -1,5 +1,5 @@
 /** `gapstack spectrum`: what a light source holds, in numbers a designer uses. */
-import { averagePhotonEnergyEv, stepJscAm2, totalPhotonFlux } from '../light/spectrum.js';
+import { DEFAULT_APE_WINDOW_NM, averagePhotonEnergyEv, stepJscAm2, totalPhotonFlux } from '../light/spectrum.js';
 import { CAUTION } from '../report/assumptions.js';
 import { fix, round, table } from './format.js';
 import { parseNumberList, parseRange, spectrumFromArgs, type LightArgs } from './options.js';
@@ -13,14 +13,12 @@ export interface SpectrumArgs extends LightArgs {
 
 /** Default gaps for the photon-current table [eV]. */
 export const DEFAULT_REPORT_GAPS = [0.7, 0.94, 1.12, 1.34, 1.42, 1.6, 1.7, 1.8, 2.0, 2.3];
-/** Default APE window [nm]: a common spectroradiometer range (common practice). */
-export const DEFAULT_APE_WINDOW_NM: [number, number] = [350, 1050];
 
 export function spectrumCommand(a: SpectrumArgs): string {
   const s = spectrumFromArgs(a);
   const gaps = a.gaps === undefined ? DEFAULT_REPORT_GAPS : parseNumberList('gaps', a.gaps);
   for (const g of gaps) if (!(g > 0)) throw new UserError(`--gaps: every gap must be a positive number of eV, got ${g}`);
-  const window = a.apeWindow === undefined ? DEFAULT_APE_WINDOW_NM : parseRange('ape-window', a.apeWindow);
+  const window: readonly [number, number] = a.apeWindow === undefined ? DEFAULT_APE_WINDOW_NM : parseRange('ape-window', a.apeWindow);
   const ape = averagePhotonEnergyEv(s, window[0], window[1]);
   const range: [number, number] = [s.wavelengthNm[0], s.wavelengthNm[s.wavelengthNm.length - 1]];
   const above = gaps.map((g) => ({ gap_ev: g, jsc_ma_cm2: round(stepJscAm2(s, g) / 10) }));

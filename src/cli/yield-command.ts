@@ -5,7 +5,8 @@
  */
 import { UserError } from '../errors.js';
 import { am15g } from '../light/sources.js';
-import { ensembleSummary, loadEnsemble, yieldForStack, type Ensemble, type EnsembleSummary, type YieldResult } from '../light/ensemble.js';
+import { ensembleSummary, loadEnsemble, type Ensemble, type EnsembleSummary } from '../light/ensemble.js';
+import { yieldForStack, type YieldResult } from '../stack/yield.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import type { StackSpec } from '../stack/model.js';

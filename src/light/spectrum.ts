@@ -168,6 +168,9 @@ export function averagePhotonEnergyEv(s: Spectrum, loNm: number, hiNm: number): 
   return irradianceBetweenNm(s, loNm, hiNm) / (ELEMENTARY_CHARGE_C * photons);
 }
 
+/** Default window for the average photon energy [nm]: a common spectroradiometer range (common practice). */
+export const DEFAULT_APE_WINDOW_NM: readonly [number, number] = [350, 1050];
+
 /** SHA-256 of bytes, hex. */
 export function sha256Hex(data: Uint8Array | string): string {
   return createHash('sha256').update(data).digest('hex');

@@ -7,9 +7,9 @@ import {
   ensembleSummary,
   loadEnsemble,
   OUT_OF_RANGE_POLICY,
-  yieldForStack,
   type EnsembleMember,
 } from '../../src/light/ensemble.js';
+import { yieldForStack } from '../../src/stack/yield.js';
 import { am15g } from '../../src/light/sources.js';
 import { averagePhotonEnergyEv, makeSpectrum, photonsAboveEv, type Spectrum } from '../../src/light/spectrum.js';
 import { readSpectrumFile } from '../../src/light/table-file.js';

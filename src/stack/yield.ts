@@ -1,0 +1,67 @@
+/**
+ * Yield of one stack over a weighted set of spectra (PHYSICS.md §8): every
+ * spectrum is solved in full, so a series stack re-matches its current each time.
+ */
+import { UserError } from '../errors.js';
+import type { WeightedSpectrum } from '../search/step-objective.js';
+import { evaluateStack, type StackResult } from './evaluate.js';
+import type { StackSpec } from './model.js';
+
+export interface SpectrumYield {
+  label: string;
+  timestamp?: string;
+  weight: number;
+  tempK: number;
+  pinWm2: number;
+  pmaxWm2: number;
+  efficiency: number;
+  /** Terminal Voc [V] where the wiring has one pair of terminals, else null. */
+  stackVocV: number | null;
+  /** Per subcell, top first: operating current [A/m²], photocurrent [A/m²], operating voltage [V], Voc alone [V], power [W/m²]. */
+  subcells: { gapEv: number; jOpAm2: number; jphAm2: number; vOpV: number; vocV: number; powerWm2: number }[];
+}
+
+export interface YieldResult {
+  /** Σ w·P_max / Σ w·P_in [-]. */
+  yieldEfficiency: number;
+  totalWeight: number;
+  /** Σ w·P_in [W/m² × weight unit; Wh/m² when weights are hours]. */
+  weightedPinWm2: number;
+  /** Σ w·P_max [W/m² × weight unit; Wh/m² when weights are hours]. */
+  weightedPmaxWm2: number;
+  perSpectrum: SpectrumYield[];
+}
+
+/**
+ * Yield-weighted efficiency of a stack over weighted spectra,
+ * Σ w·P_max / Σ w·P_in (PHYSICS.md §8), each spectrum solved in full with
+ * evaluateStack at its own cell temperature (the spec's tempK replaced; gaps
+ * and ERE held as given). A series stack re-matches its current under every
+ * spectrum.
+ */
+export function yieldForStack(spec: StackSpec, members: (WeightedSpectrum & { label?: string; timestamp?: string })[]): YieldResult {
+  if (members.length === 0) throw new UserError('the ensemble holds no spectra');
+  let pin = 0;
+  let pmax = 0;
+  let total = 0;
+  const perSpectrum = members.map((m, k): SpectrumYield => {
+    if (!(m.weight > 0) || !Number.isFinite(m.weight)) throw new UserError(`spectrum ${m.label ?? k + 1}: weight must be a positive finite number, got ${m.weight}`);
+    const r: StackResult = evaluateStack({ ...spec, tempK: m.tempK }, m.spectrum);
+    pin += m.weight * r.pinWm2;
+    pmax += m.weight * r.pmaxWm2;
+    total += m.weight;
+    return {
+      label: m.label ?? `#${k + 1}`,
+      ...(m.timestamp !== undefined ? { timestamp: m.timestamp } : {}),
+      weight: m.weight,
+      tempK: m.tempK,
+      pinWm2: r.pinWm2,
+      pmaxWm2: r.pmaxWm2,
+      efficiency: r.efficiency,
+      stackVocV: r.stackVocV,
+      subcells: r.subcells.map((c) => ({ gapEv: c.gapEv, jOpAm2: c.jOpAm2, jphAm2: c.jphAm2, vOpV: c.vOpV, vocV: c.vocV, powerWm2: c.powerWm2 })),
+    };
+  });
+  if (!(pin > 0)) throw new UserError('the ensemble carries no incident power');
+  return { yieldEfficiency: pmax / pin, totalWeight: total, weightedPinWm2: pin, weightedPmaxWm2: pmax, perSpectrum };
+}
