@@ -99,3 +99,17 @@ describe('gapstack map', () => {
     expect(r.stderr).toMatch(/--out must end in \.csv or \.json/);
   });
 });
+
+describe('gapstack optimize over an ensemble', () => {
+  test('maximises the yield-weighted efficiency and compares with the AM1.5G optimum', () => {
+    const j = runJson(['optimize', '--cells', '2', '--fix', '2=1.12', '--ensemble', 'examples/ensemble-demo/manifest.yaml']);
+    expect(j.objective).toBe('yield-weighted efficiency');
+    expect(j.best.gaps_ev).toHaveLength(2);
+    expect(j.spectra.length).toBe(16);
+    const c = j.am15g_comparison;
+    // AM1.5G optimum on a 1.12 eV bottom: 45.04 % at 1.729 eV (PHYSICS.md §5).
+    expect(Math.abs(c.am15g_best.efficiency - 0.4504)).toBeLessThan(1e-4);
+    expect(c.am15g_design_yield_efficiency).toBeLessThanOrEqual(j.best.efficiency + 1e-9);
+    expect(c.loss_rel).toBeGreaterThanOrEqual(-1e-9);
+  });
+});
