@@ -154,6 +154,8 @@ async function run(argv: string[]): Promise<void> {
       throw err ?? new UserError(msg);
     });
   try {
+    // Fault injection for the test of the internal-error path (see DEVELOPERS.md).
+    if (process.env.GAPSTACK_FAULT_INJECTION === 'internal') throw new Error('injected fault');
     await cli.parseAsync();
   } catch (err) {
     if (err instanceof UserError || (err as Error)?.name === 'YError') {
