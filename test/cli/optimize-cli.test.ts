@@ -113,3 +113,29 @@ describe('gapstack optimize over an ensemble', () => {
     expect(c.loss_rel).toBeGreaterThanOrEqual(-1e-9);
   });
 });
+
+describe('material-bound 2T searches', () => {
+  test('mixed-halide top on silicon: 1.729 eV (PHYSICS.md §5) sits inside the window, so a bromide fraction comes back and no warning', () => {
+    const j = runJson(['optimize', '--cells', '2', '--material', '1=perovskite-i-br', '--material', '2=si']);
+    expect(Math.abs(j.best.gaps_ev[0] - 1.729)).toBeLessThan(0.002);
+    expect(j.best.gaps_ev[1]).toBe(1.12);
+    const top = j.best.compositions[0];
+    expect(top.compositions).toHaveLength(1);
+    expect(top.compositions[0].x).toBeGreaterThan(0.2);
+    expect(top.compositions[0].x).toBeLessThan(0.45);
+    expect(top.in_window).toBe(true);
+    expect(j.warnings).toEqual([]);
+  });
+  test('mixed-halide top on germanium: the unconstrained optimum lies below the iodide end and the search says so', () => {
+    const j = runJson(['optimize', '--cells', '2', '--material', '1=perovskite-i-br', '--material', '2=ge']);
+    expect(j.unconstrained.gaps_ev[0]).toBeLessThan(1.57);
+    expect(j.best.gaps_ev[0]).toBeGreaterThanOrEqual(1.57 - 1e-6);
+    expect(j.warnings[0]).toMatch(/unconstrained optimum .* lies outside the practical window/);
+  });
+  test('--full-range lets a bound subcell leave its window, with a warning', () => {
+    const j = runJson(['optimize', '--cells', '2', '--wiring', 'independent', '--material', '1=perovskite-i-br', '--material', '2=si', '--full-range']);
+    expect(j.best.gaps_ev[0]).toBeGreaterThan(1.8);
+    expect(j.best.compositions[0].in_window).toBe(false);
+    expect(j.warnings.join(' ')).toMatch(/outside the practical window/);
+  });
+});
