@@ -27,7 +27,6 @@
  */
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { basename, dirname, extname, isAbsolute, join, resolve } from 'node:path';
-import { parse as parseCsv } from 'csv-parse/sync';
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode } from 'yaml';
 import { UserError, fileError } from '../errors.js';
 import { HC_EV_NM } from '../physics/constants.js';
@@ -41,7 +40,9 @@ import {
   readSpectrumFile,
   toCanonical,
   UNIT_HELP,
+  splitTableRows,
   type AbscissaUnit,
+  type Row,
   type OrdinateUnit,
   type TableUnits,
 } from './table-file.js';
@@ -202,11 +203,6 @@ function readTextFile(file: string, what: string): { bytes: Buffer; text: string
 // ---------------------------------------------------------------------------
 // Delimited text with `# key: value` directives
 
-interface Row {
-  line: number;
-  cells: string[];
-}
-
 interface Directive {
   value: string;
   line: number;
@@ -225,25 +221,7 @@ function readDelimited(file: string, text: string): { rows: Row[]; directives: M
       directives.set(key, { value: m[2], line: i + 1 });
     }
   });
-  const firstData = lines.find((l) => l.trim() !== '' && !l.trim().startsWith('#')) ?? '';
-  const delimiter = firstData.includes(',') ? ',' : firstData.includes(';') ? ';' : '\t';
-  const normalised = delimiter === '\t' ? lines.map((l) => l.trim().replace(/[ \t]+/g, '\t')).join('\n') : text;
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parseCsv(normalised, {
-      delimiter,
-      comment: '#',
-      comment_no_infix: true,
-      skip_empty_lines: true,
-      relax_column_count: true,
-      trim: true,
-      info: true,
-    }) as unknown as { record: string[]; info: { lines: number } }[];
-  } catch (err) {
-    const e = err as { lines?: number; message: string };
-    throw fileError(file, e.lines, `cannot read the table: ${e.message}`);
-  }
-  return { rows: records.map((r) => ({ line: r.info.lines, cells: r.record })), directives };
+  return { rows: splitTableRows(file, text), directives };
 }
 
 // ---------------------------------------------------------------------------

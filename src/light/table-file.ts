@@ -73,7 +73,8 @@ export function parseUnitDeclaration(decl: string): TableUnits {
   return { x, y };
 }
 
-interface Row {
+/** One data row of a table with the 1-based line it stands on. */
+export interface Row {
   line: number;
   cells: string[];
 }
@@ -95,7 +96,8 @@ function splitPlainRows(text: string): Row[] | null {
   return rows;
 }
 
-function splitRows(file: string, text: string): Row[] {
+/** Rows of a CSV, TSV, semicolon or whitespace table, `#` comments skipped, with line numbers. */
+export function splitTableRows(file: string, text: string): Row[] {
   const plain = splitPlainRows(text);
   if (plain) return plain;
   const parse = csvParse();
@@ -145,7 +147,7 @@ export function readSpectrumFile(file: string, declared?: TableUnits): Spectrum 
 
 /** Parse table text (file name used in messages). */
 export function spectrumFromText(file: string, text: string, declared?: TableUnits, sha?: string): Spectrum {
-  const rows = splitRows(file, text);
+  const rows = splitTableRows(file, text);
   if (rows.length === 0) throw fileError(file, undefined, 'holds no data rows');
   let units = declared;
   let start = 0;

@@ -13,6 +13,7 @@ import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
 import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
 import { lambertW0OfExp } from '../junction/lambert-w.js';
+import { goldenSectionMax } from '../numerics/golden.js';
 
 export type FastWiring = 'series' | 'independent';
 
@@ -179,30 +180,8 @@ export class StepObjective implements GapObjective {
 
   /** Best constant top absorptance in (0, 1] for these gaps, by golden section. */
   bestTopAbsorptance(gapsEv: ArrayLike<number>): { absorptance: number; efficiency: number } {
-    const f = (a: number) => this.valueAt(gapsEv, a);
-    let lo = 0.05;
-    let hi = 1;
-    const g = (Math.sqrt(5) - 1) / 2;
-    let x1 = hi - g * (hi - lo);
-    let x2 = lo + g * (hi - lo);
-    let f1 = f(x1);
-    let f2 = f(x2);
-    while (hi - lo > 1e-7) {
-      if (f1 < f2) {
-        lo = x1;
-        x1 = x2;
-        f1 = f2;
-        x2 = lo + g * (hi - lo);
-        f2 = f(x2);
-      } else {
-        hi = x2;
-        x2 = x1;
-        f2 = f1;
-        x1 = hi - g * (hi - lo);
-        f1 = f(x1);
-      }
-    }
-    const a = 0.5 * (lo + hi);
+    const f = (x: number) => this.valueAt(gapsEv, x);
+    const a = goldenSectionMax(f, 0.05, 1, 1e-7);
     const full = f(1);
     const fa = f(a);
     return fa >= full ? { absorptance: a, efficiency: fa } : { absorptance: 1, efficiency: full };

@@ -10,6 +10,8 @@
  * and the group maximum is the root of dP/dJ by safeguarded Newton.
  */
 
+import { goldenSectionMax } from '../numerics/golden.js';
+
 /** Electrical inputs of a stack, top first. */
 export interface StackElectrical {
   /** Photogeneration [A/m²]. */
@@ -227,29 +229,7 @@ export function maximiseScan(f: (x: number) => number, a: number, b: number, sca
     }
   }
   const h = (b - a) / scan;
-  let lo = Math.max(a, best - h);
-  let hi = Math.min(b, best + h);
-  const g = (Math.sqrt(5) - 1) / 2;
-  let x1 = hi - g * (hi - lo);
-  let x2 = lo + g * (hi - lo);
-  let f1 = f(x1);
-  let f2 = f(x2);
-  while (hi - lo > tol * Math.max(1, Math.abs(hi))) {
-    if (f1 < f2) {
-      lo = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = lo + g * (hi - lo);
-      f2 = f(x2);
-    } else {
-      hi = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = hi - g * (hi - lo);
-      f1 = f(x1);
-    }
-  }
-  return 0.5 * (lo + hi);
+  return goldenSectionMax(f, Math.max(a, best - h), Math.min(b, best + h), tol * Math.max(1, Math.abs(b)));
 }
 
 /**

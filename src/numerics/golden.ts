@@ -1,0 +1,27 @@
+/**
+ * Golden-section search for the maximum of a unimodal function on [lo, hi]
+ * (Kiefer, Proc. Am. Math. Soc. 4 (1953) 502). Returns the maximising argument.
+ */
+export function goldenSectionMax(f: (x: number) => number, lo: number, hi: number, tol: number): number {
+  const g = (Math.sqrt(5) - 1) / 2;
+  let x1 = hi - g * (hi - lo);
+  let x2 = lo + g * (hi - lo);
+  let f1 = f(x1);
+  let f2 = f(x2);
+  while (hi - lo > tol) {
+    if (f1 < f2) {
+      lo = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = lo + g * (hi - lo);
+      f2 = f(x2);
+    } else {
+      hi = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = hi - g * (hi - lo);
+      f1 = f(x1);
+    }
+  }
+  return 0.5 * (lo + hi);
+}
