@@ -1,5 +1,7 @@
 /** `gapstack evaluate`: one stack, one spectrum, every number with its unit. */
 import { evaluateStack, type StackResult } from '../stack/evaluate.js';
+import { maximiseScan } from '../stack/electrical.js';
+import { UserError } from '../errors.js';
 import type { StackSpec } from '../stack/model.js';
 import type { Spectrum } from '../light/spectrum.js';
 import { assumptionLines, CAUTION, describeCoupling, describeAbsorptance, EMISSION_CONVENTION } from '../report/assumptions.js';
@@ -50,8 +52,17 @@ export function evaluateCommand(a: EvaluateArgs): string {
   const gaps = gapsFromArgs(a.gaps);
   const spec = stackFromArgs(gaps, a);
   const spectrum = spectrumFromArgs(a);
+  let chosenTop: number | undefined;
+  if (a.topAbsorptance === 'best') {
+    // Thinning the top cell: the constant absorptance in (0, 1] that maximises this stack.
+    if (gaps.length < 2) throw new UserError('--top-absorptance best needs a stack of 2 or more subcells');
+    const withTop = (value: number): StackSpec => ({ ...spec, subcells: spec.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step', value } } : c)) });
+    chosenTop = maximiseScan((v) => evaluateStack(withTop(v), spectrum).efficiency, 0.02, 1, 49, 1e-9);
+    if (evaluateStack(withTop(1), spectrum).efficiency >= evaluateStack(withTop(chosenTop), spectrum).efficiency) chosenTop = 1;
+    spec.subcells[0] = withTop(chosenTop).subcells[0];
+  }
   const r = evaluateStack(spec, spectrum);
-  if (a.json) return JSON.stringify(stackResultJson(spec, spectrum, r), null, 2);
+  if (a.json) return JSON.stringify({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}) }, null, 2);
   const rows = r.subcells.map((c, i) => [
     String(i + 1),
     fix(c.gapEv, 4),
@@ -64,6 +75,7 @@ export function evaluateCommand(a: EvaluateArgs): string {
     fix(c.powerWm2, 2),
   ]);
   const out = [
+    ...(chosenTop !== undefined ? [`Best top-cell absorptance: ${chosenTop.toFixed(4)} (constant above the top gap; the rest of its band passes down)`] : []),
     `Efficiency ${pct(r.efficiency, 3)}  (P_max ${r.pmaxWm2.toFixed(2)} W/m² of P_in ${r.pinWm2.toFixed(2)} W/m²), wiring: ${spec.wiring.label}`,
   ];
   if (r.stackVocV !== null && r.stackJscAm2 !== null) out.push(`Stack terminals: Voc ${r.stackVocV.toFixed(4)} V, Jsc ${(r.stackJscAm2 / 10).toFixed(2)} mA/cm²`);

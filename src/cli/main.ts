@@ -24,7 +24,7 @@ function stackOptions<T>(y: Argv<T>) {
     .option('ere', { type: 'string', describe: 'external radiative efficiency (0, 1], one value or one per subcell' })
     .option('voc-loss', { type: 'string', describe: 'non-radiative Voc loss [V] instead of --ere, one value or one per subcell' })
     .option('lc', { type: 'string', describe: 'luminescent coupling: η (one or one per interface), or radiative[:n] (default: isolated)' })
-    .option('top-absorptance', { type: 'string', describe: 'constant absorptance of the top cell above its gap (0, 1]' })
+    .option('top-absorptance', { type: 'string', describe: 'constant absorptance of the top cell above its gap (0, 1], or "best" to thin it optimally' })
     .option('top-thickness', { type: 'string', describe: 'top-cell thickness [nm] with a direct-gap absorption edge' })
     .option('top-alpha0', { type: 'string', describe: 'top-cell α at 1 eV above the gap [cm⁻¹] (default 1.5e5)' })
     .option('top-urbach', { type: 'string', describe: 'top-cell Urbach energy [eV] (default 0.015)' })

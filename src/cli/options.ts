@@ -131,6 +131,7 @@ export interface StackArgs {
 /** Absorptance of the top cell from --top-absorptance or --top-thickness and its model. */
 export function topAbsorptanceFromArgs(a: StackArgs): AbsorptanceModel {
   if (a.topAbsorptance !== undefined && a.topThickness !== undefined) throw new UserError('give either --top-absorptance or --top-thickness, not both');
+  if (a.topAbsorptance === 'best') return { kind: 'step', value: 1 };
   if (a.topAbsorptance !== undefined) {
     const v = parseNumber('top-absorptance', a.topAbsorptance);
     if (!(v > 0 && v <= 1)) throw new UserError(`--top-absorptance must be within (0, 1], got ${v}`);

@@ -102,3 +102,16 @@ describe('bad input exits 2 with one clear line', () => {
     expect(r.stdout).toBe('');
   });
 });
+
+describe('thinning the top cell from the command line', () => {
+  test('--top-absorptance best finds A = 0.8032 and 41.544 % for 1.55/1.12 eV (independent reference: test/fixtures/reference/runner.py, top_absorptance_optimum)', () => {
+    const j = runJson(['evaluate', '--gaps', '1.55,1.12', '--top-absorptance', 'best']);
+    expect(Math.abs(j.top_absorptance - 0.803200662767916)).toBeLessThan(1e-4);
+    expect(Math.abs(j.efficiency - 0.4154355323832496)).toBeLessThan(1e-7);
+    // It beats the full-thickness top cell: 32.54 % (PHYSICS.md §4 table, isolated).
+    expect(Math.abs(runJson(['evaluate', '--gaps', '1.55,1.12']).efficiency - 0.3254)).toBeLessThan(2e-4);
+  });
+  test('a bottom-limited stack keeps its top cell whole', () => {
+    expect(runJson(['evaluate', '--gaps', '1.8,1.12', '--top-absorptance', 'best']).top_absorptance).toBe(1);
+  });
+});

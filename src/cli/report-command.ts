@@ -1,0 +1,85 @@
+/**
+ * `gapstack report <design>`: answer a design file's question as one
+ * self-contained HTML page (inline CSS and SVG, no network), and on request a
+ * folder of standalone figures (SVG, PNG) with the data behind them (CSV,
+ * JSON). Everything is built in memory first and each file is written
+ * atomically, so a failing report leaves existing outputs untouched.
+ *
+ * The report modules (d3-node, resvg, handlebars) load only here.
+ */
+import { join, resolve } from 'node:path';
+import { UserError } from '../errors.js';
+import { writeFileAtomic } from '../io/atomic-write.js';
+import { CAUTION } from '../report/assumptions.js';
+
+export interface ReportArgs {
+  /** Design file (YAML or JSON). */
+  design: string;
+  /** Output HTML file (default report.html). */
+  output?: string;
+  /** Folder for standalone figures and their data. */
+  figures?: string;
+  /** Return a JSON summary instead of text. */
+  json?: boolean;
+}
+
+/**
+ * The date a report states: SOURCE_DATE_EPOCH [s] when set (reproducible
+ * builds convention), else now.
+ */
+export function reportDate(env: NodeJS.ProcessEnv = process.env): Date {
+  const s = env.SOURCE_DATE_EPOCH;
+  if (s !== undefined && s.trim() !== '') {
+    const t = Number(s);
+    if (!Number.isFinite(t) || t < 0) throw new UserError(`SOURCE_DATE_EPOCH must be a whole number of seconds since 1970, got "${s}"`);
+    return new Date(Math.floor(t) * 1000);
+  }
+  return new Date();
+}
+
+export async function reportCommand(a: ReportArgs): Promise<string> {
+  if (typeof a.design !== 'string' || a.design === '') throw new UserError('name a design file, e.g. gapstack report examples/perovskite-silicon.yaml -o report.html');
+  const output = a.output ?? 'report.html';
+  if (!/\.html?$/i.test(output)) throw new UserError(`-o/--output must end in .html, got "${output}"`);
+  const t0 = performance.now();
+  const { loadDesign } = await import('../design/index.js');
+  const design = await loadDesign(a.design);
+  const { buildReport } = await import('../report/build.js');
+  const built = buildReport(design, { date: reportDate() });
+  let files: { name: string; data: string | Uint8Array }[] = [];
+  if (a.figures !== undefined) {
+    const { figureFiles } = await import('../report/figures.js');
+    files = figureFiles(built.charts, built.summary);
+  }
+  // Every byte exists in memory now; only writing is left.
+  const written: string[] = [];
+  writeFileAtomic(output, built.html);
+  written.push(output);
+  for (const f of files) {
+    const p = join(a.figures as string, f.name);
+    writeFileAtomic(p, f.data);
+    written.push(p);
+  }
+  const seconds = (performance.now() - t0) / 1000;
+  const outcomes = built.data.outcomes;
+  if (a.json) {
+    return JSON.stringify(
+      {
+        report: resolve(output),
+        figures: a.figures === undefined ? null : resolve(a.figures),
+        files: written.length,
+        seconds: Number(seconds.toFixed(3)),
+        ...built.summary,
+      },
+      null,
+      2,
+    );
+  }
+  const lines = [
+    `Wrote ${output}${a.figures !== undefined ? ` and ${files.length} files in ${a.figures}` : ''} (${seconds.toFixed(2)} s).`,
+    ...outcomes.map((o) => `  ${o.wiring.key}: ${(o.search.result.best.value * 100).toFixed(3)} % at ${o.search.result.best.gapsEv.map((g) => g.toFixed(4)).join(' / ')} eV`),
+    ...outcomes.flatMap((o) => o.search.warnings.map((w) => `Warning (${o.wiring.key}): ${w}`)),
+    CAUTION,
+  ];
+  return lines.join('\n');
+}
