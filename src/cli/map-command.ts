@@ -7,6 +7,7 @@ import { subcellBounds } from '../search/optimize.js';
 import { gapAtTemperature, gapReach } from '../materials/index.js';
 import { CAUTION, describeCoupling } from '../report/assumptions.js';
 import { round } from './format.js';
+import { startProgress } from './progress.js';
 import { parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
@@ -74,7 +75,13 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const members = await spectraFromArgs(a, spec.tempK);
   const obj = buildObjective(spec, members);
   const t0 = performance.now();
-  const m = computeMap(obj, { x: uniformAxis(x0, x1, step), y: uniformAxis(y0, y1, step), xCell, yCell, fixed, bounds });
+  const bar = a.json ? null : await startProgress('mapping');
+  let m: GapMap;
+  try {
+    m = computeMap(obj, { x: uniformAxis(x0, x1, step), y: uniformAxis(y0, y1, step), xCell, yCell, fixed, bounds, progress: bar?.update });
+  } finally {
+    bar?.stop();
+  }
   const seconds = (performance.now() - t0) / 1000;
   const meta = {
     wiring: spec.wiring.label,

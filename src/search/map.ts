@@ -22,6 +22,8 @@ export interface MapRequest {
   fixed: (number | undefined)[];
   /** Bounds [eV] for subcells maximised per pixel. */
   bounds: [number, number][];
+  /** Called after each row with the share done. */
+  progress?: (fraction: number) => void;
 }
 
 export interface GapMap {
@@ -120,6 +122,7 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
       free.forEach((_, k) => (profileGaps[k][iy * nx + ix] = bestLocal.x[k]));
       note(ix, iy, bestLocal.value);
     }
+    req.progress?.((iy + 1) / ny);
   }
   return { x, y, xCell, yCell, values, profileGaps, profile: free.length > 0, best };
 }
