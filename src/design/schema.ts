@@ -45,6 +45,8 @@ function shown(v: unknown): string {
 
 const TYPE_WORDS: Record<string, string> = { number: 'a number', integer: 'a whole number', string: 'text', object: 'a mapping of keys', array: 'a list', boolean: 'true or false' };
 
+const COMPARISON: Record<string, string> = { '>=': '≥', '<=': '≤', '>': '>', '<': '<' };
+
 interface Problem {
   path: FieldPath;
   key: boolean;
@@ -70,7 +72,7 @@ function describe(e: ErrorObject): Problem {
     case 'maximum':
     case 'exclusiveMinimum':
     case 'exclusiveMaximum':
-      return { path, key: false, message: `must be ${String(p.comparison)} ${String(p.limit)}${got}${desc ? `: ${desc}` : ''}` };
+      return { path, key: false, message: `must be ${COMPARISON[String(p.comparison)] ?? String(p.comparison)} ${String(p.limit)}${got}${desc ? `: ${desc}` : ''}` };
     case 'minItems':
       return { path, key: false, message: `must hold at least ${String(p.limit)} item(s) (got ${Array.isArray(e.data) ? e.data.length : '?'})` };
     case 'maxItems':

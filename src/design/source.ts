@@ -59,7 +59,9 @@ function locator(doc: Document | undefined, lc: LineCounter): DesignSource['line
       if (node) last = node;
       else break;
     }
-    const target = (key && keyNode ? keyNode : node ?? keyNode ?? last) as YamlNode | undefined;
+    // A block list or mapping reads best at its key's line; a scalar at its own.
+    const block = (isMap(node) || isSeq(node)) && !(node as { flow?: boolean }).flow;
+    const target = ((key || block) && keyNode ? keyNode : node ?? keyNode ?? last) as YamlNode | undefined;
     const range = target?.range;
     if (!range) return undefined;
     return lc.linePos(range[0]).line;
@@ -77,8 +79,11 @@ export function parseDesignText(path: string, text: string, sha256 = sha256Hex(t
     } catch (err) {
       const msg = (err as Error).message;
       const pos = /position (\d+)/.exec(msg);
-      const line = pos ? text.slice(0, Number(pos[1])).split('\n').length : undefined;
-      throw fileError(path, line, `not valid JSON: ${msg.replace(/^JSON\.parse: /, '')}`);
+      // Newer engines drop the position; the YAML parser, reading JSON as flow YAML, still finds the line.
+      const yerr = parseDocument(text, { lineCounter: lc, prettyErrors: false }).errors[0];
+      const fallback = yerr ? lc.linePos(yerr.pos[0]).line : undefined;
+      const line = pos ? text.slice(0, Number(pos[1])).split('\n').length : fallback;
+      throw fileError(path, line, `not valid JSON: ${msg.split('\n')[0].replace(/^JSON\.parse: /, '')}`);
     }
     const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false, uniqueKeys: false });
     return { path, sha256, format, data, lineOf: locator(doc.errors.length === 0 ? doc : undefined, lc) };
