@@ -9,6 +9,7 @@ import { j0RadStepAm2 } from '../junction/radiative.js';
 import { UserError } from '../errors.js';
 import { StepObjective, type GapObjective } from './step-objective.js';
 import { nelderMeadMax } from './refine.js';
+import { maximiseScan } from '../stack/electrical.js';
 
 export interface MapRequest {
   /** Axis values [eV] of the upper mapped subcell. */
@@ -105,18 +106,38 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
         note(ix, iy, obj.value(gaps));
         continue;
       }
-      // Profile: maximise over the free subcells, each inside its bounds and the ordering.
-      const lo = free.map((i) => req.bounds[i][0]);
-      const hi = free.map((i) => req.bounds[i][1]);
+      // Profile: maximise over the free subcells inside their bounds and the ordering the
+      // mapped gaps impose (a free cell between two mapped ones must lie between them).
+      const lo: number[] = [];
+      const hi: number[] = [];
+      for (const i of free) {
+        let l = req.bounds[i][0];
+        let h = req.bounds[i][1];
+        for (const [c, g] of [[xCell, x[ix]], [yCell, y[iy]]] as const) {
+          if (c < i) h = Math.min(h, g - 1e-4);
+          if (c > i) l = Math.max(l, g + 1e-4);
+        }
+        lo.push(l);
+        hi.push(h);
+      }
+      if (lo.some((l, k) => !(l < hi[k]))) continue;
       const f = (v: number[]) => {
         free.forEach((i, k) => (gaps[i] = v[k]));
         return obj.value(gaps);
       };
-      const starts: number[][] = [free.map((i, k) => (warm ? warm[k] : 0.5 * (lo[k] + hi[k])))];
-      let bestLocal = { x: starts[0], value: -Infinity };
-      for (const s of starts) {
-        const r = nelderMeadMax(f, s, 0.05, { lo, hi }, 1e-4, 400);
-        if (r.value > bestLocal.value) bestLocal = r;
+      let bestLocal: { x: number[]; value: number };
+      if (free.length === 1) {
+        const g = maximiseScan((e) => f([e]), lo[0], hi[0], Math.max(8, Math.ceil((hi[0] - lo[0]) / 0.01)), 1e-7);
+        bestLocal = { x: [g], value: f([g]) };
+      } else {
+        // Ordered starts: evenly spread inside each cell's interval, top cell highest; and the neighbour's answer.
+        const spread = free.map((_, k) => lo[k] + ((hi[k] - lo[k]) * (free.length - k)) / (free.length + 1));
+        const starts = [spread, ...(warm && warm.every((v, k) => v > lo[k] && v < hi[k]) ? [warm] : [])];
+        bestLocal = { x: spread, value: -Infinity };
+        for (const st of starts) {
+          const r = nelderMeadMax(f, st, 0.05, { lo, hi }, 1e-5, 1500);
+          if (r.value > bestLocal.value) bestLocal = r;
+        }
       }
       warm = bestLocal.x;
       free.forEach((_, k) => (profileGaps[k][iy * nx + ix] = bestLocal.x[k]));

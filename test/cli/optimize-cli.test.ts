@@ -139,3 +139,19 @@ describe('material-bound 2T searches', () => {
     expect(j.warnings.join(' ')).toMatch(/outside the practical window/);
   });
 });
+
+describe('profile maps', () => {
+  test('a 3-subcell map over the top two gaps maximises the bottom gap per point; its best is near the 3J optimum 51.62 % at 1.900/1.367 (PHYSICS.md §5)', () => {
+    const out = join(dir, 'profile.csv');
+    const r = runCli(['map', '--cells', '3', '--x', '1.85:1.95', '--y', '1.33:1.40', '--step', '0.01', '--out', out, '--json']);
+    expect(r.code).toBe(0);
+    const s = JSON.parse(r.stdout);
+    expect(s.profile).toBe(true);
+    expect(Math.abs(s.best.efficiency - 0.5162)).toBeLessThan(3e-4);
+    const [head, first] = readFileSync(out, 'utf8').split('\n');
+    expect(head).toBe('gap1_ev,gap2_ev,gap3_ev_profile,efficiency');
+    const bottom = Number(first.split(',')[2]);
+    expect(bottom).toBeGreaterThan(0.5);
+    expect(bottom).toBeLessThan(1.33);
+  });
+});
