@@ -7,7 +7,8 @@
  *
  * The report modules (d3-node, resvg, handlebars) load only here.
  */
-import { join, resolve } from 'node:path';
+import { mkdirSync, statSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { CAUTION } from '../report/assumptions.js';
@@ -37,6 +38,16 @@ export function reportDate(env: NodeJS.ProcessEnv = process.env): Date {
   return new Date();
 }
 
+/** A folder that exists (created if missing) and is a folder, or a UserError naming the option. */
+function preflight(dir: string, option: string): void {
+  try {
+    mkdirSync(dir, { recursive: true });
+  } catch (err) {
+    throw new UserError(`${option}: cannot create the folder ${dir} (${(err as NodeJS.ErrnoException).code ?? 'error'}); nothing was written`);
+  }
+  if (!statSync(dir).isDirectory()) throw new UserError(`${option}: ${dir} is not a folder; nothing was written`);
+}
+
 export async function reportCommand(a: ReportArgs): Promise<string> {
   if (typeof a.design !== 'string' || a.design === '') throw new UserError('name a design file, e.g. gapstack report examples/perovskite-silicon.yaml -o report.html');
   const output = a.output ?? 'report.html';
@@ -51,7 +62,9 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
     const { figureFiles } = await import('../report/figures.js');
     files = figureFiles(built.charts, built.summary);
   }
-  // Every byte exists in memory now; only writing is left.
+  // Every byte exists in memory now. Make sure both folders can take files before writing any.
+  preflight(dirname(resolve(output)), '-o/--output');
+  if (a.figures !== undefined) preflight(resolve(a.figures), '--figures');
   const written: string[] = [];
   writeFileAtomic(output, built.html);
   written.push(output);

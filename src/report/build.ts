@@ -1,0 +1,259 @@
+/**
+ * A design report in memory: the self-contained HTML page and, on request,
+ * every chart as standalone SVG and PNG with the data behind it as CSV and
+ * JSON. Nothing is written here; the command writes the files only after
+ * everything has been built, so a failure leaves existing outputs as they were.
+ */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import Handlebars from 'handlebars';
+import type { Design } from '../design/index.js';
+import { mapToCsv } from '../search/map.js';
+import { stackOptics } from '../stack/optics.js';
+import { computeReport, type MapOutcome, type ReportData, type WiringOutcome } from './compute.js';
+import { mapChartSvg } from './charts/map-chart.js';
+import { spectrumChartData, spectrumChartSvg } from './charts/spectrum-chart.js';
+import { jvChartSvg } from './charts/jv-chart.js';
+import { sensitivityChartSvg } from './charts/sensitivity-chart.js';
+import { answerRows, assumptionList, CAUTION, fx, generatedLine, pc, provenanceList, questionText, subcellTable, verdict, wiringTitle } from './view.js';
+
+export const TEMPLATE_PATH = fileURLToPath(new URL('../../templates/report.hbs', import.meta.url));
+const PACKAGE_JSON = fileURLToPath(new URL('../../package.json', import.meta.url));
+
+/** The tool's version from package.json. */
+export function toolVersion(): string {
+  return (JSON.parse(readFileSync(PACKAGE_JSON, 'utf8')) as { version: string }).version;
+}
+
+/** One chart: its SVG and the data drawn, for the figures folder. */
+export interface Chart {
+  /** File stem, e.g. "map-series-1-2". */
+  name: string;
+  svg: string;
+  csv: string;
+  json: Record<string, unknown>;
+}
+
+export interface BuiltReport {
+  html: string;
+  charts: Chart[];
+  /** Machine-readable answer (the figures folder's summary.json, and `--json`). */
+  summary: Record<string, unknown>;
+  data: ReportData;
+}
+
+const r6 = (x: number) => Number(x.toFixed(6));
+const r8 = (x: number) => Number(x.toPrecision(8));
+
+function subcellLabel(design: Design, i: number): string {
+  const s = design.subcells[i];
+  return s.labelled ? `subcell ${i + 1} (${s.label})` : `subcell ${i + 1}`;
+}
+
+function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome): { chart: Chart; grid: string; id: string; gridId: string } {
+  const d = data.design;
+  const id = `map-${o.wiring.slug}-${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
+  const gridId = `${id}-grid`;
+  const mm = m.map;
+  const svg = mapChartSvg({
+    outcome: m,
+    id,
+    gridId,
+    wiringLabel: wiringTitle(o.wiring.key),
+    xLabel: `gap of ${subcellLabel(d, m.pair.xCell)} [eV]`,
+    yLabel: `gap of ${subcellLabel(d, m.pair.yCell)} [eV]`,
+    loss: d.loss,
+  });
+  const nx = mm.x.length;
+  const ny = mm.y.length;
+  const v = Array.from(mm.values, (x) => (Number.isNaN(x) ? null : Number((x * 100).toFixed(3))));
+  const grid = JSON.stringify({ x0: mm.x[0], dx: nx > 1 ? r8((mm.x[nx - 1] - mm.x[0]) / (nx - 1)) : 1, nx, y0: mm.y[0], dy: ny > 1 ? r8((mm.y[ny - 1] - mm.y[0]) / (ny - 1)) : 1, ny, v }).replace(/</g, '\\u003c');
+  const json = {
+    wiring: o.wiring.key,
+    x_subcell: m.pair.xCell + 1,
+    y_subcell: m.pair.yCell + 1,
+    x_ev: Array.from(mm.x),
+    y_ev: Array.from(mm.y),
+    efficiency: Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN(mm.values[iy * nx + ix]) ? null : r8(mm.values[iy * nx + ix])))),
+    layout: 'efficiency[iy][ix] is the value at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
+    profile_subcells: m.profiled.map((c) => c + 1),
+    optimum: { x_ev: r6(m.optimum.x), y_ev: r6(m.optimum.y), efficiency: r8(m.optimum.value) },
+    map_maximum: { x_ev: mm.best.x, y_ev: mm.best.y, efficiency: r8(mm.best.value) },
+    tolerance_threshold: r8(m.threshold),
+    current_matching_ma_cm2: m.matching ? Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN((m.matching as Float64Array)[iy * nx + ix]) ? null : r6((m.matching as Float64Array)[iy * nx + ix] / 10)))) : null,
+    current_matching_convention: m.matching ? 'J_gen of the upper mapped subcell minus J_gen of the lower [mA/cm²]; the locus is where it is zero' : null,
+    marks: m.marks.map((k) => ({ axis: k.axis, subcell: k.subcell + 1, kind: k.kind, lo_ev: r6(k.loEv), hi_ev: r6(k.hiEv), label: k.label })),
+    step_ev: m.stepEv,
+    caution: CAUTION,
+  };
+  return { chart: { name: id, svg, csv: mapToCsv(mm, m.profiled), json }, grid, id, gridId };
+}
+
+function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv: Chart; sensitivity: Chart } {
+  const d = data.design;
+  const labels = d.subcells.map((s) => s.label);
+  const slug = o.wiring.slug;
+  const ref = d.reference;
+  const gaps = o.search.result.best.gapsEv;
+  const optics = stackOptics({ ...o.bestSpec, tempK: ref.tempK }, ref.spectrum);
+  const jgen = Array.from(optics.jgenAm2);
+  const sd = spectrumChartData({ spectrum: ref.spectrum, gapsEv: gaps });
+  const spectrum: Chart = {
+    name: `spectrum-${slug}`,
+    svg: spectrumChartSvg({ id: `spectrum-${slug}`, spectrum: ref.spectrum, gapsEv: gaps, labels, jgenAm2: jgen }),
+    csv: `wavelength_nm,irradiance_w_m2_nm,subcell\n${sd.wavelengthNm.map((w, i) => `${w},${sd.irradiance[i]},${sd.subcell[i]}`).join('\n')}\n`,
+    json: {
+      wiring: o.wiring.key,
+      spectrum: ref.spectrum.name,
+      sha256: ref.spectrum.sha256,
+      gaps_ev: gaps.map(r6),
+      band_edges_nm: gaps.map((g) => r6(1239.841984 / g)),
+      jgen_ma_cm2: jgen.map((j) => r6(j / 10)),
+      subcell_convention: 'subcell 0 means not absorbed by any subcell (step absorbers)',
+      wavelength_nm: sd.wavelengthNm,
+      irradiance_w_m2_nm: sd.irradiance,
+      subcell: sd.subcell,
+      caution: CAUTION,
+    },
+  };
+  const jvRows: string[] = ['curve,voltage_v,current_ma_cm2'];
+  const curves = o.jv.stack ? [...o.jv.subcells, o.jv.stack] : o.jv.subcells;
+  curves.forEach((c, k) => c.voltageV.forEach((v, i) => jvRows.push(`${k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack'},${r8(v)},${r8(c.currentAm2[i] / 10)}`)));
+  const jv: Chart = {
+    name: `jv-${slug}`,
+    svg: jvChartSvg({ id: `jv-${slug}`, jv: o.jv, wiringLabel: wiringTitle(o.wiring.key) }),
+    csv: `${jvRows.join('\n')}\n`,
+    json: {
+      wiring: o.wiring.key,
+      curves: curves.map((c, k) => ({ curve: k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack', voltage_v: c.voltageV.map(r8), current_ma_cm2: c.currentAm2.map((j) => r8(j / 10)) })),
+      operating_points: o.jv.operating.map((p, i) => ({ subcell: i + 1, voltage_v: r8(p.vV), current_ma_cm2: r8(p.jAm2 / 10) })),
+      stack_mpp: o.jv.stackMpp ? { voltage_v: r8(o.jv.stackMpp.vV), current_ma_cm2: r8(o.jv.stackMpp.jAm2 / 10) } : null,
+      spectrum: ref.spectrum.name,
+      caution: CAUTION,
+    },
+  };
+  const res = o.search.result;
+  const sensRows = ['subcell,delta_ev,gap_ev,efficiency'];
+  for (const s of o.sensitivity) s.deltaEv.forEach((dl, k) => sensRows.push(`${s.subcell + 1},${dl},${r6(s.gapEv + dl)},${s.efficiency[k] === null ? '' : r8(s.efficiency[k] as number)}`));
+  const sensitivity: Chart = {
+    name: `sensitivity-${slug}`,
+    svg: sensitivityChartSvg({ id: `sensitivity-${slug}`, slices: o.sensitivity, labels, best: res.best.value, threshold: res.tolerance.threshold, loss: d.loss, objective: o.search.objective.label }),
+    csv: `${sensRows.join('\n')}\n`,
+    json: {
+      wiring: o.wiring.key,
+      objective: o.search.objective.label,
+      best: r8(res.best.value),
+      threshold: r8(res.tolerance.threshold),
+      slices: o.sensitivity.map((s) => ({ subcell: s.subcell + 1, fixed_in_design: s.fixed, gap_ev: r6(s.gapEv), delta_ev: s.deltaEv, efficiency: s.efficiency.map((v) => (v === null ? null : r8(v))) })),
+      convention: 'one gap moved, the others held at the optimum; null where the gaps would not descend',
+      caution: CAUTION,
+    },
+  };
+  return { spectrum, jv, sensitivity };
+}
+
+function summaryJson(data: ReportData, version: string, generated: string): Record<string, unknown> {
+  const d = data.design;
+  return {
+    name: d.name,
+    tool: `gapstack ${version}`,
+    design_sha256: d.sha256,
+    objective: data.outcomes[0]?.search.objective.label ?? 'efficiency',
+    wirings: data.outcomes.map((o) => {
+      const r = o.search.result;
+      return {
+        wiring: o.wiring.key,
+        efficiency: r8(r.best.value),
+        gaps_ev: r.best.gapsEv.map(r6),
+        compositions: o.search.compositions.map((c) => ({ subcell: c.subcell + 1, family: c.family, compositions: c.compositions.map((x) => ({ x: r6(x.x), in_window: x.inWindow })), note: c.note })),
+        tolerance: r.tolerance.intervals.map((t) => ({ subcell: t.subcell + 1, low_ev: r6(t.lowEv), high_ev: r6(t.highEv), open_low: t.openLow, open_high: t.openHigh })),
+        threshold: r8(r.tolerance.threshold),
+        stack_voc_v: o.detail.stackVocV === null ? null : r8(o.detail.stackVocV),
+        stack_jsc_ma_cm2: o.detail.stackJscAm2 === null ? null : r8(o.detail.stackJscAm2 / 10),
+        stack_ff: o.stackFf === null ? null : r8(o.stackFf),
+        subcells: o.detail.subcells.map((c, i) => ({ subcell: i + 1, gap_ev: r6(c.gapEv), jgen_ma_cm2: r8(c.jgenAm2 / 10), jph_ma_cm2: r8(c.jphAm2 / 10), voc_v: r8(c.vocV), ff: r8(c.ff), v_op_v: r8(c.vOpV), j_op_ma_cm2: r8(c.jOpAm2 / 10) })),
+        basins: r.basins.map((b) => ({ gaps_ev: b.gapsEv.map(r6), efficiency: r8(b.value) })),
+        warnings: [...o.search.warnings, ...o.maps.flatMap((m) => m.warnings)],
+        maps: o.maps.map((m) => ({ x_subcell: m.pair.xCell + 1, y_subcell: m.pair.yCell + 1, optimum: { x_ev: r6(m.optimum.x), y_ev: r6(m.optimum.y) } })),
+      };
+    }),
+    assumptions: assumptionList(data),
+    caution: CAUTION,
+    generated,
+  };
+}
+
+let template: HandlebarsTemplateDelegate | undefined;
+
+function pageTemplate(): HandlebarsTemplateDelegate {
+  // strict: a field the template names but the context lacks is a bug, not an empty string.
+  template ??= Handlebars.create().compile(readFileSync(TEMPLATE_PATH, 'utf8'), { strict: true });
+  return template;
+}
+
+/** Build the report of a design: compute, draw, format. */
+export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
+  const data = computeReport(design);
+  const version = toolVersion();
+  const generated = generatedLine(opts.date);
+  const charts: Chart[] = [];
+  const maps = data.outcomes.flatMap((o) =>
+    o.maps.map((m) => {
+      const c = mapChart(data, o, m);
+      charts.push(c.chart);
+      const profile = m.profiled.length > 0 ? ` Subcells ${m.profiled.map((k) => k + 1).join(', ')} are re-optimised at every point (a profile map).` : '';
+      const matching = m.matching ? ' The orange dashed curve is where the two mapped subcells generate equal photocurrent (series current matching).' : '';
+      return {
+        id: c.id,
+        gridId: c.gridId,
+        svg: c.chart.svg,
+        gridJson: c.grid,
+        heading: `${wiringTitle(o.wiring.key)}: subcells ${m.pair.xCell + 1} and ${m.pair.yCell + 1}`,
+        caption:
+          `${o.search.objective.label[0].toUpperCase()}${o.search.objective.label.slice(1)} over the gaps of subcells ${m.pair.xCell + 1} (x) and ${m.pair.yCell + 1} (y), ${fx(m.stepEv * 1000, 0)} meV grid, colour on a perceptually uniform scale with labelled isolines.` +
+          ` The marker is the recommended optimum (${pc(m.optimum.value)} at ${fx(m.optimum.x, 3)} / ${fx(m.optimum.y, 3)} eV); the white dashed outline encloses gaps within ${fx(design.loss * 100, 1)} % (relative) of it.${matching}` +
+          ` Shaded bands are practical windows of bound material families, solid lines fixed absorbers; grey marks gaps out of order.${profile}`,
+      };
+    }),
+  );
+  const details = data.outcomes.map((o) => {
+    const c = detailCharts(data, o);
+    charts.push(c.spectrum, c.jv, c.sensitivity);
+    const res = o.search.result;
+    const notes = [...o.search.warnings, ...o.maps.flatMap((m) => m.warnings)];
+    if (o.search.unconstrained) notes.push(`Without the material windows the best is ${pc(o.search.unconstrained.best.value)} at ${o.search.unconstrained.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV.`);
+    if (o.bestSpec.coupling.model !== 'none') notes.push('J–V curves use the photocurrents at the operating point, luminescent coupling included.');
+    return {
+      slug: o.wiring.slug,
+      title: wiringTitle(o.wiring.key),
+      table: subcellTable(data, o),
+      notes,
+      objective: o.search.objective.label,
+      basins: res.basins.slice(0, 5).map((b) => ({ gaps: b.gapsEv.map((g) => fx(g, 4)).join(' / '), value: pc(b.value, 3) })),
+      spectrumSvg: c.spectrum.svg,
+      spectrumCaption: `${design.reference.spectrum.name}: each subcell absorbs the photons between its gap and the gap above (step absorbers; a partly transparent top cell passes part of its band down).`,
+      jvSvg: c.jv.svg,
+      jvCaption: `Each subcell's J–V curve at its photocurrent in the stack${o.jv.stack ? ', the series terminal curve (voltages added at a common current) and its maximum power point' : ''}; dots are the subcells' operating points.`,
+      sensitivitySvg: c.sensitivity.svg,
+      sensitivityCaption: `One gap moved at a time, the others held at the optimum (${res.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV); the dotted line is the tolerance threshold ${pc(res.tolerance.threshold)}.`,
+    };
+  });
+  const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
+  const html = pageTemplate()({
+    version,
+    title: design.name,
+    question: questionText(design),
+    description: design.description.trim(),
+    verdict: verdict(data),
+    columns: data.outcomes.map((o) => ({ key: o.wiring.key, title: wiringTitle(o.wiring.key) })),
+    rows: answerRows(data),
+    warnings,
+    caution: CAUTION,
+    maps,
+    details,
+    assumptions: assumptionList(data),
+    provenance: provenanceList(design, version),
+    generated,
+  });
+  return { html, charts, summary: summaryJson(data, version, generated), data };
+}

@@ -1,0 +1,99 @@
+/** A plain x–y chart frame: plot area, axes with titles, a legend row; and the series colours. */
+import { scaleLinear, type ScaleLinear } from 'd3-scale';
+import { interpolateViridis } from 'd3-scale-chromatic';
+import { d3, num, styleAxis, svgText, type Sel } from '../svg.js';
+
+export interface FrameSpec {
+  width: number;
+  height: number;
+  xDomain: [number, number];
+  yDomain: [number, number];
+  xLabel: string;
+  yLabel: string;
+  /** Legend entries under the plot. */
+  legend: LegendItem[];
+}
+
+export interface LegendItem {
+  colour: string;
+  text: string;
+  dash?: string;
+  kind?: 'line' | 'area' | 'dot';
+}
+
+export interface Frame {
+  plot: Sel;
+  x: ScaleLinear<number, number>;
+  y: ScaleLinear<number, number>;
+  w: number;
+  h: number;
+}
+
+export const FRAME_MARGIN = { top: 16, right: 24, bottom: 76, left: 64 };
+/** Height of one legend row [px]; a frame's plot shrinks by this per extra row. */
+export const LEGEND_ROW = 16;
+/** Estimated width of a legend character at 11 px [px]. */
+const CHAR_W = 6.7;
+
+/** Colour of subcell i of n: evenly spaced on viridis, the light end kept away from white paper. */
+export function subcellColour(i: number, n: number): string {
+  const t = n <= 1 ? 0.35 : 0.08 + (0.72 * i) / (n - 1);
+  return interpolateViridis(t);
+}
+
+/** Draw axes, titles and legend into `svg`; returns the clipped plot group and the scales. */
+export function drawFrame(svg: Sel, id: string, f: FrameSpec): Frame {
+  const M = FRAME_MARGIN;
+  const w = f.width - M.left - M.right;
+  const h = f.height - M.top - M.bottom - LEGEND_ROW * (legendRows(f.legend, w) - 1);
+  const x = scaleLinear().domain(f.xDomain).range([0, w]);
+  const y = scaleLinear().domain(f.yDomain).range([h, 0]);
+  const clip = `${id}-clip`;
+  svg.append('defs').append('clipPath').attr('id', clip).append('rect').attr('width', w).attr('height', h);
+  const g = svg.append('g').attr('transform', `translate(${M.left},${M.top})`);
+  const grid = g.append('g').attr('class', 'gs-grid');
+  for (const t of y.ticks(6)) grid.append('line').attr('x1', 0).attr('x2', w).attr('y1', num(y(t))).attr('y2', num(y(t))).attr('stroke', '#e3e3e3');
+  const ax = g.append('g').attr('class', 'gs-axis gs-axis-x').attr('transform', `translate(0,${h})`);
+  ax.call(d3().axisBottom(x).ticks(8).tickSizeOuter(0));
+  styleAxis(ax);
+  const ay = g.append('g').attr('class', 'gs-axis gs-axis-y');
+  ay.call(d3().axisLeft(y).ticks(6).tickSizeOuter(0));
+  styleAxis(ay);
+  g.append('text').attr('x', w / 2).attr('y', h + 36).attr('text-anchor', 'middle').text(svgText(f.xLabel));
+  g.append('text').attr('transform', `translate(-46,${h / 2}) rotate(-90)`).attr('text-anchor', 'middle').text(svgText(f.yLabel));
+  const plot = g.append('g').attr('class', 'gs-plot').attr('clip-path', `url(#${clip})`);
+  g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333');
+  const lg = g.append('g').attr('class', 'gs-legend').attr('transform', `translate(0,${h + 56})`);
+  let lx = 0;
+  let ly = 0;
+  for (const it of f.legend) {
+    const text = svgText(it.text);
+    const width = 32 + text.length * CHAR_W;
+    if (lx > 0 && lx + width > w) {
+      lx = 0;
+      ly += LEGEND_ROW;
+    }
+    const item = lg.append('g').attr('transform', `translate(${num(lx, 1)},${ly})`);
+    if (it.kind === 'area') item.append('rect').attr('x', 0).attr('y', -6).attr('width', 18).attr('height', 11).attr('fill', it.colour);
+    else if (it.kind === 'dot') item.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 4).attr('fill', it.colour);
+    else item.append('path').attr('d', 'M0,0H18').attr('stroke', it.colour).attr('stroke-width', 2.2).attr('stroke-dasharray', it.dash ?? null);
+    item.append('text').attr('x', 24).attr('y', 4).attr('font-size', 11).text(text);
+    lx += width;
+  }
+  return { plot, x, y, w, h };
+}
+
+/** Rows a legend of `items` takes when wrapped within a plot `w` wide. */
+export function legendRows(items: LegendItem[], w: number): number {
+  let rows = 1;
+  let lx = 0;
+  for (const it of items) {
+    const width = 32 + svgText(it.text).length * CHAR_W;
+    if (lx > 0 && lx + width > w) {
+      rows++;
+      lx = 0;
+    }
+    lx += width;
+  }
+  return rows;
+}

@@ -1,0 +1,237 @@
+/**
+ * The words and numbers of a report, formatted once: the question, the
+ * answer table, per-wiring detail, assumptions and provenance. The page
+ * template and the JSON summary both read from here, so they cannot drift.
+ */
+import { basename } from 'node:path';
+import { HC_EV_NM } from '../physics/constants.js';
+import type { Design, DesignSubcell } from '../design/index.js';
+import { constraintRangeEv } from '../design/index.js';
+import { CAUTION, describeAbsorptance, describeCoupling, EMISSION_CONVENTION } from './assumptions.js';
+import type { ReportData, WiringOutcome } from './compute.js';
+
+export const fx = (x: number | null | undefined, d: number): string => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(d));
+export const pc = (x: number, d = 2): string => `${(x * 100).toFixed(d)} %`;
+const mA = (jAm2: number) => fx(jAm2 / 10, 2);
+
+/** A person's name for a wiring key. */
+export function wiringTitle(key: string): string {
+  if (key === 'series') return 'Series (2T, current-matched)';
+  if (key === 'independent') return 'Independent (4T)';
+  if (key === '3t') return 'Three-terminal (3T, independent loads)';
+  const m = /^vm:(\d+):(\d+)$/.exec(key);
+  if (m) return `Voltage-matched strings ${m[1]}:${m[2]} (3T)`;
+  return key;
+}
+
+function constraintPhrase(s: DesignSubcell, design: Design): string {
+  const who = s.labelled ? `subcell ${s.index} (${s.label}):` : `subcell ${s.index}:`;
+  const c = s.constraint;
+  const [lo, hi] = constraintRangeEv(c, design.tempK, design.spanEv);
+  switch (c.kind) {
+    case 'free':
+      return `${who} free within ${design.spanEv[0]}–${design.spanEv[1]} eV`;
+    case 'range':
+      return `${who} within ${lo}–${hi} eV`;
+    case 'fixed':
+      return `${who} fixed at ${fx(lo, 3)} eV`;
+    case 'material':
+      if (c.family.kind === 'fixed') return `${who} ${c.family.name}, ${fx(lo, 3)} eV at ${design.tempK} K`;
+      return `${who} ${c.family.name} ${c.fullRange ? 'anywhere in its composition range' : 'within its practical window'}, ${fx(lo, 3)}–${fx(hi, 3)} eV at ${design.tempK} K`;
+  }
+}
+
+function lightPhrase(design: Design): string {
+  const l = design.light;
+  if (l.kind === 'ensemble') return `the spectral ensemble ${l.name} (${design.spectra.length} spectra, yield-weighted)`;
+  return `${l.spectrum.name} (${fx(l.spectrum.pinWm2, 1)} W/m²)`;
+}
+
+const joinWords = (xs: string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
+
+/** The design question in one paragraph. */
+export function questionText(design: Design): string {
+  const n = design.subcells.length;
+  const objective = design.spectra.length > 1 ? 'yield-weighted efficiency' : 'efficiency';
+  const wirings = design.wirings.map((w) => wiringTitle(w.key).split(' (')[0].toLowerCase());
+  const compare = wirings.length > 1 ? `, and how do ${joinWords(wirings)} wiring compare` : ` with ${wirings[0]} wiring`;
+  return (
+    `Which band gaps give a ${n}-subcell stack, top first ${design.subcells.map((s) => constraintPhrase(s, design)).join('; ')}, the highest detailed-balance ${objective} ` +
+    `under ${lightPhrase(design)} at ${design.tempK} K${compare}? How far may each gap stray before the ${objective} falls by more than ${fx(design.loss * 100, 1)} % (relative)?`
+  );
+}
+
+export interface AnswerCell {
+  /** Lines in the cell's main style. */
+  lines: string[];
+  /** Smaller explanatory lines under them. */
+  sub: string[];
+}
+export interface AnswerRow {
+  label: string;
+  cells: AnswerCell[];
+  emphasis?: boolean;
+}
+
+function compositionLines(design: Design, o: WiringOutcome, i: number): string[] {
+  const c = o.search.compositions.find((x) => x.subcell === i);
+  const k = design.subcells[i].constraint;
+  if (!c || k.kind !== 'material') return [];
+  if (k.family.kind === 'fixed') return [c.familyName];
+  if (c.compositions.length === 0) return [c.note];
+  const sym = k.family.variable?.symbol ?? 'x';
+  const xs = c.compositions.map((x) => `${sym} = ${fx(x.x, 3)}${x.inWindow ? '' : ' (outside the practical window)'}`).join(' or ');
+  return [`${c.familyName}: ${xs}`, `${sym} = ${k.family.variable?.meaning ?? 'composition'}`];
+}
+
+function perSubcell(o: WiringOutcome, f: (i: number) => string): AnswerCell {
+  return { lines: o.detail.subcells.map((_, i) => `${i + 1}: ${f(i)}`), sub: [] };
+}
+
+function isSeries(o: WiringOutcome): boolean {
+  const w = o.wiring.wiring;
+  return w.kind === 'groups' && w.groups.length === 1;
+}
+
+/** Tolerance window text of subcell i, or "fixed". */
+export function toleranceText(o: WiringOutcome, i: number): string {
+  const t = o.search.result.tolerance.intervals.find((x) => x.subcell === i);
+  if (!t) return 'fixed by the design';
+  const open = t.openLow && t.openHigh ? ' (both ends at the allowed range)' : t.openLow ? ' (low end at the allowed range)' : t.openHigh ? ' (high end at the allowed range)' : '';
+  return `${fx(t.lowEv, 3)}–${fx(t.highEv, 3)} eV${open}`;
+}
+
+/** The answer table: one column per wiring. */
+export function answerRows(data: ReportData): AnswerRow[] {
+  const { design, outcomes } = data;
+  const ens = design.spectra.length > 1;
+  const under = ens ? ` (under ${design.reference.label})` : '';
+  const rows: AnswerRow[] = [{ label: ens ? 'yield-weighted η' : 'η', emphasis: true, cells: outcomes.map((o) => ({ lines: [pc(o.search.result.best.value, 2)], sub: [] })) }];
+  design.subcells.forEach((s, i) => {
+    rows.push({
+      label: `gap of subcell ${s.index}${s.labelled ? ` (${s.label})` : ''}`,
+      emphasis: true,
+      cells: outcomes.map((o) => ({ lines: [`${fx(o.search.result.best.gapsEv[i], 3)} eV`], sub: compositionLines(design, o, i) })),
+    });
+  });
+  design.subcells.forEach((s, i) => {
+    rows.push({ label: `tolerance window, subcell ${s.index}`, cells: outcomes.map((o) => ({ lines: [toleranceText(o, i)], sub: [] })) });
+  });
+  rows.push({
+    label: `Jsc [mA/cm²]${under}`,
+    cells: outcomes.map((o) => (isSeries(o) && o.detail.stackJscAm2 !== null ? { lines: [mA(o.detail.stackJscAm2)], sub: ['at the terminals'] } : perSubcell(o, (i) => mA(o.detail.subcells[i].jphAm2)))),
+  });
+  rows.push({
+    label: `Voc [V]${under}`,
+    cells: outcomes.map((o) => (isSeries(o) && o.detail.stackVocV !== null ? { lines: [fx(o.detail.stackVocV, 3)], sub: ['at the terminals'] } : perSubcell(o, (i) => fx(o.detail.subcells[i].vocV, 3)))),
+  });
+  rows.push({
+    label: `FF${under}`,
+    cells: outcomes.map((o) => (isSeries(o) && o.stackFf !== null ? { lines: [fx(o.stackFf, 4)], sub: ['at the terminals'] } : perSubcell(o, (i) => fx(o.detail.subcells[i].ff, 4)))),
+  });
+  rows.push({
+    label: `operating point${under}`,
+    cells: outcomes.map((o) =>
+      isSeries(o) && o.jv.stackMpp ? { lines: [`${fx(o.jv.stackMpp.vV, 3)} V at ${mA(o.jv.stackMpp.jAm2)} mA/cm²`], sub: [] } : perSubcell(o, (i) => `${fx(o.detail.subcells[i].vOpV, 3)} V at ${mA(o.detail.subcells[i].jOpAm2)} mA/cm²`),
+    ),
+  });
+  rows.push({
+    label: 'runner-up basin',
+    cells: outcomes.map((o) => {
+      const b = o.search.result.basins[0];
+      return { lines: [b ? `${pc(b.value, 2)} at ${b.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV` : 'none distinct'], sub: [] };
+    }),
+  });
+  return rows;
+}
+
+/** One or two sentences: which wiring wins and by how much. */
+export function verdict(data: ReportData): string {
+  const o = [...data.outcomes].sort((a, b) => b.search.result.best.value - a.search.result.best.value);
+  const top = o[0];
+  const gaps = top.search.result.best.gapsEv.map((g) => fx(g, 3)).join(' / ');
+  let s = `Highest: ${wiringTitle(top.wiring.key)} at ${pc(top.search.result.best.value, 2)} with gaps ${gaps} eV (top first).`;
+  for (const x of o.slice(1)) {
+    const d = (top.search.result.best.value - x.search.result.best.value) * 100;
+    s += ` ${wiringTitle(x.wiring.key).split(' (')[0]} gives up ${fx(d, 2)} percentage points (${pc(x.search.result.best.value, 2)} at ${x.search.result.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV).`;
+  }
+  return s;
+}
+
+/** Per-subcell detail table of one wiring. */
+export function subcellTable(data: ReportData, o: WiringOutcome): { head: string[]; rows: string[][] } {
+  const head = ['subcell', 'gap [eV]', 'J_gen [mA/cm²]', 'J_ph [mA/cm²]', 'Voc [V]', 'FF', 'V op [V]', 'J op [mA/cm²]', 'tolerance window'];
+  const rows = o.detail.subcells.map((c, i) => [
+    `${i + 1}: ${data.design.subcells[i].label}`,
+    fx(c.gapEv, 4),
+    mA(c.jgenAm2),
+    mA(c.jphAm2),
+    fx(c.vocV, 4),
+    fx(c.ff, 4),
+    fx(c.vOpV, 4),
+    mA(c.jOpAm2),
+    toleranceText(o, i),
+  ]);
+  return { head, rows };
+}
+
+/** Assumption lines shared by every wiring, then per-wiring search lines. */
+export function assumptionList(data: ReportData): string[] {
+  const { design } = data;
+  const t = design.wirings[0].template;
+  const lines: string[] = [];
+  const l = design.light;
+  if (l.kind === 'spectrum') {
+    const s = l.spectrum;
+    const wl = s.wavelengthNm;
+    lines.push(`Spectrum: ${s.name}; integral P_in = ${fx(s.pinWm2, 2)} W/m² over ${fx(wl[0], 0)}–${fx(wl[wl.length - 1], 0)} nm${s.scale !== 1 ? ` (scaled ×${fx(s.scale, 4)})` : ''}; SHA-256 ${s.sha256}; source: ${s.source}.`);
+  } else {
+    lines.push(`Spectral ensemble: ${l.name}; SHA-256 ${l.sha256}; source: ${l.source}.`);
+    for (const x of l.summaryLines) lines.push(`Ensemble: ${x}.`);
+    lines.push(`Objective: yield-weighted efficiency Σ w·P_max / Σ w·P_in, each configuration re-solved under every spectrum at its cell temperature; per-subcell detail (J–V, bands) under "${design.reference.label}", the member with the largest energy share.`);
+  }
+  lines.push(`Cell temperature: ${design.tempK} K${design.tempK === 300 ? ' (the detailed-balance convention)' : ''}.`);
+  lines.push(`Emission: ${EMISSION_CONVENTION}.`);
+  lines.push(
+    `ERE: ${design.subcells.every((s) => s.ere === 1) ? '1 for every subcell (fully radiative)' : design.subcells.map((s) => `${s.index}: ${s.ere.toPrecision(4)}${s.vocLossV !== undefined ? ` (from a non-radiative Voc loss of ${s.vocLossV} V)` : ''}`).join('; ')}.`,
+  );
+  const refl = typeof t.frontReflectance === 'number' ? t.frontReflectance : 'tabulated';
+  const inter = t.interlayerTransmittance.length === 0 ? 'none' : t.interlayerTransmittance.map((v) => (typeof v === 'number' ? String(v) : 'tabulated')).join(', ');
+  lines.push(`Optics: ${t.subcells.map((c, i) => `${i + 1}: ${describeAbsorptance(c.absorptance)}`).join('; ')}; front reflectance ${refl}; interlayer transmittance ${inter}.`);
+  lines.push(`Coupling: ${describeCoupling(t.coupling)}.`);
+  const fams = design.subcells.flatMap((s) => (s.constraint.kind === 'material' ? [s.constraint.family] : []));
+  for (const f of fams) {
+    lines.push(`Material ${f.name} (${f.id}): ${f.citation}; practical window ${f.window.gapEv[0]}–${f.window.gapEv[1]} eV at 300 K (${f.window.reason}); dE_g/dT = ${f.dEgDtEvPerK.toExponential(1)} eV/K applied from 300 K.`);
+  }
+  lines.push(`Search: gaps within ${design.spanEv[0]}–${design.spanEv[1]} eV, ordered top to bottom; coarse grid plus the spectrum's band-edge gaps, best distinct candidates refined below 1 meV.`);
+  for (const o of data.outcomes) {
+    const st = o.search.result.stats;
+    lines.push(`Search grid, ${o.wiring.key}: ${fx(st.stepEv * 1000, 1)} meV coarse step, ${st.axisPoints} axis points (${st.edgePoints} band edges), ${st.leaves} combinations, ${st.seeds} seeds refined.`);
+  }
+  const maps = data.outcomes[0]?.maps ?? [];
+  for (const m of maps) {
+    const mm = m.map;
+    lines.push(
+      `Map of subcells ${m.pair.xCell + 1} and ${m.pair.yCell + 1}: ${fx(m.stepEv * 1000, 1)} meV grid, ${fx(mm.x[0], 3)}–${fx(mm.x[mm.x.length - 1], 3)} × ${fx(mm.y[0], 3)}–${fx(mm.y[mm.y.length - 1], 3)} eV (${mm.x.length} × ${mm.y.length} points)` +
+        `${m.profiled.length > 0 ? `; subcells ${m.profiled.map((c) => c + 1).join(', ')} maximised at every point (profile)` : ''}; mapped gaps vary beyond their constraints, which are drawn as bands and lines.`,
+    );
+  }
+  lines.push(`Tolerance: the region where the ${design.spectra.length > 1 ? 'yield-weighted efficiency' : 'efficiency'} stays ≥ (1 − ${design.loss})·best; the table's windows move one gap at a time with the others at the optimum, the map outline is the two-gap region.`);
+  const lowest = Math.min(...data.outcomes.map((o) => Math.min(...o.search.result.best.gapsEv)));
+  if (l.kind === 'spectrum' && HC_EV_NM / lowest > l.spectrum.wavelengthNm[l.spectrum.wavelengthNm.length - 1]) {
+    lines.push(`Note: the lowest recommended gap (${fx(lowest, 3)} eV, ${fx(HC_EV_NM / lowest, 0)} nm) lies beyond the spectrum's table; photons past its end count as zero.`);
+  }
+  return lines;
+}
+
+/** Provenance lines (deterministic), then the one date line. */
+export function provenanceList(design: Design, version: string): string[] {
+  return [`Tool: gapstack ${version}.`, `Design file: ${basename(design.path)}, SHA-256 ${design.sha256}.`, `Schema: schema/design.schema.json (JSON Schema draft 2020-12).`];
+}
+
+/** The only line allowed to differ between two runs of the same design. */
+export function generatedLine(date: Date): string {
+  return `Generated ${date.toISOString()}`;
+}
+
+export { CAUTION };

@@ -1,0 +1,134 @@
+/**
+ * The example report in a real headless Chromium (Debian's chromium package,
+ * /usr/bin/chromium, driven by playwright-core): no console errors, no
+ * network, contour paths on the maps, the optimum marker drawn where the
+ * reported optimum is, a working hover readout, A4 printing; a screenshot
+ * lands in test/.artifacts/.
+ */
+import { existsSync, mkdirSync, mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import { reportCommand } from '../../src/cli/report-command.js';
+
+const ROOT = new URL('../..', import.meta.url).pathname;
+const EXAMPLE = join(ROOT, 'examples/perovskite-silicon.yaml');
+const ARTIFACTS = join(ROOT, 'test/.artifacts');
+const CHROMIUM = process.env.GAPSTACK_CHROMIUM ?? '/usr/bin/chromium';
+
+describe('the example report in headless Chromium', () => {
+  let ctx: BrowserContext;
+  let page: Page;
+  let summary: any;
+  const problems: string[] = [];
+  const requests: string[] = [];
+
+  beforeAll(async () => {
+    if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: install Debian's chromium package (apt-get install -y chromium)`);
+    mkdirSync(ARTIFACTS, { recursive: true });
+    const out = join(ARTIFACTS, 'example-report.html');
+    summary = JSON.parse(await reportCommand({ design: EXAMPLE, output: out, json: true }));
+    ctx = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'gapstack-chromium-')), {
+      executablePath: CHROMIUM,
+      headless: true,
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      viewport: { width: 1100, height: 900 },
+    });
+    page = await ctx.newPage();
+    page.on('console', (m) => {
+      if (m.type() === 'error' || m.type() === 'warning') problems.push(`console ${m.type()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    page.on('request', (r) => requests.push(r.url()));
+    await page.goto(pathToFileURL(out).href, { waitUntil: 'load' });
+  }, 60_000);
+
+  afterAll(async () => {
+    await ctx?.close();
+  });
+
+  test('loads with no console errors and fetches nothing but itself', async () => {
+    await page.waitForTimeout(100);
+    expect(problems).toEqual([]);
+    expect(requests).toEqual([page.url()]);
+  });
+
+  test('every map has contour paths, isolines and the tolerance outline; the series map has the matching locus', async () => {
+    for (const id of ['map-series-1-2', 'map-independent-1-2']) {
+      const counts = await page.evaluate((sel) => {
+        const svg = document.getElementById(sel);
+        const n = (c: string) => svg?.querySelectorAll(c).length ?? -1;
+        return { bands: n('path.gs-band'), iso: n('path.gs-isoline'), tol: n('path.gs-tolerance'), match: n('path.gs-matching'), opt: n('.gs-optimum') };
+      }, id);
+      expect(counts.bands).toBeGreaterThan(10);
+      expect(counts.iso).toBeGreaterThan(3);
+      expect(counts.tol).toBe(1);
+      expect(counts.opt).toBe(1);
+      expect(counts.match).toBe(id.includes('series') ? 1 : 0);
+    }
+  });
+
+  test('the optimum marker sits at the reported optimum: data attributes and its drawn position through the axes', async () => {
+    for (const w of summary.wirings) {
+      const id = `map-${w.wiring}-1-2`;
+      const m = await page.evaluate((sel) => {
+        const svg = document.getElementById(sel) as unknown as SVGSVGElement;
+        const marker = document.getElementById(`optimum-${sel}`) as unknown as SVGGElement;
+        const dot = marker.querySelector('.gs-optimum-dot') as SVGCircleElement;
+        const area = svg.querySelector('.gs-plot-area') as SVGRectElement;
+        const d = dot.getBoundingClientRect();
+        const a = area.getBoundingClientRect();
+        const num = (el: Element, k: string) => Number(el.getAttribute(k));
+        return {
+          gapX: num(marker, 'data-gap-x'),
+          gapY: num(marker, 'data-gap-y'),
+          eff: num(marker, 'data-efficiency'),
+          cx: d.x + d.width / 2,
+          cy: d.y + d.height / 2,
+          left: a.x,
+          top: a.y,
+          width: a.width,
+          height: a.height,
+          xmin: num(svg, 'data-x-min'),
+          xmax: num(svg, 'data-x-max'),
+          ymin: num(svg, 'data-y-min'),
+          ymax: num(svg, 'data-y-max'),
+        };
+      }, id);
+      expect(m.gapX).toBeCloseTo(w.gaps_ev[0], 5);
+      expect(m.gapY).toBeCloseTo(w.gaps_ev[1], 5);
+      expect(m.eff).toBeCloseTo(w.efficiency, 7);
+      const drawnX = m.xmin + ((m.cx - m.left) / m.width) * (m.xmax - m.xmin);
+      const drawnY = m.ymax - ((m.cy - m.top) / m.height) * (m.ymax - m.ymin);
+      const pixelEv = (m.xmax - m.xmin) / m.width;
+      expect(Math.abs(drawnX - w.gaps_ev[0])).toBeLessThan(1.5 * pixelEv);
+      expect(Math.abs(drawnY - w.gaps_ev[1])).toBeLessThan(1.5 * ((m.ymax - m.ymin) / m.height));
+    }
+  });
+
+  test('hovering the map reads out the efficiency at the pointer', async () => {
+    const map = page.locator('#map-series-1-2');
+    await map.scrollIntoViewIfNeeded();
+    const box = await page.locator('#map-series-1-2 .gs-plot-area').boundingBox();
+    expect(box).not.toBeNull();
+    if (!box) return;
+    await page.mouse.move(box.x + box.width * 0.4, box.y + box.height * 0.5, { steps: 4 });
+    const text = await page.locator('#map-series-1-2 .gs-readout').textContent();
+    expect(text).toMatch(/^\d\.\d{3} \/ \d\.\d{3} eV: η \d+\.\d\d %$/);
+    expect(await page.locator('#map-series-1-2 .gs-hover').getAttribute('visibility')).toBe('visible');
+    expect(problems).toEqual([]);
+  });
+
+  test('prints on A4 over several pages; a screenshot is saved', async () => {
+    const pdf = await page.pdf({ format: 'A4', printBackground: true });
+    expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    expect((pdf.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length).toBeGreaterThan(2);
+    await page.evaluate(() => window.scrollTo(0, 0));
+    const shot = join(ARTIFACTS, 'example-report.png');
+    await page.screenshot({ path: shot, fullPage: true });
+    await page.locator('#figure-map-series-1-2').screenshot({ path: join(ARTIFACTS, 'example-map-series.png') });
+    expect(readFileSync(shot).subarray(1, 4).toString('latin1')).toBe('PNG');
+  });
+});
