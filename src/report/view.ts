@@ -3,7 +3,7 @@
  * answer table, per-wiring detail, assumptions and provenance. The page
  * template and the JSON summary both read from here, so they cannot drift.
  */
-import { basename } from 'node:path';
+import { basename, dirname, resolve, sep } from 'node:path';
 import { HC_EV_NM } from '../physics/constants.js';
 import type { Design, DesignSubcell } from '../design/index.js';
 import { constraintRangeEv } from '../design/index.js';
@@ -56,7 +56,7 @@ export function questionText(design: Design): string {
   const wirings = design.wirings.map((w) => wiringTitle(w.key).split(' (')[0].toLowerCase());
   const compare = wirings.length > 1 ? `, and how do ${joinWords(wirings)} wiring compare` : ` with ${wirings[0]} wiring`;
   return (
-    `Which band gaps give a ${n}-subcell stack, top first ${design.subcells.map((s) => constraintPhrase(s, design)).join('; ')}, the highest detailed-balance ${objective} ` +
+    `Which band gaps give a ${n}-subcell stack (top first) — ${design.subcells.map((s) => constraintPhrase(s, design)).join('; ')} — the highest detailed-balance ${objective} ` +
     `under ${lightPhrase(design)} at ${design.tempK} K${compare}? How far may each gap stray before the ${objective} falls by more than ${fx(design.loss * 100, 1)} % (relative)?`
   );
 }
@@ -175,6 +175,11 @@ export function subcellTable(data: ReportData, o: WiringOutcome): { head: string
   return { head, rows };
 }
 
+/** A provenance text with the design file's folder dropped from paths, so reports do not depend on where the files sit. */
+function relativeSource(design: Design, text: string): string {
+  return text.split(`${dirname(resolve(design.path))}${sep}`).join('');
+}
+
 /** Assumption lines shared by every wiring, then per-wiring search lines. */
 export function assumptionList(data: ReportData): string[] {
   const { design } = data;
@@ -184,9 +189,9 @@ export function assumptionList(data: ReportData): string[] {
   if (l.kind === 'spectrum') {
     const s = l.spectrum;
     const wl = s.wavelengthNm;
-    lines.push(`Spectrum: ${s.name}; integral P_in = ${fx(s.pinWm2, 2)} W/m² over ${fx(wl[0], 0)}–${fx(wl[wl.length - 1], 0)} nm${s.scale !== 1 ? ` (scaled ×${fx(s.scale, 4)})` : ''}; SHA-256 ${s.sha256}; source: ${s.source}.`);
+    lines.push(`Spectrum: ${s.name}; integral P_in = ${fx(s.pinWm2, 2)} W/m² over ${fx(wl[0], 0)}–${fx(wl[wl.length - 1], 0)} nm${s.scale !== 1 ? ` (scaled ×${fx(s.scale, 4)})` : ''}; SHA-256 ${s.sha256}; source: ${relativeSource(design, s.source)}.`);
   } else {
-    lines.push(`Spectral ensemble: ${l.name}; SHA-256 ${l.sha256}; source: ${l.source}.`);
+    lines.push(`Spectral ensemble: ${l.name}; SHA-256 ${l.sha256}; source: ${relativeSource(design, l.source)}.`);
     for (const x of l.summaryLines) lines.push(`Ensemble: ${x}.`);
     lines.push(`Objective: yield-weighted efficiency Σ w·P_max / Σ w·P_in, each configuration re-solved under every spectrum at its cell temperature; per-subcell detail (J–V, bands) under "${design.reference.label}", the member with the largest energy share.`);
   }

@@ -2,7 +2,7 @@
  * Design files: the schema, YAML and JSON parsing, errors that name the field
  * and (for YAML) the line, and the constraints no schema can express.
  */
-import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { copyFileSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
@@ -45,6 +45,13 @@ describe('the schema', () => {
   });
 
   test('every example design validates and resolves', async () => {
+    const examples = readdirSync(join(ROOT, 'examples')).filter((f) => /\.(ya?ml|json)$/.test(f));
+    expect(examples.length).toBeGreaterThanOrEqual(1);
+    for (const f of examples) {
+      const text = readFileSync(join(ROOT, 'examples', f), 'utf8');
+      expect(text, f).toMatch(/illustrative/i);
+      await expect(loadDesign(join(ROOT, 'examples', f)), f).resolves.toBeTruthy();
+    }
     const d = await loadDesign(EXAMPLE);
     expect(d.name).toMatch(/illustrative/);
     expect(d.subcells.map((s) => s.constraint.kind)).toEqual(['material', 'material']);

@@ -139,6 +139,44 @@ describe('the example report', () => {
   });
 });
 
+describe('more subcells, other light', () => {
+  test('3 subcells: a profile map over a chosen pair maximises the free subcell at every point', async () => {
+    const p = join(dir, 'three.yaml');
+    writeFileSync(
+      p,
+      `name: three\nsubcells:\n  - label: top\n    range: [1.8, 2.1]\n  - label: middle\n    range: [1.2, 1.5]\n  - label: bottom\n    material: ge\nwirings: [series]\nsearch:\n  step: 0.02\nmap:\n  step: 0.05\n  pairs:\n    - axes: [2, 3]\n      x: [1.2, 1.5]\n      y: [0.55, 0.8]\n`,
+    );
+    const figures = join(dir, 'three', 'figures');
+    const s = JSON.parse(await reportCommand({ design: p, output: join(dir, 'three', 'report.html'), figures, json: true }));
+    expect(s.wirings[0].gaps_ev).toHaveLength(3);
+    const map = JSON.parse(readFileSync(join(figures, 'map-series-2-3.json'), 'utf8'));
+    expect(map.profile_subcells).toEqual([1]);
+    expect(map.optimum.x_ev).toBeCloseTo(s.wirings[0].gaps_ev[1], 5);
+    // A profile is the maximum over the free gap: at the optimum's pixel it is at least the optimum.
+    const ix = map.x_ev.findIndex((x: number) => Math.abs(x - 1.35) < 1e-9);
+    const iy = map.y_ev.findIndex((y: number) => Math.abs(y - 0.65) < 1e-9);
+    expect(map.efficiency[iy][ix]).toBeGreaterThan(0.4);
+    const csv = readFileSync(join(figures, 'map-series-2-3.csv'), 'utf8');
+    expect(csv.split('\n')[0]).toBe('gap2_ev,gap3_ev,gap1_ev_profile,efficiency');
+    const html = readFileSync(join(dir, 'three', 'report.html'), 'utf8');
+    expect(html).toContain('re-optimised at every point (a profile map)');
+  });
+
+  test('an ensemble: the yield-weighted efficiency, the ensemble in the provenance', async () => {
+    // Text in memory, anchored in examples/ so the manifest path resolves; no file is written there.
+    const p = join(ROOT, 'examples', 'in-memory-ensemble-check.yaml');
+    const text = `name: ensemble\nensemble: ensemble-demo/manifest.yaml\nsubcells:\n  - range: [1.6, 1.9]\n  - gap: 1.12\nwirings: [series]\nmap:\n  step: 0.05\n  pairs:\n    - axes: [1, 2]\n      x: [1.5, 2.0]\n      y: [0.9, 1.3]\n`;
+    const { loadDesignText } = await import('../../src/design/index.js');
+    const { buildReport } = await import('../../src/report/build.js');
+    const built = buildReport(await loadDesignText(p, text), { date: new Date(0) });
+    const html = built.html.replace(/&#x3D;/g, '=');
+    expect(html).toContain('yield-weighted η');
+    expect(html).toMatch(/Spectral ensemble: synthetic-demo-year; SHA-256 [0-9a-f]{64}; source: YAML manifest ensemble-demo\/manifest\.yaml/);
+    expect(html).toContain('Σ w·P_max / Σ w·P_in');
+    expect((built.summary as any).objective).toBe('yield-weighted efficiency');
+  });
+});
+
 describe('user text is escaped everywhere', () => {
   test('a design name, description and labels holding markup appear literally', async () => {
     const p = join(dir, 'evil.yaml');

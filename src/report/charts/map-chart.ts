@@ -161,6 +161,7 @@ export function mapChartSvg(inp: MapChartInput): string {
       }
       // Windows, ranges and fixed absorbers.
       const marks = plot.append('g').attr('class', 'gs-marks');
+      const markLabels: [number, number][] = [];
       for (const mk of o.marks) {
         const horizontal = mk.axis === 'y';
         const a = horizontal ? ys(mk.hiEv) : xs(mk.loEv);
@@ -192,6 +193,7 @@ export function mapChartSvg(inp: MapChartInput): string {
         }
         const tx = horizontal ? 6 : Math.min(w - 6, Math.max(6, a + 4));
         const ty = horizontal ? Math.max(12, a - 5) : 14;
+        for (let k = 0; k < 4; k++) markLabels.push([tx + k * 40, ty - 4]);
         marks
           .append('text')
           .attr('class', 'gs-mark-label')
@@ -213,6 +215,7 @@ export function mapChartSvg(inp: MapChartInput): string {
         [optX, optY],
         [optX + 80, optY + 14],
         [bx, by],
+        ...markLabels,
       ];
       for (const c of gen.thresholds(isoLevels)(grid)) {
         if (c.coordinates.length === 0) continue;
@@ -285,7 +288,8 @@ export function mapChartSvg(inp: MapChartInput): string {
         .attr('data-efficiency', num(o.optimum.value, 8));
       opt.append('circle').attr('class', 'gs-optimum-ring').attr('cx', num(optX)).attr('cy', num(optY)).attr('r', 7).attr('fill', 'none').attr('stroke', '#ffffff').attr('stroke-width', 3);
       opt.append('circle').attr('class', 'gs-optimum-dot').attr('cx', num(optX)).attr('cy', num(optY)).attr('r', 3.2).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1);
-      const right = optX < w - 150;
+      const optText = `optimum ${num(o.optimum.value * 100, 2)} % (${num(o.optimum.x, 3)} / ${num(o.optimum.y, 3)} eV)`;
+      const right = optX + 11 + optText.length * 7 < w;
       opt
         .append('text')
         .attr('x', num(optX + (right ? 11 : -11)))
@@ -297,7 +301,7 @@ export function mapChartSvg(inp: MapChartInput): string {
         .attr('stroke', '#ffffff')
         .attr('stroke-width', 3)
         .attr('paint-order', 'stroke')
-        .text(`optimum ${num(o.optimum.value * 100, 2)} % (${num(o.optimum.x, 3)} / ${num(o.optimum.y, 3)} eV)`);
+        .text(optText);
       // Axes and frame.
       g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1);
       const ax = g.append('g').attr('class', 'gs-axis gs-axis-x').attr('transform', `translate(0,${h})`);
