@@ -149,6 +149,9 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
   const x = uniformAxis(xr[0], xr[1], step);
   const y = uniformAxis(yr[0], yr[1], step);
   const map = computeMap(d.objective, { x, y, xCell, yCell, fixed, bounds });
+  if (!(map.best.value > 0)) {
+    throw new UserError(`${design.path}: map of subcells ${xCell + 1} and ${yCell + 1} (${w.key}): no point with the upper gap above the lower produces power; widen map.pairs x or y`);
+  }
   const best = d.result.best;
   const optimum = { x: best.gapsEv[xCell], y: best.gapsEv[yCell], value: best.value };
   const warnings: string[] = [];

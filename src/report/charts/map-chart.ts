@@ -162,6 +162,7 @@ export function mapChartSvg(inp: MapChartInput): string {
       // Windows, ranges and fixed absorbers.
       const marks = plot.append('g').attr('class', 'gs-marks');
       const markLabels: [number, number][] = [];
+      const markTexts: { x: number; y: number; text: string }[] = [];
       for (const mk of o.marks) {
         const horizontal = mk.axis === 'y';
         const a = horizontal ? ys(mk.hiEv) : xs(mk.loEv);
@@ -194,17 +195,7 @@ export function mapChartSvg(inp: MapChartInput): string {
         const tx = horizontal ? 6 : Math.min(w - 6, Math.max(6, a + 4));
         const ty = horizontal ? Math.max(12, a - 5) : 14;
         for (let k = 0; k < 4; k++) markLabels.push([tx + k * 40, ty - 4]);
-        marks
-          .append('text')
-          .attr('class', 'gs-mark-label')
-          .attr('x', num(tx))
-          .attr('y', num(ty))
-          .attr('font-size', 10)
-          .attr('fill', '#ffffff')
-          .attr('stroke', '#000000')
-          .attr('stroke-width', 2.2)
-          .attr('paint-order', 'stroke')
-          .text(svgText(mk.label));
+        markTexts.push({ x: tx, y: ty, text: mk.label });
       }
       // Isolines, each labelled once where it is farthest from labels already placed and from the markers.
       const iso = plot.append('g').attr('class', 'gs-isolines');
@@ -271,6 +262,20 @@ export function mapChartSvg(inp: MapChartInput): string {
       const bad = unorderedRegion(x0, x1, y0, y1);
       if (bad.length >= 3) {
         plot.append('path').attr('class', 'gs-unordered').attr('fill', MAP_COLOURS.invalid).attr('d', `${linePath(bad.map(([a, b]) => [xs(a), ys(b)]), 1)}Z`);
+      }
+      // Labels of windows and lines, above the mask so they stay legible.
+      const mt = plot.append('g').attr('class', 'gs-mark-labels');
+      for (const t of markTexts) {
+        mt.append('text')
+          .attr('class', 'gs-mark-label')
+          .attr('x', num(t.x))
+          .attr('y', num(t.y))
+          .attr('font-size', 10)
+          .attr('fill', '#ffffff')
+          .attr('stroke', '#000000')
+          .attr('stroke-width', 2.2)
+          .attr('paint-order', 'stroke')
+          .text(svgText(t.text));
       }
       // Map maximum (unconstrained on this view) when it differs from the recommendation.
       if (Math.abs(m.best.x - o.optimum.x) > 1.5 * o.stepEv || Math.abs(m.best.y - o.optimum.y) > 1.5 * o.stepEv) {
