@@ -1,10 +1,11 @@
 /** `gapstack evaluate`: one stack, one spectrum, every number with its unit. */
-import { evaluateStack, type StackResult } from '../stack/evaluate.js';
+import { evaluateStack, stackWarnings, type StackResult } from '../stack/evaluate.js';
 import { maximiseScan } from '../stack/electrical.js';
 import { UserError } from '../errors.js';
+import { toMaCm2 } from '../physics/constants.js';
 import type { StackSpec } from '../stack/model.js';
 import type { Spectrum } from '../light/spectrum.js';
-import { assumptionLines, CAUTION, describeCoupling, describeAbsorptance, EMISSION_CONVENTION } from '../report/assumptions.js';
+import { assumptionLines, CAUTION, describeCoupling, describeAbsorptance, emissionConvention } from '../report/assumptions.js';
 import { fix, pct, round, table } from './format.js';
 import { gapsFromArgs, spectrumFromArgs, stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 
@@ -13,7 +14,7 @@ export interface EvaluateArgs extends LightArgs, StackArgs {
   json?: boolean;
 }
 
-const ma = (jAm2: number) => round(jAm2 / 10);
+const ma = (jAm2: number) => round(toMaCm2(jAm2));
 
 /** JSON form of a stack result (currents in mA/cm², voltages in V, powers in W/m²). */
 export function stackResultJson(spec: StackSpec, spectrum: Spectrum, r: StackResult): Record<string, unknown> {
@@ -25,7 +26,7 @@ export function stackResultJson(spec: StackSpec, spectrum: Spectrum, r: StackRes
     spectrum: { name: spectrum.name, sha256: spectrum.sha256, pin_w_m2: round(spectrum.pinWm2), scale: round(spectrum.scale), source: spectrum.source },
     wiring: spec.wiring.label,
     coupling: { ...spec.coupling, description: describeCoupling(spec.coupling) },
-    emission: EMISSION_CONVENTION,
+    emission: emissionConvention(spec.coupling),
     voc_v: r.stackVocV === null ? null : round(r.stackVocV),
     jsc_ma_cm2: r.stackJscAm2 === null ? null : ma(r.stackJscAm2),
     subcells: r.subcells.map((c, i) => ({
@@ -62,7 +63,8 @@ export function evaluateCommand(a: EvaluateArgs): string {
     spec.subcells[0] = withTop(chosenTop).subcells[0];
   }
   const r = evaluateStack(spec, spectrum);
-  if (a.json) return JSON.stringify({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}) }, null, 2);
+  const warnings = stackWarnings(spec);
+  if (a.json) return JSON.stringify({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}), warnings }, null, 2);
   const rows = r.subcells.map((c, i) => [
     String(i + 1),
     fix(c.gapEv, 4),
@@ -85,6 +87,7 @@ export function evaluateCommand(a: EvaluateArgs): string {
     '',
     'Cell 1 is the top (light side). Jph includes coupled-in current; Voc and FF are each subcell alone at its Jph.',
     ...assumptionLines(spec, spectrum).map((l) => `  ${l}`),
+    ...warnings.map((w) => `Warning: ${w}`),
     '',
     CAUTION,
   );

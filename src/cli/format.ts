@@ -8,7 +8,11 @@ export function table(headers: string[], rows: (string | number)[][]): string {
 }
 
 export const pct = (fraction: number, digits = 2) => `${(fraction * 100).toFixed(digits)} %`;
-export const fix = (x: number | null | undefined, digits: number) => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(digits));
+export const fix = (x: number | null | undefined, digits: number) => {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '–';
+  const s = x.toFixed(digits);
+  return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
+};
 
 /** Round for JSON output without losing meaningful digits. */
 export function round(x: number, sig = 10): number {

@@ -11,7 +11,7 @@ const EXIT_INTERNAL = 1;
 
 function lightOptions<T>(y: Argv<T>) {
   return y
-    .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt), blackbody:<K>, or a table file', default: 'am1.5g' })
+    .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt, the default), blackbody:<K>, or a table file' })
     .option('suns', { type: 'string', describe: 'concentration [suns], a number or "max" (full concentration ≈ 46 240)' })
     .option('irradiance', { type: 'string', describe: 'rescale the spectrum to this irradiance [W/m²]' })
     .option('units', { type: 'string', describe: 'units of a headerless file: "<nm|um|eV>,<W/m2/nm|W/m2/um|W/m2/eV|photons/m2/s/nm|…>"' });
@@ -118,6 +118,18 @@ async function run(argv: string[]): Promise<void> {
         .option('ape-window', { type: 'string', describe: 'window for the average photon energy [nm], low:high (default 350:1050)' })
         .option('json', { type: 'boolean', default: false }),
     async (a) => print((await import('./yield-command.js')).yieldCommand(a as never)),
+  );
+  cli = command(
+    cli,
+    'report <design>',
+    'HTML report with efficiency maps for a design file (YAML or JSON), plus standalone figures and data',
+    (y) =>
+      y
+        .positional('design', { type: 'string', describe: 'design file (see examples/ and schema/design.schema.json)' })
+        .option('output', { alias: 'o', type: 'string', describe: 'report file to write (default report.html), atomically' })
+        .option('figures', { type: 'string', describe: 'also write every chart as SVG and PNG, with its data as CSV and JSON, into this folder' })
+        .option('json', { type: 'boolean', default: false, describe: 'print a JSON summary of the answer' }),
+    async (a) => print(await (await import('./report-command.js')).reportCommand(a as never)),
   );
   cli = command(
     cli,

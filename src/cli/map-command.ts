@@ -4,11 +4,11 @@ import { writeFileAtomic } from '../io/atomic-write.js';
 import { buildObjective } from '../search/objectives.js';
 import { computeMap, mapToCsv, uniformAxis, type GapMap } from '../search/map.js';
 import { subcellBounds } from '../search/optimize.js';
-import { gapAtTemperature, gapReach } from '../materials/index.js';
+import { constraintBounds } from '../search/design-search.js';
 import { CAUTION, describeCoupling } from '../report/assumptions.js';
 import { round } from './format.js';
 import { startProgress } from './progress.js';
-import { parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
+import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 
@@ -53,7 +53,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   if (a.x === undefined || a.y === undefined || a.step === undefined) throw new UserError('--x, --y and --step are required, e.g. --x 1.5:2.0 --y 0.9:1.3 --step 0.005 (eV)');
   const [x0, x1] = parseRange('x', a.x);
   const [y0, y1] = parseRange('y', a.y);
-  const step = Number(a.step);
+  const step = parseNumber('step', a.step);
   if (!(step >= 1e-4 && step <= 0.5)) throw new UserError(`--step must be within 0.0001–0.5 eV, got ${String(a.step)}`);
   if (!(x0 > 0 && y0 > 0)) throw new UserError('--x and --y must be positive gaps in eV');
   const out = a.out;
@@ -63,15 +63,9 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const xCell = axes[0] - 1;
   const yCell = axes[1] - 1;
   for (const i of [xCell, yCell]) if (constraints[i].kind !== 'free') throw new UserError(`subcell ${i + 1} is mapped; it cannot also be fixed, ranged or bound`);
-  const fixed: (number | undefined)[] = constraints.map((c) => (c.kind === 'fixed' ? c.gapEv : c.kind === 'material' && c.family.kind === 'fixed' ? gapAtTemperature(c.family, c.family.gapSpanEv[0], spec.tempK) : undefined));
-  const span = spanFromArgs(a.span);
-  const bounds = subcellBounds({
-    cells,
-    spanEv: span,
-    ranges: constraints.map((c) => (c.kind === 'range' ? [c.loEv, c.hiEv] : c.kind === 'material' && c.family.kind === 'alloy' ? [gapReach(c.family).minEv, gapReach(c.family).maxEv] : undefined)),
-    fixed: fixed.map((f, i) => (i === xCell || i === yCell ? undefined : f)),
-    loss: 0.01,
-  });
+  const allowed = constraints.map((c) => constraintBounds(c, spec.tempK));
+  const fixed = allowed.map((b) => b.fixed);
+  const bounds = subcellBounds({ cells, spanEv: spanFromArgs(a.span), ranges: allowed.map((b) => b.range), fixed, loss: 0.01 });
   const members = await spectraFromArgs(a, spec.tempK);
   const obj = buildObjective(spec, members);
   const t0 = performance.now();
@@ -101,6 +95,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     seconds: round(seconds, 4),
     best: { x_ev: m.best.x, y_ev: m.best.y, efficiency: round(m.best.value, 10) },
     profile: m.profile,
+    caution: CAUTION,
   };
   if (a.json) return JSON.stringify(out ? summary : mapJson(m, meta), null, 2);
   if (!out) return mapToCsv(m, free).trimEnd();

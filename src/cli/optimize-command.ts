@@ -6,7 +6,7 @@ import { runDesignSearchParallel, type DesignSearchResult } from '../search/desi
 import type { StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import { am15g } from '../light/sources.js';
-import { assumptionLines, CAUTION, describeCoupling, EMISSION_CONVENTION } from '../report/assumptions.js';
+import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '../report/assumptions.js';
 import { fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
@@ -53,7 +53,7 @@ export function optimizeJson(spec: StackSpec, spectra: { label: string; spectrum
     wiring: spec.wiring.label,
     temp_k: spec.tempK,
     coupling: { ...spec.coupling, description: describeCoupling(spec.coupling) },
-    emission: EMISSION_CONVENTION,
+    emission: emissionConvention(spec.coupling),
     best: {
       ...basin(r.best),
       ...(d.topAbsorptance !== undefined ? { top_absorptance: round(d.topAbsorptance, 6) } : {}),
@@ -157,7 +157,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   }
   for (const c of d.compositions) {
     const xs = c.compositions.map((x) => `x = ${x.x.toFixed(3)}${x.inWindow ? '' : ' (outside practical window)'}`).join(', ');
-    lines.push(`Subcell ${c.subcell + 1} as ${c.familyName}: ${xs || c.note}`);
+    lines.push(`Subcell ${c.subcell + 1} as ${c.familyName}: ${c.fixedCompound ? `fixed compound, ${c.gapEv.toFixed(3)} eV at ${spec.tempK} K` : xs || c.note}`);
   }
   lines.push('', `Tolerance region: gaps keeping ${d.objective.label} ≥ ${pct(r.tolerance.threshold, 3)} (${(r.tolerance.loss * 100).toFixed(2)} % relative loss), one gap moved at a time:`);
   lines.push(

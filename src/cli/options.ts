@@ -11,8 +11,10 @@ import type { AbsorptanceModel, Coupling, StackSpec, SubcellSpec, Wiring } from 
 import { independentWiring, seriesWiring } from '../stack/model.js';
 
 /** A finite number from an option value, or a UserError naming the option. */
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
 export function parseNumber(option: string, value: unknown): number {
-  const x = typeof value === 'number' ? value : typeof value === 'string' && value.trim() !== '' ? Number(value) : NaN;
+  const x = typeof value === 'number' ? value : typeof value === 'string' && DECIMAL.test(value.trim()) ? Number(value) : NaN;
   if (!Number.isFinite(x)) throw new UserError(`--${option} must be a number, got "${String(value)}"`);
   return x;
 }
@@ -88,8 +90,10 @@ export function wiringFromArgs(value: unknown, cells: number): Wiring {
 export function couplingFromArgs(value: unknown, cells: number): Coupling {
   if (value === undefined || value === 'none' || value === 'isolated') return { model: 'none' };
   const text = String(value).trim().toLowerCase();
-  if (text.startsWith('radiative')) {
-    const n = text.includes(':') ? parseNumber('lc', text.split(':')[1]) : 3.5;
+  const radiative = /^radiative(?::([^:]+))?$/.exec(text);
+  if (text.startsWith('radiative') && !radiative) throw new UserError(`--lc radiative takes an optional index, "radiative" or "radiative:<n>", got "${String(value)}"`);
+  if (radiative) {
+    const n = radiative[1] !== undefined ? parseNumber('lc', radiative[1]) : 3.5;
     if (!(n >= 1 && n <= 10)) throw new UserError(`--lc radiative:<n> needs a refractive index within 1–10, got ${n}`);
     return { model: 'radiative', refractiveIndex: n };
   }
@@ -137,6 +141,11 @@ export function topAbsorptanceFromArgs(a: StackArgs): AbsorptanceModel {
     if (!(v > 0 && v <= 1)) throw new UserError(`--top-absorptance must be within (0, 1], got ${v}`);
     return { kind: 'step', value: v };
   }
+  if (a.topThickness === undefined) {
+    for (const [name, v] of [['top-alpha0', a.topAlpha0], ['top-urbach', a.topUrbach], ['top-optics', a.topOptics]] as const) {
+      if (v !== undefined) throw new UserError(`--${name} describes a top-cell film and needs --top-thickness`);
+    }
+  }
   if (a.topThickness !== undefined) {
     const d = parseNumber('top-thickness', a.topThickness);
     if (!(d > 0 && d <= 1e6)) throw new UserError(`--top-thickness must be within (0, 1e6] nm, got ${d}`);
@@ -163,6 +172,7 @@ export function stackFromArgs(gapsEv: number[], a: StackArgs): StackSpec {
   const subcells: SubcellSpec[] = gapsEv.map((g, i) => ({ gapEv: g, ere: ere[i], absorptance: i === 0 ? top : { kind: 'step', value: 1 } }));
   const r = a.reflectance === undefined ? 0 : parseNumber('reflectance', a.reflectance);
   if (!(r >= 0 && r < 1)) throw new UserError(`--reflectance must be within [0, 1), got ${r}`);
+  if (n === 1 && a.interlayerT !== undefined) throw new UserError('--interlayer-t needs at least 2 subcells (it sits between them)');
   const t = n > 1 && a.interlayerT !== undefined ? perItem('interlayer-t', parseNumberList('interlayer-t', a.interlayerT), n - 1, 'interface') : Array.from({ length: n - 1 }, () => 1);
   for (const v of t) if (!(v > 0 && v <= 1)) throw new UserError(`--interlayer-t must be within (0, 1], got ${v}`);
   return {

@@ -15,7 +15,8 @@ export interface LabelledSpectrum extends WeightedSpectrum {
 /** One spectrum at the cell temperature, or every member of --ensemble. */
 export async function spectraFromArgs(a: SpectraArgs, tempK: number): Promise<LabelledSpectrum[]> {
   if (a.ensemble !== undefined) {
-    if (a.spectrum !== undefined && a.spectrum !== 'am1.5g') throw new UserError('give either --spectrum or --ensemble, not both');
+    if (a.spectrum !== undefined) throw new UserError('give either --spectrum or --ensemble, not both');
+    if (a.suns !== undefined || a.irradiance !== undefined) throw new UserError('--suns and --irradiance apply to one spectrum; an ensemble carries its own irradiance');
     const { loadEnsemble } = await import('../light/ensemble.js');
     const units = a.units === undefined ? undefined : parseUnitDeclaration(a.units);
     return loadEnsemble(a.ensemble, { defaultTempK: tempK, units }).members;

@@ -43,10 +43,3 @@ export function maxPowerPoint(jphAm2: number, j0Am2: number, vt: number): MaxPow
   const jmpAm2 = currentAtVoltageAm2(jphAm2, j0Am2, vt, vmpV);
   return { vmpV, jmpAm2, pmaxWm2: vmpV * jmpAm2 };
 }
-
-/** Fill factor [-] of one junction. */
-export function fillFactor(jphAm2: number, j0Am2: number, vt: number): number {
-  const mpp = maxPowerPoint(jphAm2, j0Am2, vt);
-  const voc = vocV(jphAm2, j0Am2, vt);
-  return jphAm2 > 0 && voc > 0 ? mpp.pmaxWm2 / (jphAm2 * voc) : 0;
-}

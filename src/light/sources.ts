@@ -43,6 +43,7 @@ export function parseSuns(value: unknown): number | 'max' | undefined {
   if (value === 'max') return 'max';
   const x = typeof value === 'number' ? value : Number(value);
   if (!Number.isFinite(x) || !(x > 0)) throw new UserError(`--suns must be a positive number or "max", got "${String(value)}"`);
+  if (x < 1e-6) throw new UserError(`--suns ${x} is below 1e-6 suns; the detailed-balance numbers mean little there`);
   if (x > MAX_CONCENTRATION * (1 + 1e-9)) throw new UserError(`--suns ${x} exceeds full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`);
   return x;
 }

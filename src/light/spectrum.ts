@@ -60,6 +60,8 @@ export function makeSpectrum(input: SpectrumInput): Spectrum {
   for (let i = 1; i < n; i++) {
     cumulativePhotons[i] = cumulativePhotons[i - 1] + 0.5 * (photonFlux[i] + photonFlux[i - 1]) * (wavelengthNm[i] - wavelengthNm[i - 1]);
   }
+  const pinWm2 = input.pinWm2 ?? trapezoid(wavelengthNm, irradiance);
+  if (!(pinWm2 > 0) || !Number.isFinite(pinWm2)) throw new UserError(`${input.name}: the spectrum carries no power (P_in = ${pinWm2} W/m²)`);
   return {
     name: input.name,
     sha256: input.sha256,
@@ -68,7 +70,7 @@ export function makeSpectrum(input: SpectrumInput): Spectrum {
     irradiance,
     photonFlux,
     cumulativePhotons,
-    pinWm2: input.pinWm2 ?? trapezoid(wavelengthNm, irradiance),
+    pinWm2,
     scale: 1,
   };
 }
@@ -159,8 +161,7 @@ export function irradianceBetweenNm(s: Spectrum, loNm: number, hiNm: number): nu
 
 /**
  * Average photon energy [eV] over a wavelength window [nm]: P / (q·Φ) in that
- * window (Jardine et al., 3rd World Conf. PV Energy Conversion, 2003 / Prog.
- * Photovolt. 2002).
+ * window (C. N. Jardine et al., 2002; citation recalled from memory, verify).
  */
 export function averagePhotonEnergyEv(s: Spectrum, loNm: number, hiNm: number): number {
   const photons = photonsBelowWavelength(s, hiNm) - photonsBelowWavelength(s, loNm);

@@ -24,7 +24,7 @@ export const MAX_SPECTRUM_FILE_BYTES = 64 * 1024 * 1024;
 export const MIN_SPECTRUM_POINTS = 5;
 
 export const UNIT_HELP =
-  'wavelength in nm or um, or photon energy in eV; then W/m2/nm, W/m2/um, W/m2/eV, photons/m2/s/nm, photons/m2/s/um or photons/m2/s/eV';
+  'wavelength in nm or um, or photon energy in eV; then W/m2/nm, W/m2/um, W/m2/eV, photons/m2/s/nm, photons/m2/s/um or photons/m2/s/eV (per m², in W: convert cm² or mW first)';
 
 function tokens(text: string): string[] {
   return text
@@ -53,8 +53,12 @@ export function abscissaUnitOf(text: string): AbscissaUnit | undefined {
 }
 
 /** Ordinate unit named in a column header or declaration, or undefined when absent or ambiguous. */
+/** Area or power units other than m² and W: refused rather than silently read as SI. */
+const FOREIGN_UNITS = new Set(['cm', 'cm2', 'mm', 'mm2', 'mw', 'kw', 'uw', 'nw']);
+
 export function ordinateUnitOf(text: string): OrdinateUnit | undefined {
   const tk = tokens(text);
+  if (tk.some((t) => FOREIGN_UNITS.has(t))) return undefined;
   const photons = tk.some((t) => t.startsWith('photon'));
   const watts = tk.includes('w') || tk.some((t) => t.startsWith('watt'));
   if (photons === watts) return undefined;
@@ -156,6 +160,11 @@ export function spectrumFromText(file: string, text: string, declared?: TableUni
   if (!firstIsNumeric) {
     start = 1;
     if (first.cells.length !== 2) throw fileError(file, first.line, `header must name exactly two columns, found ${first.cells.length}`);
+    const hx = abscissaUnitOf(first.cells[0]);
+    const hy = ordinateUnitOf(first.cells[1]);
+    if (declared && hx && hy && (hx !== declared.x || hy !== declared.y)) {
+      throw fileError(file, first.line, `header names ${hx}, ${hy} but --units declares ${declared.x}, ${declared.y}; drop --units or fix the header`);
+    }
     if (!declared) {
       const x = abscissaUnitOf(first.cells[0]);
       const y = ordinateUnitOf(first.cells[1]);

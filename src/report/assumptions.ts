@@ -11,6 +11,13 @@ export const CAUTION =
 
 export const EMISSION_CONVENTION = 'radiative emission through the front surface only, into air (solid angle π); no rear emission';
 
+/** The emission convention in force under a coupling model. */
+export function emissionConvention(c: Coupling): string {
+  return c.model === 'radiative'
+    ? `radiative emission through the front surface into air (solid angle π) and, from every upper cell, down into the cell below (index n = ${c.refractiveIndex}, n² times the front share)`
+    : EMISSION_CONVENTION;
+}
+
 export function describeCoupling(c: Coupling): string {
   switch (c.model) {
     case 'none':
@@ -18,7 +25,7 @@ export function describeCoupling(c: Coupling): string {
     case 'empirical':
       return `empirical luminescent coupling η = ${c.eta.join(', ')} per interface (J0 unchanged)`;
     case 'radiative':
-      return `radiative-limit coupling, index n = ${c.refractiveIndex}: downward share n²/(1+n²) of radiative recombination, upper-cell J0 × (1+n²)`;
+      return `radiative-limit coupling, index n = ${c.refractiveIndex}: downward share n²/(1+n²) of radiative recombination, upper-cell J0 × (1+n²); here ERE is the radiative fraction of recombination`;
   }
 }
 
@@ -40,7 +47,7 @@ export function assumptionLines(spec: StackSpec, spectrum: Spectrum): string[] {
   return [
     `spectrum: ${spectrum.name}, P_in = ${spectrum.pinWm2.toFixed(2)} W/m², SHA-256 ${spectrum.sha256.slice(0, 16)}…`,
     `cell temperature: ${spec.tempK} K${spec.tempK === 300 ? ' (the detailed-balance convention)' : ''}`,
-    `emission: ${EMISSION_CONVENTION}`,
+    `emission: ${emissionConvention(spec.coupling)}`,
     `ERE: ${eres.every((e) => e === 1) ? '1 (fully radiative)' : eres.join(', ')}`,
     `optics: ${optics}; front reflectance ${typeof spec.frontReflectance === 'number' ? spec.frontReflectance : 'tabulated'}`,
     `coupling: ${describeCoupling(spec.coupling)}`,

@@ -7,7 +7,7 @@ import { basename, dirname, resolve, sep } from 'node:path';
 import { HC_EV_NM } from '../physics/constants.js';
 import type { Design, DesignSubcell } from '../design/index.js';
 import { constraintRangeEv } from '../design/index.js';
-import { CAUTION, describeAbsorptance, describeCoupling, EMISSION_CONVENTION } from './assumptions.js';
+import { CAUTION, describeAbsorptance, describeCoupling, emissionConvention } from './assumptions.js';
 import type { ReportData, WiringOutcome } from './compute.js';
 
 export const fx = (x: number | null | undefined, d: number): string => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(d));
@@ -196,7 +196,7 @@ export function assumptionList(data: ReportData): string[] {
     lines.push(`Objective: yield-weighted efficiency Σ w·P_max / Σ w·P_in, each configuration re-solved under every spectrum at its cell temperature; per-subcell detail (J–V, bands) under "${design.reference.label}", the member with the largest energy share.`);
   }
   lines.push(`Cell temperature: ${design.tempK} K${design.tempK === 300 ? ' (the detailed-balance convention)' : ''}.`);
-  lines.push(`Emission: ${EMISSION_CONVENTION}.`);
+  lines.push(`Emission: ${emissionConvention(t.coupling)}.`);
   lines.push(
     `ERE: ${design.subcells.every((s) => s.ere === 1) ? '1 for every subcell (fully radiative)' : design.subcells.map((s) => `${s.index}: ${s.ere.toPrecision(4)}${s.vocLossV !== undefined ? ` (from a non-radiative Voc loss of ${s.vocLossV} V)` : ''}`).join('; ')}.`,
   );

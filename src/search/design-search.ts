@@ -34,6 +34,8 @@ export interface CompositionNote {
   subcell: number;
   family: string;
   familyName: string;
+  /** A fixed compound has no composition to choose. */
+  fixedCompound: boolean;
   gapEv: number;
   /** Compositions giving the gap (at 300 K, after the family's dE_g/dT), with window flags. */
   compositions: readonly { readonly x: number; readonly inWindow: boolean }[];
@@ -57,7 +59,8 @@ export function gapAtReference(family: AbsorberFamily, gapEv: number, tempK: num
   return gapEv - family.dEgDtEvPerK * (tempK - REFERENCE_TEMPERATURE_K);
 }
 
-function constraintBounds(c: SubcellConstraint, tempK: number): { range?: [number, number]; fixed?: number } {
+/** Range or fixed gap [eV] at the operating temperature that a constraint allows. */
+export function constraintBounds(c: SubcellConstraint, tempK: number): { range?: [number, number]; fixed?: number } {
   const shift = (fam: AbsorberFamily, e: number) => gapAtTemperature(fam, e, tempK);
   switch (c.kind) {
     case 'free':
@@ -69,8 +72,9 @@ function constraintBounds(c: SubcellConstraint, tempK: number): { range?: [numbe
     case 'material': {
       const f = c.family;
       if (f.kind === 'fixed') return { fixed: shift(f, f.gapSpanEv[0]) };
+      // The practical window, never beyond what the gap model can reach.
       const r = gapReach(f);
-      const [lo, hi] = c.fullRange ? [r.minEv, r.maxEv] : f.window.gapEv;
+      const [lo, hi] = c.fullRange ? [r.minEv, r.maxEv] : [Math.max(r.minEv, f.window.gapEv[0]), Math.min(r.maxEv, f.window.gapEv[1])];
       return { range: [shift(f, lo), shift(f, hi)] };
     }
   }
@@ -124,7 +128,7 @@ function assembleDesign(req: DesignSearchRequest, prep: PreparedDesign, result: 
     if (c.kind !== 'material') return;
     const g = result.best.gapsEv[i];
     const d = describeGap(c.family, gapAtReference(c.family, g, tempK));
-    compositions.push({ subcell: i, family: c.family.id, familyName: c.family.name, gapEv: g, compositions: d.compositions, inWindow: d.inWindow, note: d.note });
+    compositions.push({ subcell: i, family: c.family.id, familyName: c.family.name, fixedCompound: c.family.kind === 'fixed', gapEv: g, compositions: d.compositions, inWindow: d.inWindow, note: d.note });
     if (c.fullRange && !d.inWindow) warnings.push(`subcell ${i + 1}: ${g.toFixed(3)} eV lies outside the practical window of ${c.family.name} (${c.family.window.gapEv[0]}–${c.family.window.gapEv[1]} eV): ${c.family.window.reason}`);
   });
   if (unconstrained) {

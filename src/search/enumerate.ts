@@ -7,10 +7,9 @@
  * below the last gap; no subcell's Voc exceeds that of the next-higher gap
  * with all remaining photons.
  */
-import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
+import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import { photonsAboveEv } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
-import { HC_EV_NM } from '../physics/constants.js';
 import { singlePowerWm2, type StepObjective } from './step-objective.js';
 
 export interface Candidate {
@@ -186,7 +185,6 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
     return p / pin;
   };
 
-  /** Cheap leaf bound J_min·Σ Voc (series) from the partial sums of the cells above: one log per spectrum. */
   /** Independent wiring: the cells above are already summed; only the bottom cell is new. */
   const leafValueIndependent = (): number => {
     let p = 0;
@@ -200,6 +198,7 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   };
 
   let monotoneTail = false;
+  /** Cheap leaf bound J_min·Σ Voc (series) from the partial sums of the cells above: one log per spectrum. */
   const leafBound = (): number => {
     if (!canPrune || !series) return Infinity;
     let p = 0;

@@ -151,7 +151,10 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
 /** CSV text of a map: one row per pixel, gaps [eV] and efficiency [-]. */
 export function mapToCsv(m: GapMap, freeCells: number[] = []): string {
   const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
-  const lines = [head.join(',')];
+  const lines = [
+    '# gapstack map: detailed-balance efficiency [-] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
+    head.join(','),
+  ];
   const nx = m.x.length;
   for (let iy = 0; iy < m.y.length; iy++) {
     for (let ix = 0; ix < nx; ix++) {

@@ -142,6 +142,12 @@ function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: numb
     while (i1 >= 0 && axis[i1] > b + 1e-12) i1--;
     return [i0, i1];
   });
+  const width = Math.max(...ranges.map(([a, b]) => b - a + 1));
+  const combinations = width ** freeIdx.length / factorial(freeIdx.length);
+  const limit = fast ? 5e10 : 2e7;
+  if (combinations > limit) {
+    throw new UserError(`about ${combinations.toExponential(1)} gap combinations at a ${step * 1000} meV grid step; use a coarser --step (refinement goes below 1 meV anyway) or narrower ranges`);
+  }
   return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, t0 };
 }
 

@@ -149,11 +149,6 @@ export class StepObjective implements GapObjective {
     return p;
   }
 
-  /** Current-matching absorptance guess for a partly transparent top cell of a 2T stack. */
-  static matchedTopAbsorptance(topBand: number, secondBand: number): number {
-    return topBand > 0 ? Math.min(1, Math.max(1e-3, (topBand + secondBand) / (2 * topBand))) : 1;
-  }
-
   private readonly qnScratch = new Float64Array(6);
   private readonly j0Scratch = new Float64Array(6);
 

@@ -11,6 +11,7 @@
  */
 
 import { goldenSectionMax } from '../numerics/golden.js';
+import { voltageAtCurrentV } from '../junction/diode.js';
 
 /** Electrical inputs of a stack, top first. */
 export interface StackElectrical {
@@ -100,10 +101,7 @@ export interface Operation {
   powerWm2: number;
 }
 
-function cellVoltage(jph: number, j: number, j0: number, vt: number): number {
-  const u = (jph - j) / j0;
-  return u > -1 ? vt * Math.log1p(u) : -Infinity;
-}
+const cellVoltage = (jph: number, j: number, j0: number, vt: number): number => voltageAtCurrentV(jph, j0, vt, j);
 
 function finish(el: StackElectrical, currents: Float64Array, jph: Float64Array): Operation {
   const n = currents.length;

@@ -4,11 +4,12 @@
  * the search has its own allocation-free step path over the same equations.
  */
 import { UserError } from '../errors.js';
-import { thermalVoltageV } from '../physics/constants.js';
+import { BOLTZMANN_EV_K, thermalVoltageV } from '../physics/constants.js';
+import { j0WithEreAm2 } from '../junction/radiative.js';
 import type { Spectrum } from '../light/spectrum.js';
 import { maxPowerPoint, vocV } from '../junction/diode.js';
 import type { StackSpec } from './model.js';
-import { stackOptics, isStepOptics } from './optics.js';
+import { stackOptics } from './optics.js';
 import { operateGroups, operateVoltageMatched, seriesTerminals, type StackElectrical } from './electrical.js';
 
 export interface SubcellResult {
@@ -55,6 +56,9 @@ export function validateStack(spec: StackSpec): void {
     const a = c.absorptance;
     if (a.kind === 'step' && !(a.value > 0 && a.value <= 1)) throw new UserError(`${name}: absorptance must be within (0, 1], got ${a.value}`);
     if (a.kind !== 'step' && !(a.thicknessNm > 0)) throw new UserError(`${name}: thickness must be positive nm, got ${a.thicknessNm}`);
+    if (a.kind !== 'step' && a.alpha.kind === 'direct' && !(a.alpha.urbachEv < BOLTZMANN_EV_K * spec.tempK)) {
+      throw new UserError(`${name}: Urbach energy ${a.alpha.urbachEv} eV is not below kT (${(BOLTZMANN_EV_K * spec.tempK).toFixed(4)} eV at ${spec.tempK} K); the radiative J0 of such a tail has no detailed-balance limit`);
+    }
   });
   const steps = spec.subcells.every((c) => c.absorptance.kind === 'step');
   if (steps) {
@@ -93,6 +97,23 @@ export function validateStack(spec: StackSpec): void {
   }
 }
 
+/**
+ * Warnings about a stack that the physics allows but a practitioner should
+ * question: empirical coupling above the radiative fraction recycles
+ * non-radiative recombination, which no real interface does.
+ */
+export function stackWarnings(spec: StackSpec): string[] {
+  const out: string[] = [];
+  const c = spec.coupling;
+  if (c.model === 'empirical') {
+    c.eta.forEach((e, i) => {
+      const ere = spec.subcells[i].ere;
+      if (e > ere) out.push(`coupling η = ${e} below subcell ${i + 1} exceeds its ERE (${ere}): more of its recombination is recycled than is radiative, so the empirical model overstates the gain`);
+    });
+  }
+  return out;
+}
+
 /** Saturation currents with ERE and the coupling model applied, plus per-interface η. */
 export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Float64Array): StackElectrical {
   const n = spec.subcells.length;
@@ -111,7 +132,7 @@ export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Flo
       eta[i] = (ere * n2) / (1 + n2);
     }
     if (c.model === 'empirical' && i < n - 1) eta[i] = c.eta[i];
-    j0[i] = (j0Rad[i] * factor) / ere;
+    j0[i] = j0WithEreAm2(j0Rad[i] * factor, ere);
   }
   return { jgenAm2: jgen, j0Am2: j0, eta, vt: thermalVoltageV(spec.tempK) };
 }
@@ -154,4 +175,3 @@ export function evaluateStack(spec: StackSpec, spectrum: Spectrum): StackResult 
   };
 }
 
-export { isStepOptics };

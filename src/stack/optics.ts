@@ -20,9 +20,14 @@ export interface StackOptics {
   jgenAm2: Float64Array;
   /** Radiative saturation current of each subcell [A/m²] before ERE: q·2π/(h³c²)·∫ a(E)(1 − R(E)) E²/(e^{E/kT} − 1) dE. */
   j0RadAm2: Float64Array;
-  /** Photon current incident on the stack above the lowest gap [A/m²] (for bookkeeping). */
-  incidentAboveLowestGapAm2: number;
 }
+
+/**
+ * Depth below the gap at which an Urbach tail is cut [eV]. With E_U < kT the
+ * tail's share of J0 decays as exp(−ΔE(1/E_U − 1/kT)); the cut keeps each
+ * cell's J0 a property of that cell alone (not of the energy grid).
+ */
+export const URBACH_TAIL_DEPTH_EV = 0.5;
 
 /** True when the closed-form step path applies. */
 export function isStepOptics(spec: StackSpec): boolean {
@@ -61,6 +66,7 @@ export function alphaPerCm(model: AlphaModel, gapEv: number, energyEv: number): 
   }
   const eu = model.urbachEv;
   if (!(eu > 0)) return energyEv > gapEv ? model.alpha0PerCm * Math.sqrt(energyEv - gapEv) : 0;
+  if (energyEv < gapEv - URBACH_TAIL_DEPTH_EV) return 0;
   // Square-root edge above E_g + E_U/2, Urbach exponential below; value and slope match at the join.
   const join = gapEv + eu / 2;
   if (energyEv >= join) return model.alpha0PerCm * Math.sqrt(energyEv - gapEv);
@@ -94,29 +100,25 @@ export function stepOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
   const jgen = new Float64Array(n);
   const j0 = new Float64Array(n);
   const r = spec.frontReflectance as number;
-  let above = 0;
+  const value = (i: number) => (cells[i].absorptance as { value: number }).value;
+  const above = cells.map((c) => photonsAboveEv(spectrum, c.gapEv));
   let throughput = 1 - r;
   for (let i = 0; i < n; i++) {
-    const a = (cells[i].absorptance as { value: number }).value;
-    const nAbove = photonsAboveEv(spectrum, cells[i].gapEv);
+    const a = value(i);
     // Photons reaching cell i: each earlier band attenuated by the cells it has passed.
     let reaching = 0;
-    let prevN = 0;
     for (let k = 0; k <= i; k++) {
-      const nk = photonsAboveEv(spectrum, cells[k].gapEv);
-      let band = nk - prevN;
-      prevN = nk;
-      for (let j = k; j < i; j++) band *= 1 - (cells[j].absorptance as { value: number }).value;
+      let band = above[k] - (k > 0 ? above[k - 1] : 0);
+      for (let j = k; j < i; j++) band *= 1 - value(j);
       reaching += band;
     }
     jgen[i] = ELEMENTARY_CHARGE_C * throughput * a * reaching;
     // Reciprocity: emission escapes through the same front surface, so R cuts J0 as it cuts
     // absorption; an absorbing interlayer does not (at cell temperature it emits what it takes).
     j0[i] = a * (1 - r) * j0RadStepAm2(cells[i].gapEv, spec.tempK);
-    above = nAbove;
     if (i < n - 1) throughput *= spec.interlayerTransmittance[i] as number;
   }
-  return { jgenAm2: jgen, j0RadAm2: j0, incidentAboveLowestGapAm2: ELEMENTARY_CHARGE_C * above * (1 - r) };
+  return { jgenAm2: jgen, j0RadAm2: j0 };
 }
 
 /** Energy step of the bin path [eV]. */
@@ -132,7 +134,7 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
   const cells = spec.subcells;
   const n = cells.length;
   const minGap = Math.min(...cells.map((c) => c.gapEv));
-  const lo = Math.max(0.05, minGap - 0.6);
+  const lo = Math.max(0.05, minGap - URBACH_TAIL_DEPTH_EV - 0.1);
   const hi = Math.max(4.6, Math.max(...cells.map((c) => c.gapEv)) + 0.5);
   const edges: number[] = [];
   for (let e = lo; e < hi; e += BIN_STEP_EV) edges.push(e);
@@ -142,11 +144,9 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
   const jgen = new Float64Array(n);
   const j0 = new Float64Array(n);
   const t = spec.tempK;
-  let incident = 0;
   const addBin = (eMid: number, photons: number, kernel: number) => {
     const front = 1 - spectralValueAt(spec.frontReflectance, eMid);
     let flux = photons * front;
-    if (eMid >= minGap) incident += flux;
     for (let i = 0; i < n; i++) {
       const a = absorptanceAt(cells[i].absorptance, cells[i].gapEv, eMid);
       jgen[i] += flux * a;
@@ -172,7 +172,7 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
     jgen[i] *= ELEMENTARY_CHARGE_C;
     j0[i] *= ELEMENTARY_CHARGE_C * BLACKBODY_PREFACTOR_EV;
   }
-  return { jgenAm2: jgen, j0RadAm2: j0, incidentAboveLowestGapAm2: ELEMENTARY_CHARGE_C * incident };
+  return { jgenAm2: jgen, j0RadAm2: j0 };
 }
 
 /** Optics of a stack under a spectrum, by the fastest exact path that applies. */

@@ -68,7 +68,9 @@ describe('gapstack map', () => {
     const r = runCli(['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.01', '--out', out, '--json']);
     expect(r.code).toBe(0);
     const summary = JSON.parse(r.stdout);
-    const lines = readFileSync(out, 'utf8').trim().split('\n');
+    const all = readFileSync(out, 'utf8').trim().split('\n');
+    expect(all[0]).toMatch(/^# .*theoretical limits/);
+    const lines = all.filter((l) => !l.startsWith('#'));
     expect(lines[0]).toBe('gap1_ev,gap2_ev,efficiency');
     expect(lines.length - 1).toBe(summary.points);
     const e = runJson(['evaluate', '--gaps', `${summary.best.x_ev},${summary.best.y_ev}`]);
@@ -148,7 +150,7 @@ describe('profile maps', () => {
     const s = JSON.parse(r.stdout);
     expect(s.profile).toBe(true);
     expect(Math.abs(s.best.efficiency - 0.5162)).toBeLessThan(3e-4);
-    const [head, first] = readFileSync(out, 'utf8').split('\n');
+    const [head, first] = readFileSync(out, 'utf8').split('\n').filter((l) => !l.startsWith('#'));
     expect(head).toBe('gap1_ev,gap2_ev,gap3_ev_profile,efficiency');
     const bottom = Number(first.split(',')[2]);
     expect(bottom).toBeGreaterThan(0.5);

@@ -29,8 +29,10 @@ describe('efficiency maps', () => {
     expect(Number.isNaN(m.values[1 * 3 + 1])).toBe(true);
     expect(m.values[0 * 3 + 1]).toBeGreaterThan(0);
     const csv = mapToCsv(m);
-    expect(csv.split('\n')[0]).toBe('gap1_ev,gap2_ev,efficiency');
-    expect(csv.trim().split('\n')).toHaveLength(1 + 3);
+    const lines = csv.trim().split('\n');
+    expect(lines[0]).toMatch(/^# .*not device predictions/);
+    expect(lines[1]).toBe('gap1_ev,gap2_ev,efficiency');
+    expect(lines).toHaveLength(2 + 3);
   });
 
   test('a profile map maximises the free subcell at every pixel', () => {
