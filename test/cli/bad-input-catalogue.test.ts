@@ -42,6 +42,9 @@ const spectrumFiles: [string, string, RegExp][] = [
   ['binary garbage', file('garbage.bin', Buffer.from([0x7f, 0x45, 0x4c, 0x46, 0, 0, 1, 2, 3, 255])), /binary data/],
   ['a 1 GiB file', huge, /1024 MiB; spectrum tables above 64 MiB are refused/],
   ['a folder', dir, /is not a regular file/],
+  ['per cm² irradiance', file('cm2.csv', `wavelength_nm,irradiance_W_cm2_nm\n${good}`), /cm2\.csv:1: .*names no clear unit/],
+  ['mW irradiance', file('mw.csv', `wavelength_nm,irradiance_mW_m2_nm\n${good}`), /mw\.csv:1: .*names no clear unit/],
+  ['a spectrum with no power', file('dark.csv', `${header}300,0\n500,0\n700,0\n900,0\n1100,0\n`), /carries no power/],
 ];
 
 describe('spectrum files (spectrum, evaluate, optimize, map)', () => {
@@ -58,6 +61,11 @@ describe('spectrum files (spectrum, evaluate, optimize, map)', () => {
       expect(r.stderr.trim().split('\n')).toHaveLength(1);
       expect(r.stderr).not.toMatch(/\n\s+at /);
     }
+  });
+  test('--units that contradict the header are refused', () => {
+    const r = runCli(['spectrum', 'spectra/am1.5g.tsv', '--units', 'um,W/m2/um']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/header names nm, W\/m2\/nm but --units declares um, W\/m2\/um/);
   });
   test('a wrongly declared unit is refused', () => {
     const bare = file('bare.txt', good);
@@ -89,6 +97,15 @@ const argumentCases: [string, string[], RegExp][] = [
   ['yield without ensemble', ['yield', '--gaps', '1.7,1.1'], /Missing required argument: ensemble/],
   ['yield with a missing ensemble', ['yield', '--gaps', '1.7,1.1', '--ensemble', join(dir, 'nowhere')], /nowhere/],
   ['unknown command', ['frobnicate'], /Unknown argument: frobnicate/],
+  ['a hexadecimal gap', ['evaluate', '--gaps', '0x10'], /--gaps must be a number/],
+  ['suns below 1e-6', ['evaluate', '--gaps', '1.34', '--suns', '1e-300'], /below 1e-6 suns/],
+  ['radiative coupling with junk', ['evaluate', '--gaps', '1.7,1.1', '--lc', 'radiativeX'], /--lc radiative takes an optional index/],
+  ['film options without a thickness', ['evaluate', '--gaps', '1.7,1.1', '--top-optics', 'double'], /--top-optics describes a top-cell film and needs --top-thickness/],
+  ['an interlayer under one cell', ['evaluate', '--gaps', '1.34', '--interlayer-t', '0.9'], /--interlayer-t needs at least 2 subcells/],
+  ['an Urbach tail wider than kT', ['evaluate', '--gaps', '1.55,1.12', '--top-thickness', '400', '--top-urbach', '0.03'], /Urbach energy 0.03 eV is not below kT/],
+  ['an ensemble with --suns', ['optimize', '--cells', '2', '--ensemble', 'examples/ensemble-demo/manifest.yaml', '--suns', '2'], /an ensemble carries its own irradiance/],
+  ['an ensemble with --spectrum', ['optimize', '--cells', '2', '--ensemble', 'examples/ensemble-demo/manifest.yaml', '--spectrum', 'am1.5g'], /either --spectrum or --ensemble/],
+  ['a search too large to enumerate', ['optimize', '--cells', '4', '--step', '0.0005'], /gap combinations .* use a coarser --step/],
 ];
 
 describe('command-line arguments', () => {
