@@ -1,7 +1,7 @@
 /**
  * `gapstack yield`: one stack re-solved under every spectrum of an ensemble,
  * the yield-weighted efficiency Σ w·P_max / Σ w·P_in, and what the ensemble
- * holds (PHYSICS.md §8).
+ * holds (docs/PHYSICS.md §8).
  */
 import { UserError } from '../errors.js';
 import { am15g } from '../light/sources.js';

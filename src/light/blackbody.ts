@@ -1,6 +1,6 @@
 /**
  * A blackbody sun: the spectral irradiance of a blackbody at T_s diluted by
- * f = C·(R_sun/D)² (PHYSICS.md §1; De Vos, J. Phys. D 13 (1980) 839).
+ * f = C·(R_sun/D)² (docs/PHYSICS.md §1; De Vos, J. Phys. D 13 (1980) 839).
  * P_in = f·σ·T_s⁴ exactly; the table exists so that the sun travels through
  * the program in the same form as any measured spectrum.
  */

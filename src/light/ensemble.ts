@@ -1,5 +1,5 @@
 /**
- * Spectral ensembles (PHYSICS.md §8): a set of spectra with weights (hours,
+ * Spectral ensembles (docs/PHYSICS.md §8): a set of spectra with weights (hours,
  * or energy shares) and cell temperatures that stands for a site or a season,
  * and the yield-weighted efficiency of a stack over it,
  *

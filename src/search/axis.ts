@@ -1,6 +1,6 @@
 /**
  * The candidate gap values a search enumerates: a uniform grid over the span,
- * plus the spectrum's own absorption-band edges (PHYSICS.md §6: under real
+ * plus the spectrum's own absorption-band edges (docs/PHYSICS.md §6: under real
  * spectra the winning basin can be a few meV wide at an O₂ or H₂O band edge,
  * which no coarse grid is sure to land in), plus any fixed gaps.
  */

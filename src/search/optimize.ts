@@ -1,5 +1,5 @@
 /**
- * Global search for the gaps of a stack (PHYSICS.md §6): enumerate ordered
+ * Global search for the gaps of a stack (docs/PHYSICS.md §6): enumerate ordered
  * combinations on a coarse axis that also holds the spectrum's band edges,
  * keep every combination within a margin of the best, refine many distinct
  * seeds locally to sub-meV, and report the best, the runner-up basins and the

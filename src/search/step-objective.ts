@@ -7,7 +7,7 @@
  * (with a partly transparent top cell, (1 − A) of its band passes down).
  * Series: P = max_J J·Σ V_t ln((J_ph,i − J)/J0_i + 1), the root of dP/dJ by
  * safeguarded Newton. Independent: each cell at its Lambert-W maximum.
- * Yield over spectra k: Σ w_k·P_k / Σ w_k·P_in,k (PHYSICS.md §8).
+ * Yield over spectra k: Σ w_k·P_k / Σ w_k·P_in,k (docs/PHYSICS.md §8).
  */
 import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
 import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';

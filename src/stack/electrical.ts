@@ -1,5 +1,5 @@
 /**
- * Electrical operation of a stack (PHYSICS.md §5): series groups at a common
+ * Electrical operation of a stack (docs/PHYSICS.md §5): series groups at a common
  * current, independent groups each at its own maximum, voltage-matched
  * strings at one free voltage, with luminescent coupling carried top-down.
  *

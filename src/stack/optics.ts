@@ -1,5 +1,5 @@
 /**
- * Optics down the stack (PHYSICS.md §4): light that the cells above did not
+ * Optics down the stack (docs/PHYSICS.md §4): light that the cells above did not
  * absorb, that was not reflected and not lost in interlayers reaches the next
  * cell, φ_i(E) = φ_0(E)·(1 − R)·Π_{j<i}(1 − a_j(E))·T_j(E).
  *

@@ -1,5 +1,5 @@
 /**
- * Yield of one stack over a weighted set of spectra (PHYSICS.md §8): every
+ * Yield of one stack over a weighted set of spectra (docs/PHYSICS.md §8): every
  * spectrum is solved in full, so a series stack re-matches its current each time.
  */
 import { UserError } from '../errors.js';
@@ -34,7 +34,7 @@ export interface YieldResult {
 
 /**
  * Yield-weighted efficiency of a stack over weighted spectra,
- * Σ w·P_max / Σ w·P_in (PHYSICS.md §8), each spectrum solved in full with
+ * Σ w·P_max / Σ w·P_in (docs/PHYSICS.md §8), each spectrum solved in full with
  * evaluateStack at its own cell temperature (the spec's tempK replaced; gaps
  * and ERE held as given). A series stack re-matches its current under every
  * spectrum.

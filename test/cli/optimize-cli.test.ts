@@ -7,7 +7,7 @@ import { runCli, runJson } from '../helpers/cli.js';
 const dir = mkdtempSync(join(tmpdir(), 'gapstack-opt-'));
 
 describe('gapstack optimize', () => {
-  test('2T from scratch: 45.727 % at 1.6325/0.9601 with basins and tolerance (PHYSICS.md §5/§6)', () => {
+  test('2T from scratch: 45.727 % at 1.6325/0.9601 with basins and tolerance (docs/PHYSICS.md §5/§6)', () => {
     const j = runJson(['optimize', '--cells', '2']);
     expect(Math.abs(j.best.efficiency - 0.45727)).toBeLessThan(1e-4);
     expect(Math.abs(j.best.gaps_ev[0] - 1.6325)).toBeLessThan(0.002);
@@ -18,7 +18,7 @@ describe('gapstack optimize', () => {
     expect(j.caution).toMatch(/detailed-balance limits/);
   });
 
-  test('4T with a fixed 1.12 eV bottom: 45.24 % near 1.81 eV (PHYSICS.md §5)', () => {
+  test('4T with a fixed 1.12 eV bottom: 45.24 % near 1.81 eV (docs/PHYSICS.md §5)', () => {
     const j = runJson(['optimize', '--cells', '2', '--wiring', 'independent', '--fix', '2=1.12']);
     expect(Math.abs(j.best.efficiency - 0.4524)).toBeLessThan(1e-4);
     expect(Math.abs(j.best.gaps_ev[0] - 1.81)).toBeLessThan(0.005);
@@ -30,7 +30,7 @@ describe('gapstack optimize', () => {
     expect(c.family).toBe('perovskite-i-br');
     expect(c.compositions.length).toBeGreaterThan(0);
     expect(c.in_window).toBe(true);
-    // 4T on Si wants ≈1.81 eV (PHYSICS.md §5), above the ≈1.8 eV halide-segregation limit (Hoke et al., Chem. Sci. 2015).
+    // 4T on Si wants ≈1.81 eV (docs/PHYSICS.md §5), above the ≈1.8 eV halide-segregation limit (Hoke et al., Chem. Sci. 2015).
     expect(j.unconstrained.gaps_ev[0]).toBeGreaterThan(j.best.gaps_ev[0]);
     expect(j.warnings.join(' ')).toMatch(/outside the practical window/);
   });
@@ -109,7 +109,7 @@ describe('gapstack optimize over an ensemble', () => {
     expect(j.best.gaps_ev).toHaveLength(2);
     expect(j.spectra.length).toBe(16);
     const c = j.am15g_comparison;
-    // AM1.5G optimum on a 1.12 eV bottom: 45.04 % at 1.729 eV (PHYSICS.md §5).
+    // AM1.5G optimum on a 1.12 eV bottom: 45.04 % at 1.729 eV (docs/PHYSICS.md §5).
     expect(Math.abs(c.am15g_best.efficiency - 0.4504)).toBeLessThan(1e-4);
     expect(c.am15g_design_yield_efficiency).toBeLessThanOrEqual(j.best.efficiency + 1e-9);
     expect(c.loss_rel).toBeGreaterThanOrEqual(-1e-9);
@@ -117,7 +117,7 @@ describe('gapstack optimize over an ensemble', () => {
 });
 
 describe('material-bound 2T searches', () => {
-  test('mixed-halide top on silicon: 1.729 eV (PHYSICS.md §5) sits inside the window, so a bromide fraction comes back and no warning', () => {
+  test('mixed-halide top on silicon: 1.729 eV (docs/PHYSICS.md §5) sits inside the window, so a bromide fraction comes back and no warning', () => {
     const j = runJson(['optimize', '--cells', '2', '--material', '1=perovskite-i-br', '--material', '2=si']);
     expect(Math.abs(j.best.gaps_ev[0] - 1.729)).toBeLessThan(0.002);
     expect(j.best.gaps_ev[1]).toBe(1.12);
@@ -143,7 +143,7 @@ describe('material-bound 2T searches', () => {
 });
 
 describe('profile maps', () => {
-  test('a 3-subcell map over the top two gaps maximises the bottom gap per point; its best is near the 3J optimum 51.62 % at 1.900/1.367 (PHYSICS.md §5)', () => {
+  test('a 3-subcell map over the top two gaps maximises the bottom gap per point; its best is near the 3J optimum 51.62 % at 1.900/1.367 (docs/PHYSICS.md §5)', () => {
     const out = join(dir, 'profile.csv');
     const r = runCli(['map', '--cells', '3', '--x', '1.85:1.95', '--y', '1.33:1.40', '--step', '0.01', '--out', out, '--json']);
     expect(r.code).toBe(0);

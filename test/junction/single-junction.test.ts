@@ -14,7 +14,7 @@ const single = (gap: number, s: Spectrum, over = {}) => evaluateStack(idealStack
 
 describe('Shockley–Queisser single junction under AM1.5G at 300 K', () => {
   const s = am15g();
-  // Expected values: PHYSICS.md §2 table (independent numpy/scipy implementation);
+  // Expected values: docs/PHYSICS.md §2 table (independent numpy/scipy implementation);
   // Rühle, Sol. Energy 130 (2016) 139 gives 33.7 % at 1.34 eV (from memory).
   test.each([
     [1.12, 0.3339],
@@ -23,13 +23,13 @@ describe('Shockley–Queisser single junction under AM1.5G at 300 K', () => {
   ])('η(%f eV) = %f within 0.02 % abs', (gap, eta) => {
     expect(Math.abs(single(gap, s).efficiency - eta)).toBeLessThan(2e-4);
   });
-  test('Jsc(1.12 eV) = 43.81 mA/cm² (PHYSICS.md §2)', () => {
+  test('Jsc(1.12 eV) = 43.81 mA/cm² (docs/PHYSICS.md §2)', () => {
     expect(Math.abs(single(1.12, s).subcells[0].jphAm2 / 10 - 43.81)).toBeLessThan(0.05);
   });
-  test('Voc(1.34 eV) = 1.0817 V within 1 mV (PHYSICS.md §2)', () => {
+  test('Voc(1.34 eV) = 1.0817 V within 1 mV (docs/PHYSICS.md §2)', () => {
     expect(Math.abs(single(1.34, s).subcells[0].vocV - 1.0817)).toBeLessThan(1e-3);
   });
-  test('Voc(1.12 eV) = 0.8766 V, Voc(1.60 eV) = 1.3245 V within 1 mV (PHYSICS.md §2)', () => {
+  test('Voc(1.12 eV) = 0.8766 V, Voc(1.60 eV) = 1.3245 V within 1 mV (docs/PHYSICS.md §2)', () => {
     expect(Math.abs(single(1.12, s).subcells[0].vocV - 0.8766)).toBeLessThan(1e-3);
     expect(Math.abs(single(1.6, s).subcells[0].vocV - 1.3245)).toBeLessThan(1e-3);
   });

@@ -14,7 +14,7 @@ describe('built-in AM1.5G (ASTM G173-03 global tilt)', () => {
     expect(s.pinWm2).toBeCloseTo(trapezoid(s.wavelengthNm, s.irradiance), 12);
   });
 
-  test('Jsc of a 1.12 eV step absorber is 43.81 mA/cm² (PHYSICS.md §2 table, independent numpy/scipy reference)', () => {
+  test('Jsc of a 1.12 eV step absorber is 43.81 mA/cm² (docs/PHYSICS.md §2 table, independent numpy/scipy reference)', () => {
     expect(Math.abs(stepJscAm2(s, 1.12) / 10 - 43.81)).toBeLessThan(0.05);
   });
 

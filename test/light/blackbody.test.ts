@@ -6,7 +6,7 @@ import { DILUTION_ONE_SUN, MAX_CONCENTRATION, STEFAN_BOLTZMANN } from '../../src
 import { resolveSpectrum } from '../../src/light/sources.js';
 
 describe('blackbody sun', () => {
-  test('dilution at 1 au is 2.1627e-5 and full concentration ≈ 46 240 (IAU 2015 nominal solar radius, IAU 2012 au; PHYSICS.md §1)', () => {
+  test('dilution at 1 au is 2.1627e-5 and full concentration ≈ 46 240 (IAU 2015 nominal solar radius, IAU 2012 au; docs/PHYSICS.md §1)', () => {
     expect(DILUTION_ONE_SUN).toBeCloseTo(2.1627e-5, 8);
     expect(Math.abs(MAX_CONCENTRATION - 46240)).toBeLessThan(5);
   });

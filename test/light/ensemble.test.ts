@@ -66,7 +66,7 @@ function bestTopGap(wiring: Wiring, spectra: EnsembleMember[]): { gapEv: number;
   return { gapEv: g, efficiency: f(g) };
 }
 
-describe('yield-weighted efficiency Σ w·P_max / Σ w·P_in (PHYSICS.md §8)', () => {
+describe('yield-weighted efficiency Σ w·P_max / Σ w·P_in (docs/PHYSICS.md §8)', () => {
   const stacks = [
     ['2T 1.73/1.12', idealStack([1.73, 1.12], seriesWiring(2))],
     ['4T 1.73/1.12', idealStack([1.73, 1.12], independentWiring(2))],
@@ -137,7 +137,7 @@ describe('a red-shifted ensemble moves the 2T optimum, and 4T cares less', () =>
   const red2 = bestTopGap(seriesWiring(2), red);
   const red4 = bestTopGap(independentWiring(2), red);
 
-  test('AM1.5G optima on a 1.12 eV bottom: 2T 45.04 % at 1.729 eV, 4T 45.24 % near 1.81 eV (PHYSICS.md §5, independent reference)', () => {
+  test('AM1.5G optima on a 1.12 eV bottom: 2T 45.04 % at 1.729 eV, 4T 45.24 % near 1.81 eV (docs/PHYSICS.md §5, independent reference)', () => {
     expect(Math.abs(am2.gapEv - 1.729)).toBeLessThan(0.003);
     expect(Math.abs(am2.efficiency - 0.4504)).toBeLessThan(2e-4);
     expect(Math.abs(am4.efficiency - 0.4524)).toBeLessThan(2e-4);

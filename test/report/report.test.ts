@@ -51,7 +51,7 @@ describe('the example report', () => {
     expect(seconds).toBeLessThan(9);
   });
 
-  test('answers up front: 2T matches silicon at ≈1.73 eV (PHYSICS.md §5: 45.04 %), 4T runs to the perovskite window edge', () => {
+  test('answers up front: 2T matches silicon at ≈1.73 eV (docs/PHYSICS.md §5: 45.04 %), 4T runs to the perovskite window edge', () => {
     const series = summary.wirings.find((w: any) => w.wiring === 'series');
     const four = summary.wirings.find((w: any) => w.wiring === 'independent');
     expect(series.efficiency).toBeCloseTo(0.4504, 3);

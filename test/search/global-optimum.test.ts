@@ -12,7 +12,7 @@ const objective = (cells: number, wiring: 'series' | 'independent') =>
   new StepObjective({ cells, wiring, ere: Array(cells).fill(1), topAbsorptance: 1, spectra: [{ spectrum: s, weight: 1, tempK: 300 }] });
 const problem = (cells: number, over: Partial<SearchProblem> = {}): SearchProblem => ({ cells, spanEv: [0.5, 2.6], ranges: [], fixed: [], loss: 0.01, ...over });
 
-// Expected optima: PHYSICS.md §5 table and §2 (independent global grid search plus refinement);
+// Expected optima: docs/PHYSICS.md §5 table and §2 (independent global grid search plus refinement);
 // the same values are in test/fixtures/reference/reference.json "optima" (test/fixtures/reference/runner.py).
 describe('global optimum from scratch (within 2 meV and 0.01 % abs)', () => {
   test.each([
@@ -27,7 +27,7 @@ describe('global optimum from scratch (within 2 meV and 0.01 % abs)', () => {
     r.best.gapsEv.forEach((g, i) => expect(Math.abs(g - gaps[i])).toBeLessThan(0.002));
   });
 
-  test('2T on a fixed 1.12 eV bottom: 45.04 % at 1.729 eV (PHYSICS.md §5)', () => {
+  test('2T on a fixed 1.12 eV bottom: 45.04 % at 1.729 eV (docs/PHYSICS.md §5)', () => {
     const r = searchGaps(objective(2, 'series'), problem(2, { fixed: [undefined, 1.12] }), edges);
     expect(Math.abs(r.best.value - 0.4504)).toBeLessThan(1e-4);
     expect(Math.abs(r.best.gapsEv[0] - 1.729)).toBeLessThan(0.002);
@@ -35,7 +35,7 @@ describe('global optimum from scratch (within 2 meV and 0.01 % abs)', () => {
   });
 });
 
-describe('the narrow 2T basin at the O₂ A-band edge (PHYSICS.md §6 trap)', () => {
+describe('the narrow 2T basin at the O₂ A-band edge (docs/PHYSICS.md §6 trap)', () => {
   test('a 5 meV grid plus one local refinement from its best point lands in the 45.710 % basin', () => {
     const obj = objective(2, 'series');
     const axis = gapAxis(0.5, 2.6, 0.005);
@@ -57,13 +57,13 @@ describe('the narrow 2T basin at the O₂ A-band edge (PHYSICS.md §6 trap)', ()
 });
 
 describe('tolerance region', () => {
-  test('2T top gap on a 1.12 eV bottom keeps η within 1 % relative from 1.7105 to 1.752 eV (PHYSICS.md §6; reference runner gives 1.71009)', () => {
+  test('2T top gap on a 1.12 eV bottom keeps η within 1 % relative from 1.7105 to 1.752 eV (docs/PHYSICS.md §6; reference runner gives 1.71009)', () => {
     const r = searchGaps(objective(2, 'series'), problem(2, { fixed: [undefined, 1.12] }), edges);
     const t = r.tolerance.intervals[0];
     expect(Math.abs(t.lowEv - 1.7101)).toBeLessThan(0.001);
     expect(Math.abs(t.highEv - 1.752)).toBeLessThan(0.001);
   });
-  test('4T on a 1.12 eV bottom stays within 1 % from 1.686 eV to beyond 1.90 eV, max 45.24 % (PHYSICS.md §6)', () => {
+  test('4T on a 1.12 eV bottom stays within 1 % from 1.686 eV to beyond 1.90 eV, max 45.24 % (docs/PHYSICS.md §6)', () => {
     const r = searchGaps(objective(2, 'independent'), problem(2, { fixed: [undefined, 1.12] }), edges);
     expect(Math.abs(r.best.value - 0.4524)).toBeLessThan(1e-4);
     const t = r.tolerance.intervals[0];

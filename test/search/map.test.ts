@@ -39,7 +39,7 @@ describe('efficiency maps', () => {
     const obj = new StepObjective({ cells: 3, wiring: 'series', ere: [1, 1, 1], topAbsorptance: 1, spectra });
     const m = computeMap(obj, { x: uniformAxis(1.85, 1.95, 0.05), y: uniformAxis(1.32, 1.42, 0.05), xCell: 0, yCell: 1, fixed: [], bounds: [[0.5, 2.6], [0.5, 2.6], [0.5, 1.3]] });
     expect(m.profile).toBe(true);
-    // At 1.90/1.37 the best bottom is near 0.933 eV and the stack near 51.6 % (PHYSICS.md §5 3J row).
+    // At 1.90/1.37 the best bottom is near 0.933 eV and the stack near 51.6 % (docs/PHYSICS.md §5 3J row).
     const v = m.values[1 * 3 + 1];
     expect(Math.abs(v - 0.5162)).toBeLessThan(5e-4);
     expect(Math.abs(m.profileGaps[0][1 * 3 + 1] - 0.933)).toBeLessThan(0.01);

@@ -1,6 +1,6 @@
 /**
  * Invariants of the stack engine over random stacks (fast-check, fixed seed).
- * These follow from the physics of PHYSICS.md §3–5, not from reference
+ * These follow from the physics of docs/PHYSICS.md §3–5, not from reference
  * numbers: an independently connected stack is the unconstrained maximum of
  * the same cells, coupling that leaves J0 alone only adds photocurrent, a larger
  * dark current never helps, photons are conserved.
@@ -111,7 +111,7 @@ const etaArb = (n: number, min = 0) => fc.array(fc.double({ min, max: 1, noNaN: 
 
 // ----------------------------------------------------------------- properties
 
-describe('independent wiring is the unconstrained maximum (PHYSICS.md §5)', () => {
+describe('independent wiring is the unconstrained maximum (docs/PHYSICS.md §5)', () => {
   test('independent ≥ series and any mixed partition (no coupling)', () => {
     fc.assert(
       fc.property(
@@ -175,7 +175,7 @@ describe('independent wiring is the unconstrained maximum (PHYSICS.md §5)', () 
   });
 });
 
-describe('voltage-matched strings, m·V_top = n·V_bottom (PHYSICS.md §5)', () => {
+describe('voltage-matched strings, m·V_top = n·V_bottom (docs/PHYSICS.md §5)', () => {
   // Construction: pick the bottom gap, ERE, temperature and a ratio m:n; solve
   // for the top gap at which the two cells' own maximum-power voltages obey
   // m·V_mp,top = n·V_mp,bottom (bisection; V_mp,top rises with the top gap much
@@ -222,7 +222,7 @@ describe('voltage-matched strings, m·V_top = n·V_bottom (PHYSICS.md §5)', () 
     );
   });
 
-  // In-test reference for a two-cell string (the PHYSICS.md §5 definition, computed
+  // In-test reference for a two-cell string (the docs/PHYSICS.md §5 definition, computed
   // here from the diode equation J = J_ph − J0·(e^{V/V_t} − 1) with the engine's own
   // J_ph, J0 per cell): P = max_V [V·J_top(V) + (m/n)V·J_bot((m/n)V)] over
   // [0, Voc_top], by a 4000-point scan and golden section around the best point.
@@ -288,7 +288,7 @@ describe('voltage-matched strings, m·V_top = n·V_bottom (PHYSICS.md §5)', () 
   });
 });
 
-describe('empirical luminescent coupling, J0 unchanged (PHYSICS.md §4)', () => {
+describe('empirical luminescent coupling, J0 unchanged (docs/PHYSICS.md §4)', () => {
   test('never lowers a series stack', () => {
     fc.assert(
       fc.property(
@@ -334,7 +334,7 @@ describe('empirical luminescent coupling, J0 unchanged (PHYSICS.md §4)', () => 
     );
   });
 
-  test('coupling current is η·(J_ph,top − J_top) at the operating point (PHYSICS.md §4 equation)', () => {
+  test('coupling current is η·(J_ph,top − J_top) at the operating point (docs/PHYSICS.md §4 equation)', () => {
     fc.assert(
       fc.property(cellsArb(2, 3), fc.double({ min: 0, max: 1, noNaN: true }), (c, e) => {
         const n = c.gaps.length;
@@ -350,7 +350,7 @@ describe('empirical luminescent coupling, J0 unchanged (PHYSICS.md §4)', () => 
   });
 });
 
-describe('radiative-limit coupling, top J0 × (1 + n²) (PHYSICS.md §4)', () => {
+describe('radiative-limit coupling, top J0 × (1 + n²) (docs/PHYSICS.md §4)', () => {
   const nArb = fc.double({ min: 2, max: 4, noNaN: true });
 
   test('helps a strongly top-heavy 2T stack (J_gen,top ≥ 1.25·J_gen,bottom, ERE = 1): ≥ 1 % absolute', () => {
@@ -395,7 +395,7 @@ describe('radiative-limit coupling, top J0 × (1 + n²) (PHYSICS.md §4)', () =>
   });
 });
 
-describe('a larger dark current never helps: lowering any ERE never raises η (PHYSICS.md §3)', () => {
+describe('a larger dark current never helps: lowering any ERE never raises η (docs/PHYSICS.md §3)', () => {
   // Why it holds: V_i(J) = V_t·ln((J_ph,i − J)/J0_i + 1) falls as J0_i rises for
   // every J < J_ph,i (forward operation), so P(J) falls pointwise and so does its
   // maximum; in the radiative-limit coupling a lower ERE also lowers η_LC and
@@ -470,7 +470,7 @@ describe('a larger dark current never helps: lowering any ERE never raises η (P
   });
 });
 
-describe('photon bookkeeping: absorbed ≤ incident (PHYSICS.md §4 optics)', () => {
+describe('photon bookkeeping: absorbed ≤ incident (docs/PHYSICS.md §4 optics)', () => {
   // Sharp edges only (no Urbach tail, no table α reaching below the gap), so no cell absorbs below its gap.
   const alphaArb = fc.double({ min: 3, max: 6, noNaN: true }).map((x) => ({ kind: 'direct' as const, alpha0PerCm: 10 ** x, urbachEv: 0 }));
   const absorptanceArb: fc.Arbitrary<AbsorptanceModel> = fc.oneof(

@@ -1,7 +1,7 @@
 /**
- * Stack optics (PHYSICS.md §3–4): absorptance models, reciprocity between
+ * Stack optics (docs/PHYSICS.md §3–4): absorptance models, reciprocity between
  * photogeneration and emission, front reflectance and interlayer transmittance.
- * Expected relations are stated in PHYSICS.md §3–4 (Beer–Lambert
+ * Expected relations are stated in docs/PHYSICS.md §3–4 (Beer–Lambert
  * a = 1 − exp(−p·α·d); Lambertian a = 4n²αd/(1 + 4n²αd), Tiedje et al., IEEE
  * Trans. Electron Dev. 31 (1984) 711; φ_i = φ_0·(1 − R)·Π(1 − a_j)·T_j).
  */
@@ -41,7 +41,7 @@ const gapArb = fc.double({ min: 0.8, max: 2.2, noNaN: true });
 const thicknessArb = fc.double({ min: 10, max: 3000, noNaN: true });
 const alpha0Arb = fc.double({ min: 3, max: 5.5, noNaN: true }).map((x) => 10 ** x);
 
-describe('Beer–Lambert single vs double pass (PHYSICS.md §3: a = 1 − exp(−p·α·d))', () => {
+describe('Beer–Lambert single vs double pass (docs/PHYSICS.md §3: a = 1 − exp(−p·α·d))', () => {
   test('absorptance follows the formula with α = α0·√(E − E_g) and is 0 below the gap', () => {
     const gap = 1.5;
     const a0 = 1e5; // cm⁻¹ at 1 eV above the gap
@@ -82,7 +82,7 @@ describe('Beer–Lambert single vs double pass (PHYSICS.md §3: a = 1 − exp(�
 describe('Lambertian ≥ double pass ≥ single pass for the same film', () => {
   // Pointwise, 4n²y/(1 + 4n²y) ≥ 1 − e^{−2y} (y = αd) ⇔ 1 + 4n²y ≥ e^{2y}; for n ≥ 3 this holds
   // for all y ≤ 2 (at y = 2: 73 ≥ 54.6, and e^{2y} is convex). Beyond y ≈ 2.3 (n = 3.5) the
-  // simple Lambertian expression of PHYSICS.md §3 falls below a double pass; that is a
+  // simple Lambertian expression of docs/PHYSICS.md §3 falls below a double pass; that is a
   // property of the formula, not of the engine, so films are drawn with α·d ≤ 2 over
   // the whole AM1.5G range (E ≤ 4.43 eV).
   const weakFilmArb = fc
@@ -119,7 +119,7 @@ describe('Lambertian ≥ double pass ≥ single pass for the same film', () => {
   });
 });
 
-describe('thick films approach the step absorber (PHYSICS.md §3)', () => {
+describe('thick films approach the step absorber (docs/PHYSICS.md §3)', () => {
   test.each<[string, (d: number) => AbsorptanceModel]>([
     ['Beer–Lambert single pass', (d) => bl(1, d, 1e5)],
     ['Beer–Lambert double pass', (d) => bl(2, d, 1e5)],
@@ -159,7 +159,7 @@ describe('thick films approach the step absorber (PHYSICS.md §3)', () => {
   });
 });
 
-describe('reciprocity: a thinner film lowers both J_gen and J0 (PHYSICS.md §3)', () => {
+describe('reciprocity: a thinner film lowers both J_gen and J0 (docs/PHYSICS.md §3)', () => {
   const modelArb = fc.oneof(
     fc.constantFrom<1 | 2>(1, 2).map((p) => (d: number, a0: number) => bl(p, d, a0)),
     fc.double({ min: 1, max: 4, noNaN: true }).map((n) => (d: number, a0: number) => lambertian(n, d, a0)),
@@ -198,7 +198,7 @@ const stackGapsArb = fc
     return g;
   });
 
-describe('front reflectance R (PHYSICS.md §4: φ_i = φ_0·(1 − R)·…)', () => {
+describe('front reflectance R (docs/PHYSICS.md §4: φ_i = φ_0·(1 − R)·…)', () => {
   test('scales every step cell’s photocurrent by (1 − R)', () => {
     fc.assert(
       fc.property(stackGapsArb, fc.double({ min: 0, max: 0.95, noNaN: true }), (gaps, r) => {
@@ -223,7 +223,7 @@ describe('front reflectance R (PHYSICS.md §4: φ_i = φ_0·(1 − R)·…)', ()
   });
 });
 
-describe('interlayer transmittance T (PHYSICS.md §4: φ_i = φ_0·…·Π T_j)', () => {
+describe('interlayer transmittance T (docs/PHYSICS.md §4: φ_i = φ_0·…·Π T_j)', () => {
   test('T below cell k scales the photocurrent of every cell below k by T and leaves the cells above alone', () => {
     fc.assert(
       fc.property(

@@ -1,6 +1,6 @@
 /**
  * The stack engine against values computed outside the project:
- *  - the check tables of PHYSICS.md §4 and §5 (independent numpy/scipy
+ *  - the check tables of docs/PHYSICS.md §4 and §5 (independent numpy/scipy
  *    implementation, global grid search plus refinement), and
  *  - every case of test/fixtures/reference/reference.json that the engine can
  *    express (independent reference: test/fixtures/reference/runner.py).
@@ -118,7 +118,7 @@ const rel = (got: number, want: number): number => Math.abs(got / want - 1);
 const ideal = (gaps: number[], wiring: Wiring, over: Partial<StackSpec> = {}): StackResult => evaluateStack(idealStack(gaps, wiring, over), spectrum);
 const vm = (m: number, n: number): Wiring => ({ kind: 'voltage-matched', label: `vm:${m}:${n}`, m, n, groups: [[0], [1]] });
 
-describe('PHYSICS.md §5 check table (independent reference: global grid search + refinement), within 0.02 % abs', () => {
+describe('docs/PHYSICS.md §5 check table (independent reference: global grid search + refinement), within 0.02 % abs', () => {
   const TOL = 2e-4;
   test.each<[string, number[], Wiring, number]>([
     ['2T global optimum', [1.6325, 0.9601], seriesWiring(2), 0.45727],
@@ -137,7 +137,7 @@ describe('PHYSICS.md §5 check table (independent reference: global grid search 
     expect(Math.abs(ideal([1.8, 1.12], vm(1, 2)).efficiency - 0.4419)).toBeLessThan(TOL);
   });
 
-  test('3T with ideal independent loads at 1.73/0.94 eV equals 4T, 46.06 % (PHYSICS.md §5: "ideal independent loads reach the 4T limit")', () => {
+  test('3T with ideal independent loads at 1.73/0.94 eV equals 4T, 46.06 % (docs/PHYSICS.md §5: "ideal independent loads reach the 4T limit")', () => {
     const threeT: Wiring = { kind: 'groups', label: '3T', groups: [[0], [1]] };
     const r3 = ideal([1.73, 0.94], threeT);
     const r4 = ideal([1.73, 0.94], independentWiring(2));
@@ -145,7 +145,7 @@ describe('PHYSICS.md §5 check table (independent reference: global grid search 
     expect(Math.abs(r3.efficiency - 0.4606)).toBeLessThan(TOL);
   });
 
-  test('the 2T global optimum beats the runner-up basin (PHYSICS.md §6: 45.727 % vs 45.710 %)', () => {
+  test('the 2T global optimum beats the runner-up basin (docs/PHYSICS.md §6: 45.727 % vs 45.710 %)', () => {
     const a = ideal([1.6325, 0.9601], seriesWiring(2)).efficiency;
     const b = ideal([1.598, 0.935], seriesWiring(2)).efficiency;
     expect(a - b).toBeGreaterThan(1e-4);
@@ -153,7 +153,7 @@ describe('PHYSICS.md §5 check table (independent reference: global grid search 
   });
 });
 
-describe('PHYSICS.md §4 luminescent-coupling check table (independent reference), within 0.02 % abs', () => {
+describe('docs/PHYSICS.md §4 luminescent-coupling check table (independent reference), within 0.02 % abs', () => {
   const TOL = 2e-4;
   const rows: [number[], number, number, number, number, number][] = [
     // gaps, isolated, η_LC 0.5, η_LC 0.9, radiative n = 3.5, 4T no coupling

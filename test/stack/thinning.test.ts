@@ -1,9 +1,9 @@
 /**
- * Thinning the top cell of a 2T stack whose top gap is too low (PHYSICS.md §4):
+ * Thinning the top cell of a 2T stack whose top gap is too low (docs/PHYSICS.md §4):
  * a partly transparent top cell passes part of its band down, so a top-heavy
  * series stack can be current-matched. Expected values: reference.json
  * "stacks" (A_top = 0.8, 0.9) and "top_absorptance_optimum" (independent
- * reference: test/fixtures/reference/runner.py), and PHYSICS.md §4 table for the
+ * reference: test/fixtures/reference/runner.py), and docs/PHYSICS.md §4 table for the
  * fully absorbing case.
  */
 import { readFileSync } from 'node:fs';
@@ -56,7 +56,7 @@ describe('thinning the top cell of a 2T stack with a too-low top gap raises η',
     const as = [1, 0.97, 0.94, 0.9, 0.86, 0.82];
     const etas = as.map((a) => etaAt([1.55, 1.12], a));
     for (let i = 1; i < etas.length; i++) expect(etas[i]).toBeGreaterThan(etas[i - 1]);
-    // end points: PHYSICS.md §4 table (isolated 2T, 32.54 %) and reference.json (A = 0.9: 37.697 %)
+    // end points: docs/PHYSICS.md §4 table (isolated 2T, 32.54 %) and reference.json (A = 0.9: 37.697 %)
     expect(Math.abs(etas[0] - 0.3254)).toBeLessThan(2e-4);
     expect(Math.abs(etaAt([1.55, 1.12], 0.9) - 0.3769709940675342)).toBeLessThan(1e-7);
   });
@@ -105,7 +105,7 @@ describe('thinning by thickness: a Beer–Lambert top film (double pass, α0 = 1
     s.subcells[0].absorptance = { kind: 'beer-lambert', passes: 2, thicknessNm, alpha: { kind: 'direct', alpha0PerCm: 1e5, urbachEv: 0 } };
     return evaluateStack(s, spectrum).efficiency;
   }
-  test('a thick film reproduces the fully absorbing 2T value (PHYSICS.md §4: 32.54 %), a film of optimal thickness beats it by > 5 % abs', () => {
+  test('a thick film reproduces the fully absorbing 2T value (docs/PHYSICS.md §4: 32.54 %), a film of optimal thickness beats it by > 5 % abs', () => {
     expect(Math.abs(etaFilm(1e5) - 0.3254)).toBeLessThan(2e-4);
     const best = goldenMax((lnD) => etaFilm(Math.exp(lnD)), Math.log(30), Math.log(3000));
     const dBest = Math.exp(best.x);

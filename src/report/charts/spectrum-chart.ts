@@ -1,6 +1,6 @@
 /**
  * The light with each subcell's absorbed band: subcell i takes the photons
- * between its own gap and the gap above, [E_g,i, E_g,i−1) (PHYSICS.md §4,
+ * between its own gap and the gap above, [E_g,i, E_g,i−1) (docs/PHYSICS.md §4,
  * step absorbers); what no subcell takes is left grey.
  */
 import type { Spectrum } from '../../light/spectrum.js';
