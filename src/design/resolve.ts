@@ -10,7 +10,7 @@ import { UserError } from '../errors.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
-import { gapAtTemperature, gapReach, getFamily, type AbsorberFamily } from '../materials/index.js';
+import { gapAtTemperature, gapReach, getFamily, parseUserFamily, type AbsorberFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { Coupling, StackSpec, Wiring } from '../stack/model.js';
 import { independentWiring, seriesWiring } from '../stack/model.js';
@@ -105,7 +105,7 @@ export function constraintRangeEv(c: SubcellConstraint, tempK: number, spanEv: [
 
 const KIND_KEYS = ['free', 'range', 'gap', 'material'] as const;
 
-function resolveSubcell(src: Located, e: SubcellEntry, i: number, tempK: number): DesignSubcell {
+function resolveSubcell(src: Located, e: SubcellEntry, i: number, tempK: number, userFamilies: readonly AbsorberFamily[]): DesignSubcell {
   const here: FieldPath = ['subcells', i];
   const kinds = KIND_KEYS.filter((k) => e[k] !== undefined);
   if (kinds.length > 1) throw designError(src, [...here, kinds[1]], `give one of free, range, gap or material, not ${kinds.join(' and ')}`, true);
@@ -120,7 +120,7 @@ function resolveSubcell(src: Located, e: SubcellEntry, i: number, tempK: number)
   } else if (e.gap !== undefined) {
     constraint = { kind: 'fixed', gapEv: e.gap };
   } else if (e.material !== undefined) {
-    const family: AbsorberFamily = at(src, [...here, 'material'], () => getFamily(e.material as string));
+    const family: AbsorberFamily = at(src, [...here, 'material'], () => getFamily(e.material as string, userFamilies));
     constraint = { kind: 'material', family, fullRange: Boolean(e.full_range) };
   }
   const ere = e.voc_loss !== undefined ? ereFromVocLoss(e.voc_loss, tempK) : e.ere ?? 1;
@@ -225,7 +225,20 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
   const tempK = f.temperature ?? DESIGN_DEFAULTS.temperatureK;
   const span: [number, number] = f.search?.span ? [f.search.span[0], f.search.span[1]] : [...DESIGN_DEFAULTS.spanEv];
   if (!(span[0] < span[1])) throw designError(src, ['search', 'span'], `low end must be below high end, got [${span[0]}, ${span[1]}]`);
-  const cells = f.subcells.map((e, i) => resolveSubcell(src, e, i, tempK));
+  const userFamilies = (f.materials ?? []).map((m, k) => {
+    try {
+      return parseUserFamily(m, `materials[${k}]`);
+    } catch (err) {
+      if (err instanceof UserError) throw designError(src, ['materials', k], err.message.replace(/^materials\[\d+\]: /, ''));
+      throw err;
+    }
+  });
+  const ids = new Set<string>();
+  userFamilies.forEach((fam, k) => {
+    if (ids.has(fam.id)) throw designError(src, ['materials', k, 'id'], `"${fam.id}" is defined twice`);
+    ids.add(fam.id);
+  });
+  const cells = f.subcells.map((e, i) => resolveSubcell(src, e, i, tempK, userFamilies));
   checkFeasible(src, f, cells, tempK, span);
   const n = cells.length;
   const o = f.optics ?? {};

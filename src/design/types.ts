@@ -49,6 +49,8 @@ export interface DesignFile {
   search?: { span?: [number, number]; step?: number };
   map?: { step?: number; pairs?: MapPairEntry[] };
   tolerance?: { loss?: number };
+  /** User-defined absorber families (bowing form), usable as subcell materials by id. */
+  materials?: Record<string, unknown>[];
 }
 
 export interface LabelledSpectrum extends WeightedSpectrum {
