@@ -8,7 +8,7 @@ import { parseUnitDeclaration } from '../light/table-file.js';
 import type { Spectrum } from '../light/spectrum.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
 import type { AbsorptanceModel, Coupling, StackSpec, SubcellSpec, Wiring } from '../stack/model.js';
-import { independentWiring, seriesWiring } from '../stack/model.js';
+import { parseWiring } from '../stack/wiring-text.js';
 
 /** A finite number from an option value, or a UserError naming the option. */
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -69,21 +69,9 @@ export function tempFromArgs(value: unknown): number {
   return t;
 }
 
-/** Wiring from --wiring: series | independent | 3t | vm:M:N. */
+/** Wiring from --wiring (see src/stack/wiring-text.ts for the forms). */
 export function wiringFromArgs(value: unknown, cells: number): Wiring {
-  const text = String(value ?? 'series').trim().toLowerCase();
-  if (text === 'series' || text === '2t') return seriesWiring(cells);
-  if (text === 'independent' || text === '4t') return { ...independentWiring(cells), label: 'independent' };
-  if (text === '3t') {
-    if (cells !== 2) throw new UserError('--wiring 3t needs exactly 2 subcells (a shared middle contact); use a design file for other groupings');
-    return { kind: 'groups', label: '3t', groups: [[0], [1]] };
-  }
-  const vm = /^vm:(\d+):(\d+)$/.exec(text);
-  if (vm) {
-    if (cells !== 2) throw new UserError('--wiring vm:M:N needs exactly 2 subcells; use a design file for grouped strings');
-    return { kind: 'voltage-matched', label: text, m: Number(vm[1]), n: Number(vm[2]), groups: [[0], [1]] };
-  }
-  throw new UserError(`--wiring must be series, independent, 3t or vm:M:N (e.g. vm:1:2), got "${String(value)}"`);
+  return parseWiring(String(value ?? 'series'), cells);
 }
 
 /** Coupling from --lc: a value or list of η (empirical) or "radiative[:n]". */

@@ -13,7 +13,7 @@ import { ereFromVocLoss } from '../junction/radiative.js';
 import { gapAtTemperature, gapReach, getFamily, parseUserFamily, type AbsorberFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { Coupling, StackSpec, Wiring } from '../stack/model.js';
-import { independentWiring, seriesWiring } from '../stack/model.js';
+import { parseWiring } from '../stack/wiring-text.js';
 import { designError, type DesignSource, type FieldPath } from './source.js';
 import type { Design, DesignFile, DesignLight, DesignMapPair, DesignSubcell, DesignWiring, LabelledSpectrum, SpectrumEntry, SubcellEntry } from './types.js';
 
@@ -68,7 +68,7 @@ async function resolveLight(src: Located, f: DesignFile, tempK: number, spanEv: 
     ];
     const spectra = e.members.map((m) => ({ spectrum: m.spectrum, weight: m.weight, tempK: m.tempK, label: m.label }));
     return {
-      light: { kind: 'ensemble', name: e.name, sha256: e.sha256, source: e.source, summaryLines, warnings: s.warnings, request: f.ensemble },
+      light: { kind: 'ensemble', name: e.name, sha256: e.sha256, source: e.source, summaryLines, summary: s, warnings: s.warnings, request: f.ensemble },
       spectra,
     };
   }
@@ -178,15 +178,7 @@ function resolveCoupling(src: Located, lc: NonNullable<DesignFile['optics']>['lc
 const WIRING_ALIASES: Record<string, string> = { '2t': 'series', '4t': 'independent' };
 
 function resolveWiring(src: Located, text: string, k: number, n: number): Wiring {
-  const key = WIRING_ALIASES[text] ?? text;
-  const path: FieldPath = ['wirings', k];
-  if (key === 'series') return seriesWiring(n);
-  if (key === 'independent') return { ...independentWiring(n), label: 'independent' };
-  if (n !== 2) throw designError(src, path, `"${text}" needs exactly 2 subcells (a shared middle contact), the design has ${n}`);
-  if (key === '3t') return { kind: 'groups', label: '3t', groups: [[0], [1]] };
-  const m = /^vm:(\d+):(\d+)$/.exec(key);
-  if (!m) throw designError(src, path, `"${text}" is not a wiring; use series, independent, 3t or vm:M:N`);
-  return { kind: 'voltage-matched', label: key, m: Number(m[1]), n: Number(m[2]), groups: [[0], [1]] };
+  return at(src, ['wirings', k], () => parseWiring(WIRING_ALIASES[text] ?? text, n, 'wiring'));
 }
 
 function resolvePairs(src: Located, f: DesignFile, cells: DesignSubcell[], tempK: number, span: [number, number]): DesignMapPair[] {

@@ -162,6 +162,16 @@ export function operateGroups(el: StackElectrical, groups: number[][]): Operatio
  * Writes the group's current into `currents`, its voltages into `voltages`.
  */
 function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: number, currents: Float64Array, jph: Float64Array, voltages: Float64Array): number {
+  if (group.length === 1) {
+    // One cell: its photocurrent depends only on the cells above, so J(V) is the diode law itself.
+    const i = group[0];
+    cascadePhotocurrents(el, currents, jph);
+    const j = jph[i] - el.j0Am2[i] * Math.expm1(voltageV / el.vt);
+    currents[i] = j;
+    voltages[i] = voltageV;
+    cascadePhotocurrents(el, currents, jph);
+    return j;
+  }
   const m = group.length;
   const r = new Float64Array(m);
   const q = new Float64Array(m);
@@ -200,11 +210,28 @@ function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: n
   // NaN (a cell pushed past its reverse-bias limit by rounding) counts as −∞.
   const below = (z: number) => !(volts(deltaOf(z)) >= voltageV);
   for (let k = 0; k < 200 && below(zHi); k++) zHi += 1;
+  // Newton on V(z) − V, kept inside the bracket; bisection where a step would leave it.
+  let z = zHi;
   for (let it = 0; it < 200 && zHi - zLo > 1e-14 * Math.max(1, Math.abs(zHi)); it++) {
-    const mid = 0.5 * (zLo + zHi);
-    if (below(mid)) zLo = mid;
-    else zHi = mid;
+    const e = Math.exp(z);
+    const delta = dMin + e;
+    let v = 0;
+    let dv = 0;
+    group.forEach((i, k) => {
+      const w = r[k] + q[k] * delta + el.j0Am2[i];
+      v += el.vt * Math.log(w / el.j0Am2[i]);
+      dv += (el.vt * q[k] * e) / w;
+    });
+    if (!(v >= voltageV)) zLo = z;
+    else zHi = z;
+    let next = z - (v - voltageV) / dv;
+    if (!(next > zLo && next < zHi) || !Number.isFinite(next)) next = 0.5 * (zLo + zHi);
+    const step = next - z;
+    z = next;
+    if (Math.abs(step) < 1e-15 * Math.max(1, Math.abs(z))) break;
   }
+  // The converged iterate, unless rounding left a cell voltage undefined there.
+  zHi = Number.isFinite(volts(deltaOf(z))) ? z : zHi;
   // Report the upper end of the bracket, where every cell voltage is finite.
   const delta = deltaOf(zHi);
   volts(delta, voltages);
@@ -252,7 +279,7 @@ export function operateVoltageMatched(el: StackElectrical, upper: number[], lowe
   cascadePhotocurrents(el, currents, jph);
   let vocUpper = 0;
   for (const i of upper) vocUpper += cellVoltage(jph[i], 0, el.j0Am2[i], el.vt);
-  const v = maximiseScan(power, 0, vocUpper);
+  const v = maximiseScan(power, 0, vocUpper, 24, 1e-11);
   const p = power(v);
   return { currentsAm2: currents, voltagesV: voltages, jphAm2: jph, powerWm2: p };
 }
