@@ -153,7 +153,10 @@ function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: numb
 
 /** Run the global search in this thread. */
 export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = []): SearchResult {
-  const prep = prepareSearch(obj, p, edgeEnergiesEv);
+  return searchPrepared(obj, p, prepareSearch(obj, p, edgeEnergiesEv));
+}
+
+function searchPrepared(obj: GapObjective, p: SearchProblem, prep: PreparedSearch, incumbent?: number): SearchResult {
   let evaluations = 0;
   const value = (gaps: number[]) => {
     evaluations++;
@@ -161,27 +164,32 @@ export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: 
   };
   const { axis, ranges, margin } = prep;
   const en = prep.fast
-    ? enumerateStep(obj as StepObjective, { axis, ranges, margin, progress: p.progress, initialBest: coarseIncumbent(obj as StepObjective, axis, ranges) })
+    ? enumerateStep(obj as StepObjective, { axis, ranges, margin, progress: p.progress, initialBest: incumbent ?? coarseIncumbent(obj as StepObjective, axis, ranges) })
     : enumerateGeneric(value, prep.n, axis, ranges, margin, p.progress);
   return finishSearch(obj, p, prep, en, evaluations);
 }
 
-/** Work below which a second thread costs more than it saves (coarse combinations). */
-export const PARALLEL_MIN_COMBINATIONS = 2e5;
+/**
+ * Threads pay for their start-up (about 0.1–0.2 s here) only on long
+ * enumerations: use them when the coarse pass, a few times cheaper than the
+ * full one, already took this long [s].
+ */
+export const PARALLEL_MIN_COARSE_SECONDS = 0.08;
 
 /**
  * The global search with the enumeration shared across worker threads (a
- * piscina pool). Each worker takes interleaved values of the top gap and
- * starts from the best of a quick coarser pass, so pruning bites at once.
+ * piscina pool) when it is long enough to gain. Each worker takes
+ * interleaved values of the top gap and starts from the best of the coarser
+ * pass, so pruning bites at once. The answer does not depend on the threads.
  */
-export async function searchGapsParallel(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = [], threads = 2): Promise<SearchResult> {
+export async function searchGapsParallel(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = [], threads = 2, minCoarseSeconds = PARALLEL_MIN_COARSE_SECONDS): Promise<SearchResult> {
   const prep = prepareSearch(obj, p, edgeEnergiesEv);
-  const [lo0, hi0] = prep.ranges[0];
-  const width = Math.max(...prep.ranges.map(([a, b]) => b - a + 1));
-  const estimate = width ** prep.freeIdx.length / Math.max(1, factorial(prep.freeIdx.length));
-  if (!prep.fast || threads < 2 || estimate < PARALLEL_MIN_COMBINATIONS) return searchGaps(obj, p, edgeEnergiesEv);
+  if (!prep.fast || threads < 2) return searchPrepared(obj, p, prep);
   const so = obj as StepObjective;
+  const t0 = performance.now();
   const incumbent = coarseIncumbent(so, prep.axis, prep.ranges);
+  if ((performance.now() - t0) / 1000 < minCoarseSeconds) return searchPrepared(obj, p, prep, incumbent);
+  const [lo0, hi0] = prep.ranges[0];
   const tops: number[][] = Array.from({ length: threads }, () => []);
   for (let g = hi0, k = 0; g >= lo0; g--, k++) tops[k % threads].push(g);
   const { runEnumerationTasks } = await import('./pool.js');

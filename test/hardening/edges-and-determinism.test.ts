@@ -42,3 +42,22 @@ describe('determinism', () => {
     expect(strip(two.stdout)).toEqual(strip(one.stdout));
   });
 });
+
+describe('worker threads', () => {
+  test('the enumeration shared over two worker threads gives the same answer as one thread', async () => {
+    // Workers load compiled JavaScript, so this test drives the build in dist/ (npm test builds it first).
+    const dist = '../../dist/';
+    const { searchGaps, searchGapsParallel, bandEdgeEnergiesEv } = await import(`${dist}search/optimize.js`);
+    const { StepObjective } = await import(`${dist}search/step-objective.js`);
+    const { am15g: load } = await import(`${dist}light/sources.js`);
+    const s = load();
+    const obj = new StepObjective({ cells: 3, wiring: 'series', ere: [1, 1, 1], topAbsorptance: 1, spectra: [{ spectrum: s, weight: 1, tempK: 300 }] });
+    const problem = { cells: 3, spanEv: [0.5, 2.6], ranges: [], fixed: [], loss: 0.01 };
+    const edges = bandEdgeEnergiesEv(s, 0.5, 2.6);
+    const one = searchGaps(obj, problem, edges);
+    const two = await searchGapsParallel(obj, problem, edges, 2, 0);
+    expect(two.best).toEqual(one.best);
+    expect(two.basins).toEqual(one.basins);
+    expect(two.tolerance).toEqual(one.tolerance);
+  });
+});
