@@ -2,6 +2,7 @@
  * A design file as written (keys in snake_case, as in
  * schema/design.schema.json) and the resolved design the report runs on.
  */
+import type { EnsembleSummary } from '../light/ensemble.js';
 import type { Spectrum } from '../light/spectrum.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { WeightedSpectrum } from '../search/step-objective.js';
@@ -67,6 +68,8 @@ export type DesignLight =
       source: string;
       /** Summary lines for the report (members, irradiance, APE, warnings). */
       summaryLines: string[];
+      /** The ensemble's summary (irradiance, APE histogram, ranges), behind summaryLines. */
+      summary: EnsembleSummary;
       warnings: string[];
       request: string;
     };

@@ -15,6 +15,7 @@ import { evaluateStack, type StackResult } from '../stack/evaluate.js';
 import type { StackSpec } from '../stack/model.js';
 import { stackOptics } from '../stack/optics.js';
 import { currentAtVoltageAm2, voltageAtCurrentV } from '../junction/diode.js';
+import { compareWithReference, type EnsembleComparison } from './ensemble-compare.js';
 
 /** Sensitivity slices reach this far either side of the optimum [eV]. */
 export const SENSITIVITY_HALF_WIDTH_EV = 0.15;
@@ -90,6 +91,8 @@ export interface WiringOutcome {
 export interface ReportData {
   design: Design;
   outcomes: WiringOutcome[];
+  /** Under an ensemble: every wiring's answer set against the same question under AM1.5G; else null. */
+  comparison: EnsembleComparison | null;
 }
 
 const round = (x: number, step: number, dir: 'up' | 'down') => (dir === 'up' ? Math.ceil(x / step - 1e-9) * step : Math.floor(x / step + 1e-9) * step);
@@ -236,7 +239,7 @@ function jvCurves(design: Design, spec: StackSpec, r: StackResult): JvOutcome {
   return { subcells, stack, operating, stackMpp };
 }
 
-/** Run every wiring of a design: search, detail at the optimum, curves and maps. */
+/** Run every wiring of a design: search, detail at the optimum, curves and maps; under an ensemble, the AM1.5G comparison. */
 export function computeReport(design: Design): ReportData {
   const searches = design.wirings.map((w, k) => {
     try {
@@ -271,7 +274,7 @@ export function computeReport(design: Design): ReportData {
       maps: design.pairs.map((p) => mapFor(design, w, d, p, optimaAll)),
     };
   });
-  return { design, outcomes };
+  return { design, outcomes, comparison: compareWithReference(design, outcomes) };
 }
 
 /** Wavelength [nm] of a photon energy [eV]. */
