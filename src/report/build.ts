@@ -15,7 +15,28 @@ import { mapChartSvg } from './charts/map-chart.js';
 import { spectrumChartData, spectrumChartSvg } from './charts/spectrum-chart.js';
 import { jvChartSvg } from './charts/jv-chart.js';
 import { sensitivityChartSvg } from './charts/sensitivity-chart.js';
-import { answerRows, assumptionList, CAUTION, fx, generatedLine, pc, provenanceList, questionText, subcellTable, verdict, wiringTitle } from './view.js';
+import { compareChartSvg, compareColourRange } from './charts/compare-chart.js';
+import { apeChartSvg } from './charts/ape-chart.js';
+import type { ComparedMap, EnsembleComparison, WiringComparison } from './ensemble-compare.js';
+import {
+  answerRows,
+  assumptionList,
+  CAUTION,
+  comparisonIntro,
+  ensembleIdentity,
+  fx,
+  generatedLine,
+  lightSummaryRows,
+  lossText,
+  pc,
+  provenanceList,
+  questionText,
+  shiftTable,
+  subcellTable,
+  verdict,
+  wiringPatternText,
+  wiringTitle,
+} from './view.js';
 
 export const TEMPLATE_PATH = fileURLToPath(new URL('../../templates/report.hbs', import.meta.url));
 const PACKAGE_JSON = fileURLToPath(new URL('../../package.json', import.meta.url));
@@ -152,6 +173,179 @@ function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv
   return { spectrum, jv, sensitivity };
 }
 
+const grid2d = (m: { x: Float64Array; y: Float64Array; values: Float64Array }) =>
+  Array.from({ length: m.y.length }, (_, iy) => Array.from({ length: m.x.length }, (_, ix) => (Number.isNaN(m.values[iy * m.x.length + ix]) ? null : r8(m.values[iy * m.x.length + ix]))));
+
+function pointJson(p: WiringComparison['referenceOptimal']) {
+  return { gaps_ev: p.gapsEv.map(r8), am15g_efficiency: r8(p.referenceEfficiency), yield_efficiency: r8(p.yieldEfficiency) };
+}
+
+/** The comparison of one wiring, machine-readable (summary.json and the compare charts' JSON). */
+function wiringComparisonJson(w: WiringComparison): Record<string, unknown> {
+  return {
+    wiring: w.outcome.wiring.key,
+    am15g_optimum: pointJson(w.referenceOptimal),
+    ensemble_optimum: pointJson(w.ensembleOptimal),
+    gap_shift_mev: w.shiftEv.map((d) => r6(d * 1000)),
+    loss_abs: r8(w.lossAbs),
+    loss_rel: r8(w.lossRel),
+    loss_convention: 'yield-weighted η of the ensemble optimum minus that of the AM1.5G optimum (absolute), and the same over the ensemble optimum (relative)',
+    am15g_design_rating_to_yield_drop: r8(w.referenceOptimal.referenceEfficiency - w.referenceOptimal.yieldEfficiency),
+    current_mismatch: w.mismatch
+      ? { am15g: r8(w.mismatch.reference), ensemble_min: r8(w.mismatch.min), ensemble_max: r8(w.mismatch.max), ensemble_energy_weighted_mean: r8(w.mismatch.energyWeightedMean), convention: 'largest over smallest subcell J_gen, minus 1, at the AM1.5G-optimal gaps' }
+      : null,
+  };
+}
+
+function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparison, cm: ComparedMap): { chart: Chart; caption: string; heading: string } {
+  const d = data.design;
+  const m = cm.ensemble;
+  const { xCell, yCell } = m.pair;
+  const id = `compare-${w.outcome.wiring.slug}-${xCell + 1}-${yCell + 1}`;
+  const a = w.referenceOptimal;
+  const b = w.ensembleOptimal;
+  const svg = compareChartSvg({
+    id,
+    wiringLabel: wiringTitle(w.outcome.wiring.key),
+    xLabel: `gap of ${subcellLabel(d, xCell)} [eV]`,
+    yLabel: `gap of ${subcellLabel(d, yCell)} [eV]`,
+    marks: m.marks,
+    loss: d.loss,
+    panels: [
+      {
+        light: 'am1.5g',
+        title: 'η under AM1.5G',
+        map: cm.reference,
+        optimum: cm.referenceOptimum,
+        other: { x: b.gapsEv[xCell], y: b.gapsEv[yCell], value: b.referenceEfficiency },
+        threshold: cm.referenceThreshold,
+        optimumName: 'AM1.5G optimum',
+        otherName: 'ensemble optimum',
+      },
+      {
+        light: 'ensemble',
+        title: `Yield-weighted η over ${c.name}`,
+        map: m.map,
+        optimum: m.optimum,
+        other: { x: a.gapsEv[xCell], y: a.gapsEv[yCell], value: a.yieldEfficiency },
+        threshold: m.threshold,
+        optimumName: 'ensemble optimum',
+        otherName: 'AM1.5G optimum',
+      },
+    ],
+  });
+  const range = compareColourRange([cm.reference, m.map]);
+  const mm = m.map;
+  const nx = mm.x.length;
+  const profHead = m.profiled.flatMap((k) => [`gap${k + 1}_ev_profile_am15g`, `gap${k + 1}_ev_profile_ensemble`]);
+  const rows = [
+    '# gapstack comparison map: detailed-balance efficiency under AM1.5G and yield-weighted efficiency over the ensemble [-] on the same gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
+    [`gap${xCell + 1}_ev`, `gap${yCell + 1}_ev`, ...profHead, 'efficiency_am15g', 'yield_efficiency'].join(','),
+  ];
+  for (let iy = 0; iy < mm.y.length; iy++) {
+    for (let ix = 0; ix < nx; ix++) {
+      const k = iy * nx + ix;
+      const u = cm.reference.values[k];
+      const v = mm.values[k];
+      if (Number.isNaN(u) && Number.isNaN(v)) continue;
+      const prof = m.profiled.flatMap((_, j) => [cm.reference.profileGaps[j][k].toFixed(5), mm.profileGaps[j][k].toFixed(5)]);
+      rows.push([mm.x[ix].toFixed(5), mm.y[iy].toFixed(5), ...prof, Number.isNaN(u) ? '' : u.toFixed(8), Number.isNaN(v) ? '' : v.toFixed(8)].join(','));
+    }
+  }
+  const json = {
+    ...wiringComparisonJson(w),
+    x_subcell: xCell + 1,
+    y_subcell: yCell + 1,
+    x_ev: Array.from(mm.x),
+    y_ev: Array.from(mm.y),
+    efficiency_am15g: grid2d(cm.reference),
+    yield_efficiency: grid2d(mm),
+    layout: 'value[iy][ix] is at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
+    profile_subcells: m.profiled.map((k) => k + 1),
+    colour_range_percent: { low: r6(range.lo), high: r6(range.hi) },
+    am15g_tolerance_threshold: r8(cm.referenceThreshold),
+    yield_tolerance_threshold: r8(m.threshold),
+    ensemble: c.name,
+    reference_spectrum: c.referenceSpectrum.name,
+    step_ev: m.stepEv,
+    caution: CAUTION,
+  };
+  const shift = w.shiftEv.map((s) => `${(s * 1000).toFixed(1)}`).join(' / ');
+  const caption =
+    `Left: efficiency under AM1.5G; right: yield-weighted efficiency over ${c.name}; gaps of subcells ${xCell + 1} (x) and ${yCell + 1} (y) on a ${fx(m.stepEv * 1000, 0)} meV grid, one colour scale (${fx(range.lo, 1)}–${fx(range.hi, 1)} %) for both. ` +
+    `Each panel's filled marker is its own optimum (AM1.5G ${pc(cm.referenceOptimum.value)} at ${fx(cm.referenceOptimum.x, 3)} / ${fx(cm.referenceOptimum.y, 3)} eV; ensemble ${pc(m.optimum.value)} at ${fx(m.optimum.x, 3)} / ${fx(m.optimum.y, 3)} eV), the open ring the other panel's, valued under this panel's light; the optimum moves by ${shift} meV. ` +
+    `Dashed white outlines enclose gaps within ${fx(d.loss * 100, 1)} % (relative) of each panel's own best.${m.profiled.length > 0 ? ` Subcells ${m.profiled.map((k) => k + 1).join(', ')} are re-optimised at every point under each light.` : ''}`;
+  return { chart: { name: id, svg, csv: `${rows.join('\n')}\n`, json }, caption, heading: `Subcells ${xCell + 1} and ${yCell + 1}` };
+}
+
+function apeChart(c: EnsembleComparison): Chart {
+  const s = c.summary;
+  const h = s.ape.histogram;
+  const svg = apeChartSvg({
+    id: 'ape-histogram',
+    edgesEv: h.edgesEv,
+    weights: h.weights,
+    totalWeight: s.totalWeight,
+    windowNm: s.ape.windowNm,
+    weightedMeanEv: s.ape.weightedMeanEv,
+    referenceApeEv: c.referenceApeEv,
+    referenceName: 'AM1.5G',
+    ensembleName: c.name,
+  });
+  const rows = ['ape_low_ev,ape_high_ev,weight,share_of_total_weight'];
+  h.weights.forEach((w, k) => rows.push(`${h.edgesEv[k]},${h.edgesEv[k + 1]},${r8(w)},${r8(w / s.totalWeight)}`));
+  return {
+    name: 'ape-histogram',
+    svg,
+    csv: `${rows.join('\n')}\n`,
+    json: {
+      ensemble: c.name,
+      window_nm: s.ape.windowNm,
+      edges_ev: h.edgesEv,
+      weights: h.weights.map(r8),
+      weight_unit: s.weightUnit,
+      total_weight: r8(s.totalWeight),
+      weighted_mean_ape_ev: s.ape.weightedMeanEv === null ? null : r8(s.ape.weightedMeanEv),
+      am15g_ape_ev: r8(c.referenceApeEv),
+      per_member: s.ape.perMember.map((p) => ({ label: p.label, ape_ev: p.apeEv === null || !Number.isFinite(p.apeEv) ? null : r8(p.apeEv) })),
+      irradiance_w_m2: { min: r8(s.irradianceWm2.min), weighted_median: r8(s.irradianceWm2.median), weighted_mean: r8(s.weightedMeanIrradianceWm2), max: r8(s.irradianceWm2.max) },
+      cell_temperature_k: { min: s.tempK.min, max: s.tempK.max },
+      convention: 'each bin holds the summed weight of the members whose APE over window_nm falls in [low, high); the last bin is closed',
+      caution: CAUTION,
+    },
+  };
+}
+
+/** The "Your spectra versus AM1.5G" section's context, and its charts (appended to `charts`). */
+function comparisonSection(data: ReportData, charts: Chart[]): Record<string, unknown> | null {
+  const c = data.comparison;
+  if (!c) return null;
+  const d = data.design;
+  const ape = apeChart(c);
+  const wirings = c.wirings.map((w) => {
+    const maps = w.maps.map((cm) => {
+      const x = compareChart(data, c, w, cm);
+      charts.push(x.chart);
+      return { id: x.chart.name, svg: x.chart.svg, caption: x.caption, heading: x.heading };
+    });
+    return { slug: w.outcome.wiring.slug, title: wiringTitle(w.outcome.wiring.key), maps, table: shiftTable(d, w), loss: lossText(w) };
+  });
+  charts.push(ape);
+  const s = c.summary;
+  return {
+    intro: comparisonIntro(d, c),
+    ensemble: ensembleIdentity(d, c),
+    synthetic: c.synthetic,
+    wirings,
+    pattern: wiringPatternText(c),
+    apeSvg: ape.svg,
+    apeCaption:
+      `Average photon energy of each spectrum over ${s.ape.windowNm[0]}–${s.ape.windowNm[1]} nm; each bar is the share of the ensemble's total weight${s.weightUnit === 'hours' ? ' (hours)' : ''} whose spectra fall in it (${s.ape.histogram.weights.length} bins). ` +
+      `The solid line is the weighted mean, the dashed line AM1.5G over the same window; a higher APE means bluer light.`,
+    lightRows: lightSummaryRows(d, c),
+  };
+}
+
 function summaryJson(data: ReportData, version: string, generated: string): Record<string, unknown> {
   const d = data.design;
   return {
@@ -177,6 +371,9 @@ function summaryJson(data: ReportData, version: string, generated: string): Reco
         maps: o.maps.map((m) => ({ x_subcell: m.pair.xCell + 1, y_subcell: m.pair.yCell + 1, optimum: { x_ev: r6(m.optimum.x), y_ev: r6(m.optimum.y) } })),
       };
     }),
+    ...(data.comparison
+      ? { am15g_comparison: { ensemble: data.comparison.name, synthetic: data.comparison.synthetic, reference_spectrum: data.comparison.referenceSpectrum.name, wirings: data.comparison.wirings.map(wiringComparisonJson) } }
+      : {}),
     assumptions: assumptionList(data),
     caution: CAUTION,
     generated,
@@ -238,6 +435,7 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
       sensitivityCaption: `One gap moved at a time, the others held at the optimum (${res.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV); the dotted line is the tolerance threshold ${pc(res.tolerance.threshold)}.`,
     };
   });
+  const comparison = comparisonSection(data, charts);
   const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
   const html = pageTemplate()({
     version,
@@ -250,6 +448,7 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     warnings,
     caution: CAUTION,
     maps,
+    comparison,
     details,
     assumptions: assumptionList(data),
     provenance: provenanceList(design, version),

@@ -9,6 +9,7 @@ import type { Design, DesignSubcell } from '../design/index.js';
 import { constraintRangeEv } from '../design/index.js';
 import { CAUTION, describeAbsorptance, describeCoupling, emissionConvention } from './assumptions.js';
 import type { ReportData, WiringOutcome } from './compute.js';
+import type { EnsembleComparison, WiringComparison } from './ensemble-compare.js';
 
 export const fx = (x: number | null | undefined, d: number): string => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(d));
 export const pc = (x: number, d = 2): string => `${(x * 100).toFixed(d)} %`;
@@ -176,7 +177,7 @@ export function subcellTable(data: ReportData, o: WiringOutcome): { head: string
 }
 
 /** A provenance text with the design file's folder dropped from paths, so reports do not depend on where the files sit. */
-function relativeSource(design: Design, text: string): string {
+export function relativeSource(design: Design, text: string): string {
   return text.split(`${dirname(resolve(design.path))}${sep}`).join('');
 }
 
@@ -240,3 +241,114 @@ export function generatedLine(date: Date): string {
 }
 
 export { CAUTION };
+
+// ---------------------------------------------------------------------------
+// Your spectra versus AM1.5G
+
+/** A signed number with fixed decimals; a value that rounds to zero is written 0 (no sign). */
+function signed(x: number, d: number): string {
+  const t = x.toFixed(d);
+  if (Number(t) === 0) return (0).toFixed(d);
+  return x > 0 ? `+${t}` : t;
+}
+
+/** Whose the ensemble is, where it came from, and a note when its name marks it as synthetic. */
+export function ensembleIdentity(design: Design, c: EnsembleComparison): { name: string; source: string; note: string } {
+  const note = c.synthetic
+    ? `The ensemble's name ("${c.name}") marks it as invented: its spectra were made up to show the method; they are not measurements of any site, so nothing below says what a real site would yield.`
+    : `These are your spectra as supplied; the comparison holds only as far as they represent the site and period you design for.`;
+  return { name: c.name, source: relativeSource(design, c.source), note };
+}
+
+/** The opening paragraph of the section. */
+export function comparisonIntro(design: Design, c: EnsembleComparison): string {
+  const r = c.referenceSpectrum;
+  return (
+    `The design question above was answered over your ensemble (${c.summary.count} spectra, yield-weighted). Here the same question — the same constraints, search and wirings — is answered again under ${r.name} alone (${fx(r.pinWm2, 1)} W/m², cells at ${design.tempK} K), ` +
+    `and each optimum is valued under the other light. The two maps of a wiring share their axes and one colour scale, so a colour stands for the same efficiency in both.`
+  );
+}
+
+/** The shift table of one wiring: both optima with gaps and both efficiencies, then the shift. */
+export function shiftTable(design: Design, w: WiringComparison): { head: string[]; rows: { cells: string[]; emphasis: boolean }[] } {
+  const gapHead = design.subcells.map((s) => `gap ${s.index}${s.labelled ? ` (${s.label})` : ''} [eV]`);
+  const head = ['design', ...gapHead, 'η under AM1.5G', 'yield-weighted η'];
+  const point = (label: string, p: WiringComparison['referenceOptimal']) => ({ cells: [label, ...p.gapsEv.map((g) => fx(g, 4)), pc(p.referenceEfficiency, 3), pc(p.yieldEfficiency, 3)], emphasis: false });
+  const a = w.referenceOptimal;
+  const b = w.ensembleOptimal;
+  return {
+    head,
+    rows: [
+      point('AM1.5G optimum', a),
+      point('ensemble optimum', b),
+      {
+        cells: ['shift, ensemble − AM1.5G', ...w.shiftEv.map((d) => `${signed(d * 1000, 1)} meV`), `${signed((b.referenceEfficiency - a.referenceEfficiency) * 100, 3)} pp`, `${signed((b.yieldEfficiency - a.yieldEfficiency) * 100, 3)} pp`],
+        emphasis: true,
+      },
+    ],
+  };
+}
+
+/** What the AM1.5G-optimised design gives up under the ensemble, in words. */
+export function lossText(w: WiringComparison): string {
+  const a = w.referenceOptimal;
+  const b = w.ensembleOptimal;
+  const same = w.shiftEv.every((d) => Math.abs(d) < 5e-7);
+  const drop = a.referenceEfficiency - a.yieldEfficiency;
+  let s = same
+    ? `The AM1.5G optimum and the ensemble optimum are the same gaps (${a.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV), so the AM1.5G-optimised design loses nothing under this ensemble: ${pc(b.yieldEfficiency, 3)} yield-weighted.`
+    : `Built to the AM1.5G optimum, this stack yields ${pc(a.yieldEfficiency, 3)} over the ensemble, against ${pc(b.yieldEfficiency, 3)} at the ensemble optimum: ${fx(w.lossAbs * 100, 3)} percentage points lower, ${fx(w.lossRel * 100, 3)} % (relative).`;
+  s += ` Its yield-weighted η is ${fx(drop * 100, 2)} percentage points below its η under AM1.5G (${pc(a.referenceEfficiency, 3)}).`;
+  const m = w.mismatch;
+  if (m) {
+    s += ` At the AM1.5G-optimal gaps the subcells' photocurrents differ by ${fx(m.reference * 100, 2)} % under AM1.5G and by ${fx(m.min * 100, 2)}–${fx(m.max * 100, 2)} % across the ensemble's spectra (${fx(m.energyWeightedMean * 100, 2)} % averaged by energy received; largest over smallest J_gen).`;
+  }
+  return s;
+}
+
+/** The 2T-versus-4T sentence: the usual pattern in words, then only what these numbers show. */
+export function wiringPatternText(c: EnsembleComparison): string {
+  const find = (key: string) => c.wirings.find((w) => w.outcome.wiring.key === key);
+  const two = find('series');
+  const four = find('independent');
+  const pp = (w: WiringComparison) => `${fx(w.lossAbs * 100, 3)} percentage points (${fx(w.lossRel * 100, 3)} % relative)`;
+  const general = 'Series (2T) stacks usually lose more than independent (4T) ones when the light departs from the reference, because a 2T stack is current-matched for one spectrum and the match drifts as the spectrum changes, while a 4T stack runs every subcell at its own maximum power point.';
+  const rest = c.wirings.filter((w) => w !== two && w !== four).map((w) => `${wiringTitle(w.outcome.wiring.key).split(' (')[0]} loses ${pp(w)}.`);
+  if (!two || !four) {
+    const one = c.wirings.map((w) => `${wiringTitle(w.outcome.wiring.key).split(' (')[0]}: the AM1.5G-optimised design loses ${pp(w)}.`);
+    return [general, 'This design does not compare 2T with 4T.', ...one].join(' ');
+  }
+  const d = two.lossAbs - four.lossAbs;
+  const here =
+    Math.abs(d) < 1e-6
+      ? `Here, against each wiring's ensemble optimum, both lose the same: 2T ${pp(two)}, 4T ${pp(four)}.`
+      : d > 0
+        ? `Here, against each wiring's ensemble optimum, the 2T stack loses more: ${pp(two)} against ${pp(four)} for 4T.`
+        : `Here, against each wiring's ensemble optimum, the 4T stack loses more, against the usual pattern: ${pp(four)} against ${pp(two)} for 2T.`;
+  const drop = (w: WiringComparison) => w.referenceOptimal.referenceEfficiency - w.referenceOptimal.yieldEfficiency;
+  const fall = `From η under AM1.5G to yield-weighted η over the ensemble at the same AM1.5G-optimal gaps, the 2T stack falls ${fx(drop(two) * 100, 2)} percentage points and the 4T stack ${fx(drop(four) * 100, 2)}.`;
+  return [general, here, fall, ...rest].join(' ');
+}
+
+/** The ensemble's light in a few rows: irradiance distribution, APE, temperatures, each beside AM1.5G. */
+export function lightSummaryRows(design: Design, c: EnsembleComparison): string[][] {
+  const s = c.summary;
+  const r = c.referenceSpectrum;
+  const hours = s.weightUnit === 'hours';
+  const apes = s.ape.perMember.flatMap((p) => (p.apeEv !== null && Number.isFinite(p.apeEv) ? [p.apeEv] : []));
+  const rows: string[][] = [
+    ['spectra', `${s.count}, total weight ${fx(s.totalWeight, hours ? 1 : 3)}${hours ? ' h' : ' (relative energy shares)'}`, '1'],
+    ['irradiance, smallest [W/m²]', fx(s.irradianceWm2.min, 1), fx(r.pinWm2, 1)],
+    ['irradiance, weighted median [W/m²]', fx(s.irradianceWm2.median, 1), fx(r.pinWm2, 1)],
+    ['irradiance, weighted mean [W/m²]', fx(s.weightedMeanIrradianceWm2, 1), fx(r.pinWm2, 1)],
+    ['irradiance, largest [W/m²]', fx(s.irradianceWm2.max, 1), fx(r.pinWm2, 1)],
+  ];
+  if (hours) rows.push(['energy received, Σ w·P_in [kWh/m²]', fx((s.weightedMeanIrradianceWm2 * s.totalWeight) / 1000, 1), '–']);
+  rows.push([
+    `average photon energy, ${s.ape.windowNm[0]}–${s.ape.windowNm[1]} nm [eV]`,
+    s.ape.weightedMeanEv === null ? 'not available' : `${fx(s.ape.weightedMeanEv, 4)} weighted mean${apes.length > 0 ? ` (members ${fx(Math.min(...apes), 3)}–${fx(Math.max(...apes), 3)})` : ''}`,
+    fx(c.referenceApeEv, 4),
+  ]);
+  rows.push(['cell temperature [K]', s.tempK.min === s.tempK.max ? fx(s.tempK.min, 1) : `${fx(s.tempK.min, 1)}–${fx(s.tempK.max, 1)}`, fx(design.tempK, 1)]);
+  return rows;
+}

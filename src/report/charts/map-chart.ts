@@ -37,11 +37,11 @@ export interface MapChartInput {
   loss: number;
 }
 
-type Ring = [number, number][];
-type Pos = number[];
+export type Ring = [number, number][];
+export type Pos = number[];
 
 /** Values in percent with unordered pixels filled from their row's nearest ordered neighbour (for contouring only). */
-function filledGrid(values: Float64Array, nx: number, ny: number, scale: number): { grid: number[]; lo: number; hi: number } {
+export function filledGrid(values: Float64Array, nx: number, ny: number, scale: number): { grid: number[]; lo: number; hi: number } {
   let lo = Infinity;
   let hi = -Infinity;
   for (const v of values) {
@@ -67,13 +67,14 @@ function filledGrid(values: Float64Array, nx: number, ny: number, scale: number)
   return { grid, lo, hi };
 }
 
-function niceStep(range: number, target: number, steps: number[]): number {
+/** The first step in `steps` that splits `range` into at most `target` parts. */
+export function niceStep(range: number, target: number, steps: number[]): number {
   for (const s of steps) if (range / s <= target) return s;
   return steps[steps.length - 1];
 }
 
 /** The polygon of the rectangle [x0,x1]×[y0,y1] where y ≥ x (gaps out of order). */
-function unorderedRegion(x0: number, x1: number, y0: number, y1: number): Ring {
+export function unorderedRegion(x0: number, x1: number, y0: number, y1: number): Ring {
   const corners: Ring = [
     [x0, y0],
     [x1, y0],
