@@ -132,3 +132,57 @@ describe('the example report in headless Chromium', () => {
     expect(readFileSync(shot).subarray(1, 4).toString('latin1')).toBe('PNG');
   });
 });
+
+describe('the synthetic-year report in headless Chromium', () => {
+  let ctx: BrowserContext;
+  let page: Page;
+  const problems: string[] = [];
+
+  beforeAll(async () => {
+    mkdirSync(ARTIFACTS, { recursive: true });
+    const out = join(ARTIFACTS, 'year-report.html');
+    await reportCommand({ design: join(ROOT, 'examples/perovskite-silicon-year.yaml'), output: out });
+    ctx = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'gapstack-chromium-')), {
+      executablePath: CHROMIUM,
+      headless: true,
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      viewport: { width: 1100, height: 900 },
+    });
+    page = await ctx.newPage();
+    page.on('console', (m) => {
+      if (m.type() === 'error' || m.type() === 'warning') problems.push(`console ${m.type()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+    await page.goto(pathToFileURL(out).href, { waitUntil: 'load' });
+  }, 60_000);
+
+  afterAll(async () => {
+    await ctx?.close();
+  });
+
+  test('the comparison section draws two side-by-side panels per wiring and the APE bars, with no console errors', async () => {
+    for (const id of ['compare-series-1-2', 'compare-independent-1-2']) {
+      const panels = await page.evaluate((sel) => {
+        const svg = document.getElementById(sel);
+        return Array.from(svg?.querySelectorAll('.gs-compare-panel') ?? []).map((g) => {
+          const area = (g.querySelector('.gs-plot-area') as SVGRectElement).getBoundingClientRect();
+          return { light: g.getAttribute('data-light'), bands: g.querySelectorAll('path.gs-band').length, x: area.x, y: area.y, w: area.width, h: area.height };
+        });
+      }, id);
+      expect(panels.map((p) => p.light)).toEqual(['am1.5g', 'ensemble']);
+      for (const p of panels) {
+        expect(p.bands).toBeGreaterThan(10);
+        expect(p.w).toBeGreaterThan(250);
+      }
+      // Side by side, the same size, top-aligned.
+      expect(panels[1].x).toBeGreaterThan(panels[0].x + panels[0].w);
+      expect(Math.abs(panels[1].y - panels[0].y)).toBeLessThan(0.5);
+      expect(Math.abs(panels[1].w - panels[0].w)).toBeLessThan(0.5);
+    }
+    const bars = await page.evaluate(() => Array.from(document.querySelectorAll('#ape-histogram .gs-ape-bar')).map((b) => b.getBoundingClientRect().width));
+    expect(bars.length).toBeGreaterThan(3);
+    expect(bars.every((w) => w > 5)).toBe(true);
+    await page.locator('#versus-am15g').screenshot({ path: join(ARTIFACTS, 'year-versus-am15g.png') });
+    expect(problems).toEqual([]);
+  });
+});
