@@ -53,14 +53,7 @@ export function drawFrame(svg: Sel, id: string, f: FrameSpec): Frame {
   const g = svg.append('g').attr('transform', `translate(${M.left},${M.top})`);
   const grid = g.append('g').attr('class', 'gs-grid');
   for (const t of y.ticks(6)) grid.append('line').attr('x1', 0).attr('x2', w).attr('y1', num(y(t))).attr('y2', num(y(t))).attr('stroke', '#e3e3e3');
-  const ax = g.append('g').attr('class', 'gs-axis gs-axis-x').attr('transform', `translate(0,${h})`);
-  ax.call(d3().axisBottom(x).ticks(8).tickSizeOuter(0));
-  styleAxis(ax);
-  const ay = g.append('g').attr('class', 'gs-axis gs-axis-y');
-  ay.call(d3().axisLeft(y).ticks(6).tickSizeOuter(0));
-  styleAxis(ay);
-  g.append('text').attr('x', w / 2).attr('y', h + 36).attr('text-anchor', 'middle').text(svgText(f.xLabel));
-  g.append('text').attr('transform', `translate(-46,${h / 2}) rotate(-90)`).attr('text-anchor', 'middle').text(svgText(f.yLabel));
+  drawAxes(g, { x, y, w, h, xTicks: 8, yTicks: 6, xLabel: f.xLabel, yLabel: f.yLabel });
   const plot = g.append('g').attr('class', 'gs-plot').attr('clip-path', `url(#${clip})`);
   g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333');
   const lg = g.append('g').attr('class', 'gs-legend').attr('transform', `translate(0,${h + 56})`);
@@ -81,6 +74,30 @@ export function drawFrame(svg: Sel, id: string, f: FrameSpec): Frame {
     lx += width;
   }
   return { plot, x, y, w, h };
+}
+
+export interface AxesSpec {
+  x: ScaleLinear<number, number>;
+  y: ScaleLinear<number, number>;
+  w: number;
+  h: number;
+  xTicks: number;
+  yTicks: number;
+  xLabel: string;
+  /** Left out when absent (a panel beside another that carries it). */
+  yLabel?: string;
+}
+
+/** Bottom and left axes of a plot `w`×`h` at the origin of `g`, with their titles. */
+export function drawAxes(g: Sel, a: AxesSpec): void {
+  const ax = g.append('g').attr('class', 'gs-axis gs-axis-x').attr('transform', `translate(0,${a.h})`);
+  ax.call(d3().axisBottom(a.x).ticks(a.xTicks).tickSizeOuter(0));
+  styleAxis(ax);
+  const ay = g.append('g').attr('class', 'gs-axis gs-axis-y');
+  ay.call(d3().axisLeft(a.y).ticks(a.yTicks).tickSizeOuter(0));
+  styleAxis(ay);
+  g.append('text').attr('x', a.w / 2).attr('y', a.h + 36).attr('text-anchor', 'middle').text(svgText(a.xLabel));
+  if (a.yLabel !== undefined) g.append('text').attr('transform', `translate(-46,${a.h / 2}) rotate(-90)`).attr('text-anchor', 'middle').text(svgText(a.yLabel));
 }
 
 /** Rows a legend of `items` takes when wrapped within a plot `w` wide. */
