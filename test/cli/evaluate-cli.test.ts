@@ -79,7 +79,7 @@ describe('bad input exits 2 with one clear line', () => {
     ['ascending gaps', ['evaluate', '--gaps', '1.12,1.72'], /strictly descending/],
     ['ERE above 1', ['evaluate', '--gaps', '1.34', '--ere', '1.5'], /--ere must be within \(0, 1\], got 1.5/],
     ['ERE of zero', ['evaluate', '--gaps', '1.34', '--ere', '0'], /--ere must be within \(0, 1\], got 0/],
-    ['unknown wiring', ['evaluate', '--gaps', '1.7,1.1', '--wiring', 'parallel'], /--wiring must be series, independent, 3t or vm:M:N/],
+    ['unknown wiring', ['evaluate', '--gaps', '1.7,1.1', '--wiring', 'parallel'], /--wiring must be series \(2t\), independent \(4t\), 3t, vm:M:N, groups:1\+2\/3 or vm:M:N:1\+2\/3, got "parallel"/],
     ['unknown option', ['evaluate', '--gaps', '1.34', '--colour', 'red'], /Unknown argument/],
     ['missing file', ['evaluate', '--gaps', '1.34', '--spectrum', join(dir, 'absent.csv')], /absent\.csv: cannot open spectrum file/],
     ['descending wavelengths', ['evaluate', '--gaps', '1.34', '--spectrum', descending], /desc\.csv:4: .*strictly ascending/],
