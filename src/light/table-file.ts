@@ -87,15 +87,21 @@ const requireCjs = createRequire(import.meta.url);
 /** csv-parse loads on first use: the built-in spectrum never needs it. */
 const csvParse = (): typeof import('csv-parse/sync').parse => (requireCjs('csv-parse/sync') as typeof import('csv-parse/sync')).parse;
 
-/** Rows of a plain two-column numeric table with # comments, without csv-parse (fast path). */
+/**
+ * Rows of a table without quoting, split directly (fast path: large ensembles
+ * hold millions of cells). Without quotes, CSV fields are exactly the text
+ * between delimiters, so this agrees with csv-parse on such files.
+ */
 function splitPlainRows(text: string): Row[] | null {
-  const rows: Row[] = [];
+  if (text.includes('"')) return null;
   const lines = text.split('\n');
+  const first = lines.find((l) => l.trim() !== '' && !l.trim().startsWith('#')) ?? '';
+  const delimiter = first.includes(',') ? ',' : first.includes(';') ? ';' : null;
+  const rows: Row[] = [];
   for (let i = 0; i < lines.length; i++) {
     const l = lines[i].trim();
     if (l === '' || l.startsWith('#')) continue;
-    if (l.includes(',') || l.includes(';') || l.includes('"')) return null;
-    rows.push({ line: i + 1, cells: l.split(/[ \t]+/) });
+    rows.push({ line: i + 1, cells: delimiter ? l.split(delimiter).map((c) => c.trim()) : l.split(/[ \t]+/) });
   }
   return rows;
 }
