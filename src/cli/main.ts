@@ -19,14 +19,14 @@ function lightOptions<T>(y: Argv<T>) {
 
 function stackOptions<T>(y: Argv<T>) {
   return y
-    .option('wiring', { type: 'string', describe: 'series (2T) | independent (4T) | 3t | vm:M:N (voltage-matched strings)', default: 'series' })
+    .option('wiring', { type: 'string', describe: 'series (2T) | independent (4T) | 3t | vm:M:N (voltage-matched strings) | groups:1+2/3 (series groups, 1 = top) | vm:M:N:1+2/3', default: 'series' })
     .option('temp', { type: 'string', describe: 'cell temperature [K] (default 300 K, the detailed-balance convention)' })
     .option('ere', { type: 'string', describe: 'external radiative efficiency (0, 1], one value or one per subcell' })
     .option('voc-loss', { type: 'string', describe: 'non-radiative Voc loss [V] instead of --ere, one value or one per subcell' })
     .option('lc', { type: 'string', describe: 'luminescent coupling: η (one or one per interface), or radiative[:n] (default: isolated)' })
     .option('top-absorptance', { type: 'string', describe: 'constant absorptance of the top cell above its gap (0, 1], or "best" to thin it optimally' })
     .option('top-thickness', { type: 'string', describe: 'top-cell thickness [nm] with a direct-gap absorption edge' })
-    .option('top-alpha0', { type: 'string', describe: 'top-cell α at 1 eV above the gap [cm⁻¹] (default 1.5e5)' })
+    .option('top-alpha0', { type: 'string', describe: 'top-cell α at 1 eV above the gap [cm⁻¹] (default 1.5e5, a typical direct-gap order of magnitude; set your film’s value)' })
     .option('top-urbach', { type: 'string', describe: 'top-cell Urbach energy [eV] (default 0.015)' })
     .option('top-optics', { type: 'string', describe: 'top-cell light path: single | double | lambertian (default single)' })
     .option('reflectance', { type: 'string', describe: 'front reflectance [0, 1) (default 0)' })
