@@ -9,6 +9,9 @@ export function sensitivityChartSvg(inp: { id: string; slices: SensitivitySlice[
   const n = inp.slices.length;
   const bestPct = inp.best * 100;
   const lo = Math.max(0, bestPct - 8);
+  // A fixed subcell's slice can rise above the optimum (the design holds that gap, the slice moves it), so the top of the axis follows the highest slice value.
+  const sliceMax = Math.max(bestPct, ...inp.slices.flatMap((s) => s.efficiency.filter((v): v is number => v !== null && Number.isFinite(v)).map((v) => v * 100)));
+  const hi = sliceMax + 0.4;
   const legend: LegendItem[] = inp.slices.map((s, i) => ({ colour: subcellColour(i, n), dash: s.fixed ? '5,3' : undefined, text: `${i + 1}: ${inp.labels[i]} (${num(s.gapEv, 3)} eV${s.fixed ? ', fixed in the design' : ''})` }));
   legend.push({ colour: '#555555', dash: '2,3', text: `tolerance threshold, −${num(inp.loss * 100, 1)} % relative` });
   const plotW = SENSITIVITY_WIDTH - FRAME_MARGIN.left - FRAME_MARGIN.right;
@@ -16,7 +19,7 @@ export function sensitivityChartSvg(inp: { id: string; slices: SensitivitySlice[
   const dmax = Math.max(...inp.slices.flatMap((s) => s.deltaEv)) * 1000;
   return buildSvg(SENSITIVITY_WIDTH, height, { id: inp.id, class: 'gs-chart gs-sensitivity', role: 'img' }, (svg) => {
     svg.append('title').text(svgText(`Sensitivity of the ${inp.objective} to each gap`));
-    const f = drawFrame(svg, inp.id, { width: SENSITIVITY_WIDTH, height, xDomain: [-dmax, dmax], yDomain: [lo, bestPct + 0.4], xLabel: 'gap offset from the optimum [meV]', yLabel: `${inp.objective} [%]`, legend });
+    const f = drawFrame(svg, inp.id, { width: SENSITIVITY_WIDTH, height, xDomain: [-dmax, dmax], yDomain: [lo, hi], xLabel: 'gap offset from the optimum [meV]', yLabel: `${inp.objective} [%]`, legend });
     f.plot.append('line').attr('x1', num(f.x(0))).attr('x2', num(f.x(0))).attr('y1', 0).attr('y2', f.h).attr('stroke', '#999999');
     f.plot.append('line').attr('class', 'gs-threshold').attr('x1', 0).attr('x2', f.w).attr('y1', num(f.y(inp.threshold * 100))).attr('y2', num(f.y(inp.threshold * 100))).attr('stroke', '#555555').attr('stroke-dasharray', '2,3');
     inp.slices.forEach((s, i) => {
