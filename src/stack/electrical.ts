@@ -161,7 +161,7 @@ export function operateGroups(el: StackElectrical, groups: number[][]): Operatio
  * sits near short circuit (w ≪ J_ph), where V recomputed from J would not be.
  * Writes the group's current into `currents`, its voltages into `voltages`.
  */
-function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: number, currents: Float64Array, jph: Float64Array, voltages: Float64Array): number {
+function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: number, currents: Float64Array, jph: Float64Array, voltages: Float64Array, warm?: { z?: number }): number {
   if (group.length === 1) {
     // One cell: its photocurrent depends only on the cells above, so J(V) is the diode law itself.
     const i = group[0];
@@ -190,51 +190,63 @@ function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: n
       lim = k;
     }
   });
+  // Reverse-bias limit: δ > δ_min where the first cell reaches w = −J0 (V → −∞).
   let dMin = -Infinity;
+  let dLim = 0;
   group.forEach((i, k) => {
     r[k] = k === lim ? 0 : Math.max(0, a[k] - q[k] * jMax);
-    dMin = Math.max(dMin, -(r[k] + el.j0Am2[i]) / q[k]);
+    const d = -(r[k] + el.j0Am2[i]) / q[k];
+    if (d > dMin) {
+      dMin = d;
+      dLim = k;
+    }
   });
-  const volts = (delta: number, out?: Float64Array): number => {
+  // With δ = δ_min + e^z, each cell has w + J0 = c_k + q_k·e^z, c_k ≥ 0 and exactly 0 for the
+  // cell that sets δ_min: no cancellation, however close to its limit a cell is driven.
+  const c = new Float64Array(m);
+  group.forEach((i, k) => (c[k] = k === dLim ? 0 : Math.max(0, r[k] + el.j0Am2[i] + q[k] * dMin)));
+  const volts = (z: number, out?: Float64Array): number => {
+    const e = Math.exp(z);
     let v = 0;
     group.forEach((i, k) => {
-      const vi = el.vt * Math.log1p((r[k] + q[k] * delta) / el.j0Am2[i]);
+      const vi = el.vt * Math.log((c[k] + q[k] * e) / el.j0Am2[i]);
       v += vi;
       if (out) out[i] = vi;
     });
     return v;
   };
-  const deltaOf = (z: number) => dMin + Math.exp(z);
   let zLo = -745;
   let zHi = Math.log(Math.max(1e-300, Math.abs(dMin)) + Math.max(1, Math.abs(jMax)));
   // NaN (a cell pushed past its reverse-bias limit by rounding) counts as −∞.
-  const below = (z: number) => !(volts(deltaOf(z)) >= voltageV);
+  const below = (z: number) => !(volts(z) >= voltageV);
   for (let k = 0; k < 200 && below(zHi); k++) zHi += 1;
   // Newton on V(z) − V, kept inside the bracket; bisection where a step would leave it.
-  let z = zHi;
+  // A neighbouring voltage's solution (warm start) is usually a few steps away.
+  let z = warm?.z !== undefined && warm.z > zLo && warm.z < zHi ? warm.z : zHi;
   for (let it = 0; it < 200 && zHi - zLo > 1e-14 * Math.max(1, Math.abs(zHi)); it++) {
     const e = Math.exp(z);
-    const delta = dMin + e;
     let v = 0;
     let dv = 0;
     group.forEach((i, k) => {
-      const w = r[k] + q[k] * delta + el.j0Am2[i];
+      const w = c[k] + q[k] * e;
       v += el.vt * Math.log(w / el.j0Am2[i]);
       dv += (el.vt * q[k] * e) / w;
     });
     if (!(v >= voltageV)) zLo = z;
     else zHi = z;
+    // Converged once the voltage matches to rounding (V ~ volts, so 1e-13 V is a few ulps).
+    if (Math.abs(v - voltageV) <= 1e-13 * Math.max(1, Math.abs(voltageV))) break;
     let next = z - (v - voltageV) / dv;
     if (!(next > zLo && next < zHi) || !Number.isFinite(next)) next = 0.5 * (zLo + zHi);
     const step = next - z;
     z = next;
-    if (Math.abs(step) < 1e-15 * Math.max(1, Math.abs(z))) break;
+    if (Math.abs(step) < 1e-13 * Math.max(1, Math.abs(z))) break;
   }
   // The converged iterate, unless rounding left a cell voltage undefined there.
-  zHi = Number.isFinite(volts(deltaOf(z))) ? z : zHi;
-  // Report the upper end of the bracket, where every cell voltage is finite.
-  const delta = deltaOf(zHi);
-  volts(delta, voltages);
+  zHi = Number.isFinite(volts(z)) ? z : zHi;
+  if (warm) warm.z = zHi;
+  volts(zHi, voltages);
+  const delta = dMin + Math.exp(zHi);
   const j = jMax - delta;
   for (const i of group) currents[i] = j;
   cascadePhotocurrents(el, currents, jph);
@@ -268,10 +280,12 @@ export function operateVoltageMatched(el: StackElectrical, upper: number[], lowe
   const currents = new Float64Array(cells);
   const jph = new Float64Array(cells);
   const voltages = new Float64Array(cells);
+  const warmUpper: { z?: number } = {};
+  const warmLower: { z?: number } = {};
   const power = (v: number): number => {
-    const ja = operateGroupAtVoltage(el, upper, v, currents, jph, voltages);
+    const ja = operateGroupAtVoltage(el, upper, v, currents, jph, voltages, warmUpper);
     const vb = (m * v) / n;
-    const jb = operateGroupAtVoltage(el, lower, vb, currents, jph, voltages);
+    const jb = operateGroupAtVoltage(el, lower, vb, currents, jph, voltages, warmLower);
     return v * ja + vb * jb;
   };
   // The upper group's open-circuit voltage bounds the search.
