@@ -116,7 +116,18 @@ describe('the example report in headless Chromium', () => {
     if (!box) return;
     await page.mouse.move(box.x + box.width * 0.4, box.y + box.height * 0.5, { steps: 4 });
     const text = await page.locator('#map-series-1-2 .gs-readout').textContent();
-    expect(text).toMatch(/^\d\.\d{3} \/ \d\.\d{3} eV: η \d+\.\d\d %$/);
+    const m = /^(\d\.\d{3}) \/ (\d\.\d{3}) eV \(grid\): η (\d+\.\d\d) %$/.exec(text ?? '');
+    expect(m, text ?? '').not.toBeNull();
+    if (!m) return;
+    // The gaps shown are the grid point whose η is shown.
+    const grid = await page.evaluate(() => {
+      const svg = document.querySelector('#map-series-1-2');
+      return JSON.parse(document.getElementById(svg?.getAttribute('data-grid') ?? '')?.textContent ?? 'null');
+    });
+    const ix = Math.round((Number(m[1]) - grid.x0) / grid.dx), iy = Math.round((Number(m[2]) - grid.y0) / grid.dy);
+    expect(Math.abs(grid.x0 + ix * grid.dx - Number(m[1]))).toBeLessThan(6e-4);
+    expect(Math.abs(grid.y0 + iy * grid.dy - Number(m[2]))).toBeLessThan(6e-4);
+    expect(grid.v[iy * grid.nx + ix].toFixed(2)).toBe(m[3]);
     expect(await page.locator('#map-series-1-2 .gs-hover').getAttribute('visibility')).toBe('visible');
     expect(problems).toEqual([]);
   });
