@@ -8,7 +8,7 @@ import { HC_EV_NM } from '../physics/constants.js';
 import type { Design, DesignSubcell } from '../design/index.js';
 import { constraintRangeEv } from '../design/index.js';
 import { CAUTION, describeAbsorptance, describeCoupling, emissionConvention } from './assumptions.js';
-import type { ReportData, WiringOutcome } from './compute.js';
+import type { MapOutcome, ReportData, WiringOutcome } from './compute.js';
 import type { EnsembleComparison, WiringComparison } from './ensemble-compare.js';
 
 export const fx = (x: number | null | undefined, d: number): string => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(d));
@@ -214,13 +214,19 @@ export function assumptionList(data: ReportData): string[] {
     const st = o.search.result.stats;
     lines.push(`Search grid, ${o.wiring.key}: ${fx(st.stepEv * 1000, 1)} meV coarse step, ${st.axisPoints} axis points (${st.edgePoints} band edges), ${st.leaves} combinations, ${st.seeds} seeds refined.`);
   }
-  const maps = data.outcomes[0]?.maps ?? [];
-  for (const m of maps) {
+  // Each wiring has its own maps (the default step depends on its search): one line per pair where every wiring's grid agrees, one per wiring where they differ.
+  const mapLine = (m: MapOutcome): string => {
     const mm = m.map;
-    lines.push(
-      `Map of subcells ${m.pair.xCell + 1} and ${m.pair.yCell + 1}: ${fx(m.stepEv * 1000, 1)} meV grid, ${fx(mm.x[0], 3)}–${fx(mm.x[mm.x.length - 1], 3)} × ${fx(mm.y[0], 3)}–${fx(mm.y[mm.y.length - 1], 3)} eV (${mm.x.length} × ${mm.y.length} points)` +
-        `${m.profiled.length > 0 ? `; subcells ${m.profiled.map((c) => c + 1).join(', ')} maximised at every point (profile)` : ''}; mapped gaps vary beyond their constraints, which are drawn as bands and lines.`,
-    );
+    const prof = m.profiled.length === 0 ? '' : `; ${m.profiled.length === 1 ? 'subcell' : 'subcells'} ${m.profiled.map((c) => c + 1).join(', ')} maximised at every point (profile)`;
+    return `${fx(m.stepEv * 1000, 1)} meV grid, ${fx(mm.x[0], 3)}–${fx(mm.x[mm.x.length - 1], 3)} × ${fx(mm.y[0], 3)}–${fx(mm.y[mm.y.length - 1], 3)} eV (${mm.x.length} × ${mm.y.length} points)${prof}; mapped gaps vary beyond their constraints, which are drawn as bands and lines.`;
+  };
+  const pairCount = Math.max(0, ...data.outcomes.map((o) => o.maps.length));
+  for (let j = 0; j < pairCount; j++) {
+    const per = data.outcomes.filter((o) => o.maps[j] !== undefined).map((o) => ({ key: o.wiring.key, m: o.maps[j], text: mapLine(o.maps[j]) }));
+    if (per.length === 0) continue;
+    const head = `Map of subcells ${per[0].m.pair.xCell + 1} and ${per[0].m.pair.yCell + 1}`;
+    if (per.every((p) => p.text === per[0].text)) lines.push(`${head}: ${per[0].text}`);
+    else for (const p of per) lines.push(`${head}, ${p.key}: ${p.text}`);
   }
   lines.push(`Tolerance: the region where the ${design.spectra.length > 1 ? 'yield-weighted efficiency' : 'efficiency'} stays ≥ (1 − ${design.loss})·best; the table's windows move one gap at a time with the others at the optimum, the map outline is the two-gap region.`);
   const lowest = Math.min(...data.outcomes.map((o) => Math.min(...o.search.result.best.gapsEv)));

@@ -1,0 +1,40 @@
+/** Report details that depend on the design: per-wiring map grids, map size limits, wording. */
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, test } from 'vitest';
+import { reportCommand } from '../../src/cli/report-command.js';
+import { UserError } from '../../src/errors.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'gapstack-details-'));
+
+/** Writes a design and returns its path. */
+function design(name: string, text: string): string {
+  const p = join(dir, name);
+  writeFileSync(p, text);
+  return p;
+}
+
+/** The page's text with handlebars' entity escapes undone. */
+function plain(html: string): string {
+  return html.replace(/&#x3D;/g, '=').replace(/&quot;/g, '"').replace(/&#x27;/g, "'").replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&amp;/g, '&');
+}
+
+async function report(name: string, text: string): Promise<string> {
+  const out = join(dir, name.replace(/\.yaml$/, ''), 'report.html');
+  await reportCommand({ design: design(name, text), output: out, figures: join(dir, name.replace(/\.yaml$/, ''), 'figures') });
+  return plain(readFileSync(out, 'utf8'));
+}
+
+describe('assumptions list the map grid of every wiring', () => {
+  test('wirings whose default map steps differ each get a line', async () => {
+    const html = await report(
+      'grids.yaml',
+      'name: grids\nsubcells:\n  - range: [1.7, 2.1]\n  - range: [1.2, 1.6]\n  - gap: 0.7\nwirings: [series, "groups:1+2/3"]\nsearch:\n  step: 0.02\nmap:\n  pairs:\n    - axes: [1, 2]\n      x: [1.6, 2.2]\n      y: [1.1, 1.7]\n',
+    );
+    const lines = [...html.matchAll(/Map of subcells 1 and 2[^<]*/g)].map((m) => m[0]);
+    expect(lines).toHaveLength(2);
+    expect(lines[0]).toMatch(/^Map of subcells 1 and 2, series: 10\.0 meV grid/);
+    expect(lines[1]).toMatch(/^Map of subcells 1 and 2, groups:1\+2\/3: 20\.0 meV grid/);
+  }, 60_000);
+});
