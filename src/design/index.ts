@@ -9,7 +9,7 @@ import type { Design } from './types.js';
 
 export type { Design, DesignFile, DesignSubcell, DesignWiring, DesignMapPair, DesignLight, LabelledSpectrum } from './types.js';
 export { DESIGN_SCHEMA_PATH, validateDesignData } from './schema.js';
-export { DESIGN_DEFAULTS, constraintRangeEv, resolveDesign } from './resolve.js';
+export { DESIGN_DEFAULTS, MAX_MAP_AXIS_POINTS, constraintRangeEv, resolveDesign } from './resolve.js';
 export { designError, fieldName, parseDesignText, readDesignSource, type DesignSource, type FieldPath } from './source.js';
 
 /** Read, validate and resolve a design file (paths inside it are relative to the file). */

@@ -5,7 +5,7 @@
  * formatting and no SVG here; the charts and the page are built from this.
  */
 import type { Design, DesignMapPair, DesignWiring } from '../design/index.js';
-import { constraintRangeEv } from '../design/index.js';
+import { constraintRangeEv, MAX_MAP_AXIS_POINTS } from '../design/index.js';
 import { UserError } from '../errors.js';
 import { HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import { computeMap, uniformAxis, type GapMap } from '../search/map.js';
@@ -151,6 +151,12 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
   const step = design.mapStepEv ?? defaultStep(fast, profiled.length > 0, xr, yr);
   const x = uniformAxis(xr[0], xr[1], step);
   const y = uniformAxis(yr[0], yr[1], step);
+  // The design check covers axes given in the file; axes chosen here get the same limit.
+  for (const [axis, a, given] of [['x', x, pair.xRangeEv], ['y', y, pair.yRangeEv]] as const) {
+    if (given === undefined && a.length > MAX_MAP_AXIS_POINTS) {
+      throw new UserError(`${design.path}: map.step: ${a.length} points along the default ${axis} axis (${a[0].toFixed(3)}–${a[a.length - 1].toFixed(3)} eV) of pair [${xCell + 1}, ${yCell + 1}]; at most ${MAX_MAP_AXIS_POINTS}: use a coarser step or give the axis range in map.pairs`);
+    }
+  }
   const map = computeMap(d.objective, { x, y, xCell, yCell, fixed, bounds });
   if (!(map.best.value > 0)) {
     throw new UserError(`${design.path}: map of subcells ${xCell + 1} and ${yCell + 1} (${w.key}): no point with the upper gap above the lower produces power; widen map.pairs x or y`);

@@ -38,3 +38,12 @@ describe('assumptions list the map grid of every wiring', () => {
     expect(lines[1]).toMatch(/^Map of subcells 1 and 2, groups:1\+2\/3: 20\.0 meV grid/);
   }, 60_000);
 });
+
+describe('the map point limit', () => {
+  test('applies to default map axes too, naming map.step', async () => {
+    const p = design('fine.yaml', 'name: fine\nsubcells:\n  - range: [1.5, 2.0]\n  - gap: 1.12\nwirings: [series]\nsearch:\n  step: 0.02\nmap:\n  step: 0.001\n');
+    const err = await reportCommand({ design: p, output: join(dir, 'fine', 'report.html'), figures: join(dir, 'fine', 'figures') }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(UserError);
+    expect((err as Error).message).toMatch(/fine\.yaml: map\.step: \d+ points along the default x axis .*at most 401/);
+  }, 60_000);
+});
