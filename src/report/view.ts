@@ -48,6 +48,20 @@ function lightPhrase(design: Design): string {
   return `${l.spectrum.name} (${fx(l.spectrum.pinWm2, 1)} W/m²)`;
 }
 
+/** The ensemble's cell temperatures, "282–326 K" or "300 K". */
+function ensembleTemps(design: Design): string {
+  const ts = design.spectra.map((s) => s.tempK);
+  const lo = Math.min(...ts), hi = Math.max(...ts);
+  const k = (t: number) => (Number.isInteger(t) ? String(t) : fx(t, 1));
+  return lo === hi ? `${k(lo)} K` : `${k(lo)}–${k(hi)} K`;
+}
+
+/** How temperature enters the question: one cell temperature, or one per ensemble member with the gaps held. */
+function temperaturePhrase(design: Design): string {
+  if (design.light.kind !== 'ensemble') return `at ${design.tempK} K`;
+  return `with each spectrum at its own cell temperature (${ensembleTemps(design)}) and the gaps held at their ${design.tempK} K design values`;
+}
+
 const joinWords = (xs: string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
 
 /** The design question in one paragraph. */
@@ -58,7 +72,7 @@ export function questionText(design: Design): string {
   const compare = wirings.length > 1 ? `, and how do ${joinWords(wirings)} wiring compare` : ` with ${wirings[0]} wiring`;
   return (
     `Which band gaps give a ${n}-subcell stack (top first) — ${design.subcells.map((s) => constraintPhrase(s, design)).join('; ')} — the highest detailed-balance ${objective} ` +
-    `under ${lightPhrase(design)} at ${design.tempK} K${compare}? How far may each gap stray before the ${objective} falls by more than ${fx(design.loss * 100, 1)} % (relative)?`
+    `under ${lightPhrase(design)} ${temperaturePhrase(design)}${compare}? How far may each gap stray before the ${objective} falls by more than ${fx(design.loss * 100, 1)} % (relative)?`
   );
 }
 
@@ -196,7 +210,12 @@ export function assumptionList(data: ReportData): string[] {
     for (const x of l.summaryLines) lines.push(`Ensemble: ${x}.`);
     lines.push(`Objective: yield-weighted efficiency Σ w·P_max / Σ w·P_in, each configuration re-solved under every spectrum at its cell temperature; per-subcell detail (J–V, bands) under "${design.reference.label}", the member with the largest energy share.`);
   }
-  lines.push(`Cell temperature: ${design.tempK} K${design.tempK === 300 ? ' (the detailed-balance convention)' : ''}.`);
+  if (l.kind === 'ensemble') {
+    lines.push(
+      `Cell temperature: each spectrum is solved at its own cell temperature (${ensembleTemps(design)}); members without one take the ensemble's default temperature, else ${design.tempK} K. ` +
+        `Gaps, and material windows, are held at their ${design.tempK} K design values for every member (no dE_g/dT shift per spectrum).`,
+    );
+  } else lines.push(`Cell temperature: ${design.tempK} K${design.tempK === 300 ? ' (the detailed-balance convention)' : ''}.`);
   lines.push(`Emission: ${emissionConvention(t.coupling)}.`);
   lines.push(
     `ERE: ${design.subcells.every((s) => s.ere === 1) ? '1 for every subcell (fully radiative)' : design.subcells.map((s) => `${s.index}: ${s.ere.toPrecision(4)}${s.vocLossV !== undefined ? ` (from a non-radiative Voc loss of ${s.vocLossV} V)` : ''}`).join('; ')}.`,

@@ -202,6 +202,11 @@ describe('other ensembles and no ensemble', () => {
     expect(section).toContain('These are your spectra as supplied');
     expect(section).toContain('This design does not compare 2T with 4T.');
     expect((a.summary as any).am15g_comparison.synthetic).toBe(false);
+    // Each member is solved at its own cell temperature; the gaps are not shifted per member.
+    const text = plain(a.html);
+    expect(text).toContain('each spectrum at its own cell temperature (285–320 K) and the gaps held at their 300 K design values');
+    expect(text).toMatch(/Cell temperature: each spectrum is solved at its own cell temperature \(285–320 K\);[^<]*no dE_g\/dT shift per spectrum/);
+    expect(text).not.toContain('the detailed-balance convention');
     const la = a.html.split('\n');
     const lb = b.html.split('\n');
     expect(la.length).toBe(lb.length);
