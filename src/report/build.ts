@@ -71,6 +71,15 @@ function subcellLabel(design: Design, i: number): string {
   return s.labelled ? `subcell ${i + 1} (${s.label})` : `subcell ${i + 1}`;
 }
 
+/** Longest map axis title that fits along the shorter (y) axis of a map or compare panel. */
+const AXIS_TITLE_CHARS = 40;
+
+/** A map axis title: "gap of subcell i (label) [eV]", or "gap of subcell i [eV]" when the label would run off the axis. */
+function gapAxisTitle(design: Design, i: number): string {
+  const full = `gap of ${subcellLabel(design, i)} [eV]`;
+  return [...full].length <= AXIS_TITLE_CHARS ? full : `gap of subcell ${i + 1} [eV]`;
+}
+
 function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome): { chart: Chart; grid: string; id: string; gridId: string } {
   const d = data.design;
   const id = `map-${o.wiring.slug}-${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
@@ -81,8 +90,8 @@ function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome): { chart: C
     id,
     gridId,
     wiringLabel: wiringTitle(o.wiring.key),
-    xLabel: `gap of ${subcellLabel(d, m.pair.xCell)} [eV]`,
-    yLabel: `gap of ${subcellLabel(d, m.pair.yCell)} [eV]`,
+    xLabel: gapAxisTitle(d, m.pair.xCell),
+    yLabel: gapAxisTitle(d, m.pair.yCell),
     loss: d.loss,
   });
   const nx = mm.x.length;
@@ -207,8 +216,8 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
   const svg = compareChartSvg({
     id,
     wiringLabel: wiringTitle(w.outcome.wiring.key),
-    xLabel: `gap of ${subcellLabel(d, xCell)} [eV]`,
-    yLabel: `gap of ${subcellLabel(d, yCell)} [eV]`,
+    xLabel: gapAxisTitle(d, xCell),
+    yLabel: gapAxisTitle(d, yCell),
     marks: m.marks,
     loss: d.loss,
     panels: [

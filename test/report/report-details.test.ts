@@ -47,3 +47,23 @@ describe('the map point limit', () => {
     expect((err as Error).message).toMatch(/fine\.yaml: map\.step: \d+ points along the default x axis .*at most 401/);
   }, 60_000);
 });
+
+describe('long subcell labels', () => {
+  test('map axis titles fall back to the subcell number; legend items are cut with an ellipsis', async () => {
+    const long = 'a very long description of the bottom absorber, its texture and its contacts'.padEnd(80, '.');
+    expect(long).toHaveLength(80);
+    const html = await report(
+      'long.yaml',
+      `name: long\nsubcells:\n  - label: top\n    range: [1.5, 2.0]\n  - label: "${long}"\n    gap: 1.12\nwirings: [series]\nsearch:\n  step: 0.02\nmap:\n  step: 0.05\n  pairs:\n    - axes: [1, 2]\n      x: [1.4, 2.1]\n      y: [0.9, 1.3]\n`,
+    );
+    const map = /<svg[^>]*id="map-series-1-2"[\s\S]*?<\/svg>/.exec(html)?.[0] ?? '';
+    expect(map).toContain('>gap of subcell 1 (top) [eV]<');
+    expect(map).toContain('>gap of subcell 2 [eV]<');
+    expect(map).not.toContain(`>gap of subcell 2 (${long}) [eV]<`);
+    const spectrum = /<svg[^>]*id="spectrum-series"[\s\S]*?<\/svg>/.exec(html)?.[0] ?? '';
+    const item = /<text[^>]*>(2: [^<]*)<\/text>/.exec(spectrum)?.[1] ?? '';
+    expect(item).toMatch(/^2: a very long description of…, 1\.120 eV, J_gen/);
+    // The full label stays available as the item's tooltip.
+    expect(spectrum).toContain(`<title>2: ${long}, 1.120 eV`);
+  }, 60_000);
+});

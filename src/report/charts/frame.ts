@@ -18,6 +18,8 @@ export interface LegendItem {
   colour: string;
   text: string;
   dash?: string;
+  /** The uncut text, shown as the item's tooltip when `text` (or its drawn form) is shorter. */
+  full?: string;
   kind?: 'line' | 'area' | 'dot';
 }
 
@@ -60,7 +62,7 @@ export function drawFrame(svg: Sel, id: string, f: FrameSpec): Frame {
   let lx = 0;
   let ly = 0;
   for (const it of f.legend) {
-    const text = svgText(it.text);
+    const text = legendText(it.text, w);
     const width = 32 + text.length * CHAR_W;
     if (lx > 0 && lx + width > w) {
       lx = 0;
@@ -70,6 +72,8 @@ export function drawFrame(svg: Sel, id: string, f: FrameSpec): Frame {
     if (it.kind === 'area') item.append('rect').attr('x', 0).attr('y', -6).attr('width', 18).attr('height', 11).attr('fill', it.colour);
     else if (it.kind === 'dot') item.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 4).attr('fill', it.colour);
     else item.append('path').attr('d', 'M0,0H18').attr('stroke', it.colour).attr('stroke-width', 2.2).attr('stroke-dasharray', it.dash ?? null);
+    const full = svgText(it.full ?? it.text);
+    if (text !== full) item.append('title').text(full);
     item.append('text').attr('x', 24).attr('y', 4).attr('font-size', 11).text(text);
     lx += width;
   }
@@ -100,12 +104,26 @@ export function drawAxes(g: Sel, a: AxesSpec): void {
   if (a.yLabel !== undefined) g.append('text').attr('transform', `translate(-46,${a.h / 2}) rotate(-90)`).attr('text-anchor', 'middle').text(svgText(a.yLabel));
 }
 
+/** Most characters of a subcell label inside a legend item; longer labels end in an ellipsis. */
+export const LEGEND_LABEL_CHARS = 28;
+
+/** `text` cut to `max` characters, ending in "…" when cut. */
+export function shortLabel(text: string, max = LEGEND_LABEL_CHARS): string {
+  const chars = [...text];
+  return chars.length <= max ? text : `${chars.slice(0, max - 1).join('').trimEnd()}…`;
+}
+
+/** A legend item's text as drawn: cut so that one item never runs past a plot `w` wide. */
+function legendText(text: string, w: number): string {
+  return shortLabel(svgText(text), Math.max(8, Math.floor((w - 32) / CHAR_W)));
+}
+
 /** Rows a legend of `items` takes when wrapped within a plot `w` wide. */
 export function legendRows(items: LegendItem[], w: number): number {
   let rows = 1;
   let lx = 0;
   for (const it of items) {
-    const width = 32 + svgText(it.text).length * CHAR_W;
+    const width = 32 + legendText(it.text, w).length * CHAR_W;
     if (lx > 0 && lx + width > w) {
       rows++;
       lx = 0;

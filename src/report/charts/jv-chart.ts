@@ -1,7 +1,7 @@
 /** J–V curves of each subcell at its photocurrent in the stack, the series terminal curve, and the operating points. */
 import type { JvOutcome } from '../compute.js';
 import { buildSvg, linePath, num, svgText } from '../svg.js';
-import { drawFrame, FRAME_MARGIN, LEGEND_ROW, legendRows, subcellColour, type LegendItem } from './frame.js';
+import { drawFrame, FRAME_MARGIN, LEGEND_ROW, legendRows, subcellColour, type LegendItem, shortLabel } from './frame.js';
 
 export const JV_WIDTH = 680;
 
@@ -11,7 +11,7 @@ export function jvChartSvg(inp: { id: string; jv: JvOutcome; wiringLabel: string
   const curves = jv.stack ? [...jv.subcells, jv.stack] : jv.subcells;
   const vmax = Math.max(...curves.map((c) => Math.max(...c.voltageV))) * 1.04;
   const jmax = (Math.max(...curves.map((c) => Math.max(...c.currentAm2))) / 10) * 1.1;
-  const legend: LegendItem[] = jv.subcells.map((c, i) => ({ colour: subcellColour(i, n), text: `${i + 1}: ${c.label}` }));
+  const legend: LegendItem[] = jv.subcells.map((c, i) => ({ colour: subcellColour(i, n), text: `${i + 1}: ${shortLabel(c.label)}`, full: `${i + 1}: ${c.label}` }));
   if (jv.stack) legend.push({ colour: '#111111', text: 'stack terminals (series)' });
   legend.push({ colour: '#111111', kind: 'dot', text: 'operating point' });
   const plotW = JV_WIDTH - FRAME_MARGIN.left - FRAME_MARGIN.right;

@@ -1,7 +1,7 @@
 /** η along a slice through the optimum: one gap moved, the others held at the optimum. */
 import type { SensitivitySlice } from '../compute.js';
 import { buildSvg, linePath, num, svgText } from '../svg.js';
-import { drawFrame, FRAME_MARGIN, LEGEND_ROW, legendRows, subcellColour, type LegendItem } from './frame.js';
+import { drawFrame, FRAME_MARGIN, LEGEND_ROW, legendRows, subcellColour, type LegendItem, shortLabel } from './frame.js';
 
 export const SENSITIVITY_WIDTH = 680;
 
@@ -12,7 +12,7 @@ export function sensitivityChartSvg(inp: { id: string; slices: SensitivitySlice[
   // A fixed subcell's slice can rise above the optimum (the design holds that gap, the slice moves it), so the top of the axis follows the highest slice value.
   const sliceMax = Math.max(bestPct, ...inp.slices.flatMap((s) => s.efficiency.filter((v): v is number => v !== null && Number.isFinite(v)).map((v) => v * 100)));
   const hi = sliceMax + 0.4;
-  const legend: LegendItem[] = inp.slices.map((s, i) => ({ colour: subcellColour(i, n), dash: s.fixed ? '5,3' : undefined, text: `${i + 1}: ${inp.labels[i]} (${num(s.gapEv, 3)} eV${s.fixed ? ', fixed in the design' : ''})` }));
+  const legend: LegendItem[] = inp.slices.map((s, i) => ({ colour: subcellColour(i, n), dash: s.fixed ? '5,3' : undefined, text: `${i + 1}: ${shortLabel(inp.labels[i])} (${num(s.gapEv, 3)} eV${s.fixed ? ', fixed in the design' : ''})`, full: `${i + 1}: ${inp.labels[i]}` }));
   legend.push({ colour: '#555555', dash: '2,3', text: `tolerance threshold, −${num(inp.loss * 100, 1)} % relative` });
   const plotW = SENSITIVITY_WIDTH - FRAME_MARGIN.left - FRAME_MARGIN.right;
   const height = 300 + LEGEND_ROW * (legendRows(legend, plotW) - 1);
