@@ -32,11 +32,25 @@ export const MAX_MAP_AXIS_POINTS = 401;
 type Located = Pick<DesignSource, 'path' | 'lineOf'>;
 
 /** Re-raise a UserError from a lower layer as one located at a field of the design. */
-function at<T>(src: Located, path: FieldPath, fn: () => T): T {
+/** Command-line flags named in engine messages, and what a design file says instead. */
+const FLAG_FIELDS: Record<string, string> = {
+  '--units': 'spectrum.units',
+  '--suns': 'spectrum.suns',
+  '--irradiance': 'spectrum.irradiance',
+  '--step': 'map.step',
+};
+
+/** An engine message reworded for a design file: flags become design fields (`fields` overrides the defaults). */
+function designWording(message: string, fields: Record<string, string> = {}): string {
+  const names = { ...FLAG_FIELDS, ...fields };
+  return message.replace(/^--[a-z-]+ /, '').replace(/--[a-z][a-z-]*/g, (flag) => names[flag] ?? flag);
+}
+
+function at<T>(src: Located, path: FieldPath, fn: () => T, fields?: Record<string, string>): T {
   try {
     return fn();
   } catch (err) {
-    if (err instanceof UserError) throw designError(src, path, err.message.replace(/^--[a-z-]+ /, ''));
+    if (err instanceof UserError) throw designError(src, path, designWording(err.message, fields));
     throw err;
   }
 }
@@ -57,7 +71,7 @@ async function resolveLight(src: Located, f: DesignFile, tempK: number, spanEv: 
     } catch {
       throw designError(src, ['ensemble'], 'spectral ensembles are not available in this build of gapstack; use spectrum instead');
     }
-    const e = at(src, ['ensemble'], () => mod.loadEnsemble(path, { defaultTempK: tempK }));
+    const e = at(src, ['ensemble'], () => mod.loadEnsemble(path, { defaultTempK: tempK }), { '--units': 'a "# units:" line in the ensemble file' });
     const s = at(src, ['ensemble'], () => mod.ensembleSummary(e, undefined, { lowestGapEv: spanEv[0] }));
     const unit = s.weightUnit === 'hours' ? 'h' : '';
     const summaryLines = [
@@ -171,7 +185,7 @@ function resolveCoupling(src: Located, lc: NonNullable<DesignFile['optics']>['lc
   }
   if (n < 2) throw designError(src, path, 'luminescent coupling needs at least 2 subcells');
   const eta = typeof lc === 'number' ? Array.from({ length: n - 1 }, () => lc) : lc;
-  if (eta.length !== n - 1) throw designError(src, path, `takes one efficiency or ${n - 1} (one per interface), got ${eta.length}`);
+  if (eta.length !== n - 1) throw designError(src, path, n === 2 ? `takes one efficiency (there is one interface), got ${eta.length}` : `takes one efficiency or ${n - 1} (one per interface), got ${eta.length}`);
   return { model: 'empirical', eta: [...eta] };
 }
 
@@ -237,7 +251,7 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
   const reflectance = o.reflectance ?? 0;
   const it = o.interlayer_transmittance;
   const interlayer = it === undefined ? Array.from({ length: n - 1 }, () => 1) : typeof it === 'number' ? Array.from({ length: n - 1 }, () => it) : it;
-  if (interlayer.length !== n - 1) throw designError(src, ['optics', 'interlayer_transmittance'], `takes one value or ${n - 1} (one per interface), got ${interlayer.length}`);
+  if (interlayer.length !== n - 1) throw designError(src, ['optics', 'interlayer_transmittance'], n === 1 ? `a single subcell has no interface; leave it out, got ${interlayer.length} values` : n === 2 ? `takes one value (there is one interface), got ${interlayer.length}` : `takes one value or ${n - 1} (one per interface), got ${interlayer.length}`);
   const coupling = resolveCoupling(src, o.lc, n);
   const keys = (f.wirings ?? (n === 1 ? ['series'] : [...DESIGN_DEFAULTS.wirings])).map((w) => w.toLowerCase());
   const wirings: DesignWiring[] = [];

@@ -85,7 +85,10 @@ export function parseDesignText(path: string, text: string, sha256 = sha256Hex(t
       const line = pos ? text.slice(0, Number(pos[1])).split('\n').length : fallback;
       throw fileError(path, line, `not valid JSON: ${msg.split('\n')[0].replace(/^JSON\.parse: /, '')}`);
     }
-    const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false, uniqueKeys: false });
+    // JSON.parse keeps the last of duplicate keys silently; a design file is rejected for them, as in YAML.
+    const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false });
+    const dup = doc.errors.find((e) => e.code === 'DUPLICATE_KEY');
+    if (dup) throw fileError(path, dup.linePos?.[0]?.line ?? lc.linePos(dup.pos[0]).line, `not valid as a design file: ${dup.message.split('\n')[0]}`);
     return { path, sha256, format, data, lineOf: locator(doc.errors.length === 0 ? doc : undefined, lc) };
   }
   const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false });

@@ -142,6 +142,25 @@ describe('JSON design files', () => {
     const msg = await failure('syntax.json', '{\n  "name": "x",\n  "subcells": [\n}\n');
     expect(msg).toMatch(/syntax\.json:\d+: not valid JSON/);
   });
+
+  test('a duplicated key is an error, as in YAML', async () => {
+    const msg = await failure('dup.json', '{\n  "name": "x",\n  "name": "y",\n  "subcells": [{"gap": 1.1}]\n}\n');
+    expect(msg).toMatch(/dup\.json:3: .*unique/i);
+  });
+});
+
+describe('messages speak of design fields', () => {
+  test('a spectrum file without units names spectrum.units, not a flag', async () => {
+    const spec = file('bare.tsv', '300\t0.5\n400\t1.0\n500\t1.2\n');
+    const msg = await failure('bare.yaml', `name: x\nspectrum:\n  source: ${spec}\nsubcells:\n  - gap: 1.7\n  - gap: 1.1\n`);
+    expect(msg).toContain('spectrum.units');
+    expect(msg).not.toContain('--units');
+  });
+
+  test('per-interface lists read sensibly for two subcells', async () => {
+    const msg = await failure('inter.yaml', 'name: x\nsubcells:\n  - gap: 1.7\n  - gap: 1.1\noptics:\n  interlayer_transmittance: [0.9, 0.8]\n');
+    expect(msg).toMatch(/optics\.interlayer_transmittance: takes one value \(there is one interface\), got 2/);
+  });
 });
 
 describe('impossible constraints are errors that name the field', () => {
@@ -188,7 +207,7 @@ describe('impossible constraints are errors that name the field', () => {
 
   test('coupling efficiencies: one per interface', async () => {
     const msg = await failure('lc.yaml', `${TWO_CELLS}optics:\n  lc: [0.5, 0.3]\n`);
-    expect(msg).toMatch(/lc\.yaml:6: optics\.lc: takes one efficiency or 1 \(one per interface\), got 2/);
+    expect(msg).toMatch(/lc\.yaml:6: optics\.lc: takes one efficiency \(there is one interface\), got 2/);
   });
 
   test('absorptance below 1 only on the top cell', async () => {
