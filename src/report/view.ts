@@ -45,7 +45,10 @@ function constraintPhrase(s: DesignSubcell, design: Design): string {
 function lightPhrase(design: Design): string {
   const l = design.light;
   if (l.kind === 'ensemble') return `the spectral ensemble ${l.name} (${design.spectra.length} spectra, yield-weighted)`;
-  return `${l.spectrum.name} (${fx(l.spectrum.pinWm2, 1)} W/m²)`;
+  const entry = design.file.spectrum;
+  const suns = typeof entry === 'object' ? entry.suns : undefined;
+  const conc = suns === undefined ? '' : suns === 'max' ? ' at maximum concentration' : ` at ${suns} ${suns === 1 ? 'sun' : 'suns'}`;
+  return `${l.spectrum.name}${conc} (${fx(l.spectrum.pinWm2, 1)} W/m²)`;
 }
 
 /** The ensemble's cell temperatures, "282–326 K" or "300 K". */

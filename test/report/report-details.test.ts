@@ -67,3 +67,14 @@ describe('long subcell labels', () => {
     expect(spectrum).toContain(`<title>2: ${long}, 1.120 eV`);
   }, 60_000);
 });
+
+describe('the question', () => {
+  test('names the concentration and uses the singular for one profiled subcell', async () => {
+    const html = await report(
+      'suns.yaml',
+      'name: suns\nspectrum:\n  source: am1.5g\n  suns: 10\nsubcells:\n  - range: [1.6, 2.0]\n  - range: [1.1, 1.4]\n  - gap: 0.7\nwirings: [series]\nsearch:\n  step: 0.04\nmap:\n  step: 0.05\n  pairs:\n    - axes: [1, 3]\n      x: [1.5, 2.1]\n      y: [0.6, 0.9]\n',
+    );
+    expect(html).toMatch(/under AM1\.5G \(ASTM G173-03 global tilt\) at 10 suns \(\d+\.\d W\/m²\)/);
+    expect(html).toContain('subcell 2 maximised at every point');
+  }, 60_000);
+});
