@@ -52,7 +52,8 @@ describe('design parser fuzzing (fast-check, bounded runs)', () => {
       fc.asyncProperty(design, async (d) => {
         const t0 = performance.now();
         await outcome(stringify(d));
-        expect(performance.now() - t0).toBeLessThan(5000);
+        // A hang guard, not a speed target.
+        expect(performance.now() - t0).toBeLessThan(20_000);
       }),
       { numRuns: 150, seed: 4242 },
     );

@@ -23,7 +23,8 @@ describe('spectrum parser fuzzing (fast-check, bounded runs)', () => {
     fc.assert(
       fc.property(fc.string({ maxLength: 400 }), (text) => {
         const r = outcome(text);
-        expect(r.ms).toBeLessThan(1000);
+        // A hang guard, not a speed target: a parse that loops would never return.
+        expect(r.ms).toBeLessThan(20_000);
       }),
       { numRuns: 400, seed: 20261202 },
     );
