@@ -46,20 +46,14 @@ describe('the synthetic-year example: your spectra versus AM1.5G', () => {
   let html: string;
   let section: string;
   let design: Design;
-  let seconds: number;
 
   beforeAll(async () => {
-    const t0 = performance.now();
     summary = JSON.parse(await reportCommand({ design: EXAMPLE, output: out, figures, json: true }));
-    seconds = (performance.now() - t0) / 1000;
     html = readFileSync(out, 'utf8');
     section = slice(html, /<section class="compare" id="versus-am15g">/, '</section>');
     design = await loadDesign(EXAMPLE);
   }, 60_000);
 
-  test('runs in a reasonable time', () => {
-    expect(seconds).toBeLessThan(20);
-  });
 
   test('has the section, after the maps and before the per-wiring detail, with the caution', () => {
     expect(section).toContain('<h2>Your spectra versus AM1.5G</h2>');

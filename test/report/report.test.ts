@@ -35,21 +35,15 @@ describe('the example report', () => {
   const figures = join(dir, 'example', 'figures');
   let summary: any;
   let html: string;
-  let seconds: number;
 
   beforeAll(async () => {
-    const t0 = performance.now();
     summary = JSON.parse(await reportCommand({ design: EXAMPLE, output: out, figures, json: true }));
-    seconds = (performance.now() - t0) / 1000;
     html = readFileSync(out, 'utf8');
   });
 
   /** The page with handlebars' entity escapes undone, for reading text. */
   const plain = () => html.replace(/&#x3D;/g, '=').replace(/&quot;/g, '"').replace(/&#x27;/g, "'").replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&amp;/g, '&');
 
-  test('runs in well under 10 s', () => {
-    expect(seconds).toBeLessThan(9);
-  });
 
   test('answers up front: 2T matches silicon at ≈1.73 eV (docs/PHYSICS.md §5: 45.04 %), 4T runs to the perovskite window edge', () => {
     const series = summary.wirings.find((w: any) => w.wiring === 'series');
