@@ -2,7 +2,7 @@
 import type { Spectrum } from '../light/spectrum.js';
 import { UserError } from '../errors.js';
 import { availableParallelism } from 'node:os';
-import { runDesignSearchParallel, type DesignSearchResult } from '../search/design-search.js';
+import { runDesignSearchParallel, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
 import type { StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import { am15g } from '../light/sources.js';
@@ -104,29 +104,27 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const spec = stackFromArgs(placeholder, a);
   const constraints = constraintsFromArgs(a, cells);
   const members = await spectraFromArgs(a, spec.tempK);
+  const question: DesignSearchRequest = {
+    template: spec,
+    spectra: members,
+    constraints,
+    spanEv: spanFromArgs(a.span),
+    stepEv: stepFromArgs(a.step),
+    loss: lossFromArgs(a.loss),
+    freeTopAbsorptance: Boolean(a.freeTopAbsorptance),
+  };
+  const threads = threadsFromArgs(a.threads);
   const bar = a.json ? null : await startProgress('searching');
   let d: DesignSearchResult;
   try {
-    d = await runDesignSearchParallel({
-      template: spec,
-      spectra: members,
-      constraints,
-      spanEv: spanFromArgs(a.span),
-      stepEv: stepFromArgs(a.step),
-      loss: lossFromArgs(a.loss),
-      freeTopAbsorptance: Boolean(a.freeTopAbsorptance),
-      progress: bar?.update,
-    }, threadsFromArgs(a.threads));
+    d = await runDesignSearchParallel({ ...question, progress: bar?.update }, threads);
   } finally {
     bar?.stop();
   }
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
   if (a.ensemble !== undefined) {
-    const reference = await runDesignSearchParallel(
-      { template: spec, spectra: [{ spectrum: am15g(), weight: 1, tempK: spec.tempK }], constraints, spanEv: spanFromArgs(a.span), stepEv: stepFromArgs(a.step), loss: lossFromArgs(a.loss), freeTopAbsorptance: Boolean(a.freeTopAbsorptance) },
-      threadsFromArgs(a.threads),
-    );
+    const reference = await runDesignSearchParallel({ ...question, spectra: [{ spectrum: am15g(), weight: 1, tempK: spec.tempK }] }, threads);
     const refGaps = reference.result.best.gapsEv;
     const yieldOfReference = d.objective.value(refGaps);
     comparison = {

@@ -1,5 +1,5 @@
 /** The light a search or yield uses: one spectrum, or a weighted ensemble. */
-import type { WeightedSpectrum } from '../search/step-objective.js';
+import type { LabelledSpectrum } from '../search/step-objective.js';
 import { spectrumFromArgs, type LightArgs } from './options.js';
 import { UserError } from '../errors.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
@@ -8,9 +8,7 @@ export interface SpectraArgs extends LightArgs {
   ensemble?: string;
 }
 
-export interface LabelledSpectrum extends WeightedSpectrum {
-  label: string;
-}
+export type { LabelledSpectrum };
 
 /** One spectrum at the cell temperature, or every member of --ensemble. */
 export async function spectraFromArgs(a: SpectraArgs, tempK: number): Promise<LabelledSpectrum[]> {

@@ -5,7 +5,7 @@
 import type { EnsembleSummary } from '../light/ensemble.js';
 import type { Spectrum } from '../light/spectrum.js';
 import type { SubcellConstraint } from '../search/design-search.js';
-import type { WeightedSpectrum } from '../search/step-objective.js';
+import type { LabelledSpectrum } from '../search/step-objective.js';
 import type { StackSpec, Wiring } from '../stack/model.js';
 
 export interface SpectrumEntry {
@@ -54,9 +54,7 @@ export interface DesignFile {
   materials?: Record<string, unknown>[];
 }
 
-export interface LabelledSpectrum extends WeightedSpectrum {
-  label: string;
-}
+export type { LabelledSpectrum };
 
 /** The light of a design: one spectrum, or an ensemble of weighted members. */
 export type DesignLight =

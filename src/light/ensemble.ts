@@ -30,7 +30,7 @@ import { basename, dirname, extname, isAbsolute, join, resolve } from 'node:path
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode } from 'yaml';
 import { UserError, fileError } from '../errors.js';
 import { HC_EV_NM } from '../physics/constants.js';
-import type { WeightedSpectrum } from '../search/step-objective.js';
+import type { LabelledSpectrum } from '../search/step-objective.js';
 import { DEFAULT_APE_WINDOW_NM, averagePhotonEnergyEv, makeSpectrum, sha256Hex, sha256OfTable, type Spectrum } from './spectrum.js';
 import {
   abscissaUnitOf,
@@ -47,7 +47,7 @@ import {
   type TableUnits,
 } from './table-file.js';
 
-export interface EnsembleMember extends WeightedSpectrum {
+export interface EnsembleMember extends LabelledSpectrum {
   /** Label shown in reports: a column header, a row's first cell, a manifest label or the file name. */
   label: string;
   /** Timestamp when the input gives one (ISO 8601 text, kept as written). */

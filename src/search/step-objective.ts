@@ -25,6 +25,11 @@ export interface WeightedSpectrum {
   tempK: number;
 }
 
+/** A weighted spectrum with the name people see. */
+export interface LabelledSpectrum extends WeightedSpectrum {
+  label: string;
+}
+
 export interface StepObjectiveOptions {
   cells: number;
   wiring: FastWiring;
