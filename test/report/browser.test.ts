@@ -18,6 +18,25 @@ const EXAMPLE = join(ROOT, 'examples/perovskite-silicon.yaml');
 const ARTIFACTS = join(ROOT, 'test/.artifacts');
 const CHROMIUM = process.env.GAPSTACK_CHROMIUM ?? '/usr/bin/chromium';
 
+/** Open a report file in a fresh headless Chromium, collecting console problems (and requests, if asked). */
+async function openReport(file: string, problems: string[], requests?: string[]): Promise<{ ctx: BrowserContext; page: Page }> {
+  if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: install Debian's chromium package (apt-get install -y chromium)`);
+  const ctx = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'gapstack-chromium-')), {
+    executablePath: CHROMIUM,
+    headless: true,
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    viewport: { width: 1100, height: 900 },
+  });
+  const page = await ctx.newPage();
+  page.on('console', (m) => {
+    if (m.type() === 'error' || m.type() === 'warning') problems.push(`console ${m.type()}: ${m.text()}`);
+  });
+  page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
+  if (requests) page.on('request', (r) => requests.push(r.url()));
+  await page.goto(pathToFileURL(file).href, { waitUntil: 'load' });
+  return { ctx, page };
+}
+
 describe('the example report in headless Chromium', () => {
   let ctx: BrowserContext;
   let page: Page;
@@ -26,23 +45,10 @@ describe('the example report in headless Chromium', () => {
   const requests: string[] = [];
 
   beforeAll(async () => {
-    if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: install Debian's chromium package (apt-get install -y chromium)`);
     mkdirSync(ARTIFACTS, { recursive: true });
     const out = join(ARTIFACTS, 'example-report.html');
     summary = JSON.parse(await reportCommand({ design: EXAMPLE, output: out, json: true }));
-    ctx = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'gapstack-chromium-')), {
-      executablePath: CHROMIUM,
-      headless: true,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-      viewport: { width: 1100, height: 900 },
-    });
-    page = await ctx.newPage();
-    page.on('console', (m) => {
-      if (m.type() === 'error' || m.type() === 'warning') problems.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
-    page.on('request', (r) => requests.push(r.url()));
-    await page.goto(pathToFileURL(out).href, { waitUntil: 'load' });
+    ({ ctx, page } = await openReport(out, problems, requests));
   }, 60_000);
 
   afterAll(async () => {
@@ -153,18 +159,7 @@ describe('the synthetic-year report in headless Chromium', () => {
     mkdirSync(ARTIFACTS, { recursive: true });
     const out = join(ARTIFACTS, 'year-report.html');
     await reportCommand({ design: join(ROOT, 'examples/perovskite-silicon-year.yaml'), output: out });
-    ctx = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'gapstack-chromium-')), {
-      executablePath: CHROMIUM,
-      headless: true,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-      viewport: { width: 1100, height: 900 },
-    });
-    page = await ctx.newPage();
-    page.on('console', (m) => {
-      if (m.type() === 'error' || m.type() === 'warning') problems.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
-    await page.goto(pathToFileURL(out).href, { waitUntil: 'load' });
+    ({ ctx, page } = await openReport(out, problems));
   }, 60_000);
 
   afterAll(async () => {

@@ -6,6 +6,7 @@
  * reference: test/fixtures/reference/runner.py), and docs/PHYSICS.md §4 table for the
  * fully absorbing case.
  */
+import { goldenSectionMax } from '../../src/numerics/golden.js';
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import { am15g } from '../../src/light/sources.js';
@@ -25,29 +26,9 @@ function etaAt(gaps: number[], a: number): number {
   return evaluateStack(s, spectrum).efficiency;
 }
 
-/** Golden-section maximum of f on [lo, hi], to a bracket of 1e-10. */
+/** Golden-section maximum of f on [lo, hi], to a bracket of 1e-10 (the project's shared search). */
 function goldenMax(f: (x: number) => number, lo: number, hi: number): { x: number; f: number } {
-  const g = (Math.sqrt(5) - 1) / 2;
-  let x1 = hi - g * (hi - lo);
-  let x2 = lo + g * (hi - lo);
-  let f1 = f(x1);
-  let f2 = f(x2);
-  while (hi - lo > 1e-10) {
-    if (f1 < f2) {
-      lo = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = lo + g * (hi - lo);
-      f2 = f(x2);
-    } else {
-      hi = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = hi - g * (hi - lo);
-      f1 = f(x1);
-    }
-  }
-  const x = 0.5 * (lo + hi);
+  const x = goldenSectionMax(f, lo, hi, 1e-10);
   return { x, f: f(x) };
 }
 
