@@ -144,6 +144,8 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
     `Best ${d.objective.label}: ${pct(r.best.value, 3)}  wiring ${spec.wiring.label}, ${cells} subcell(s)`,
     `Gaps [eV], top first: ${gapsText(r.best.gapsEv)}${d.topAbsorptance !== undefined ? `   top absorptance ${d.topAbsorptance.toFixed(3)}` : ''}`,
   ];
+  const fixedCells = r.bounds.map((b, i) => (b[0] === b[1] ? `subcell ${i + 1} at ${b[0].toFixed(4)} eV` : '')).filter((t) => t !== '');
+  if (fixedCells.length > 0) lines.push(`Fixed by the question: ${fixedCells.join(', ')} (1 = top).`);
   if (detail) {
     lines.push(
       '',
