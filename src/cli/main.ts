@@ -11,7 +11,7 @@ const EXIT_INTERNAL = 1;
 
 function lightOptions<T>(y: Argv<T>) {
   return y
-    .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt, the default), am1.5d (direct + circumsolar), am0 (extraterrestrial), blackbody:<K>, or a table file' })
+    .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt, the default), am1.5d (direct + circumsolar), am0 (extraterrestrial), clearsky:zenith=Z,… (SPECTRL2 clear sky; keys as gapstack sky), blackbody:<K>, or a table file' })
     .option('suns', { type: 'string', describe: 'concentration [suns], a number or "max" (full concentration ≈ 46 240)' })
     .option('irradiance', { type: 'string', describe: 'rescale the spectrum to this irradiance [W/m²]' })
     .option('units', { type: 'string', describe: 'units of a headerless file: "<nm|um|eV>,<W/m2/nm|W/m2/um|W/m2/eV|photons/m2/s/nm|…>"' });
@@ -130,6 +130,34 @@ async function run(argv: string[]): Promise<void> {
         .option('figures', { type: 'string', describe: 'also write every chart as SVG and PNG, with its data as CSV and JSON, into this folder' })
         .option('json', { type: 'boolean', default: false, describe: 'print a JSON summary of the answer' }),
     async (a) => print(await (await import('./report-command.js')).reportCommand(a as never)),
+  );
+  cli = command(
+    cli,
+    'sky',
+    'sun position (--lat --lon --time), a SPECTRL2 clear-sky spectrum (--zenith …), or a weather file\'s hourly year as an ensemble (--weather … --out)',
+    (y) =>
+      y
+        .option('lat', { type: 'string', describe: 'latitude [°], north positive' })
+        .option('lon', { type: 'string', describe: 'longitude [°], east positive' })
+        .option('time', { type: 'string', describe: 'ISO 8601 time with UTC offset, e.g. 2003-10-17T12:30:30-07:00' })
+        .option('elevation', { type: 'string', describe: 'site elevation [m] (default 0)' })
+        .option('pressure-hpa', { type: 'string', describe: 'surface pressure [hPa] (default 1013.25)' })
+        .option('air-temp', { type: 'string', describe: 'air temperature [°C] for refraction (default 12)' })
+        .option('delta-t', { type: 'string', describe: 'TT − UT1 [s] (default 69)' })
+        .option('zenith', { type: 'string', describe: 'apparent solar zenith [°]: print a SPECTRL2 clear-sky spectrum' })
+        .option('aoi', { type: 'string', describe: 'angle of incidence on the plane [°] (default: the zenith)' })
+        .option('tilt', { type: 'string', describe: 'plane tilt [°] (default 0)' })
+        .option('day', { type: 'string', describe: 'day of year 1–366 (default 81)' })
+        .option('water-cm', { type: 'string', describe: 'precipitable water [cm] (default 1.42)' })
+        .option('ozone-atm-cm', { type: 'string', describe: 'ozone column [atm-cm] (default 0.34)' })
+        .option('aod500', { type: 'string', describe: 'aerosol optical depth at 500 nm (default 0.1)' })
+        .option('albedo', { type: 'string', describe: 'ground albedo (default 0.2)' })
+        .option('air-mass', { type: 'string', describe: 'relative air mass (default Kasten–Young of the zenith)' })
+        .option('alpha', { type: 'string', describe: 'Ångström exponent (default 1.14, rural)' })
+        .option('omega0', { type: 'string', describe: 'single-scattering albedo at 400 nm (default 0.945, rural)' })
+        .option('asymmetry', { type: 'string', describe: 'aerosol asymmetry factor (default 0.65, rural)' })
+        .option('json', { type: 'boolean', default: false }),
+    async (a) => print(await (await import('./sky-command.js')).skyCommand(a as never)),
   );
   cli = command(
     cli,

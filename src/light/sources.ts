@@ -7,6 +7,7 @@ import { fileURLToPath } from 'node:url';
 import { DILUTION_ONE_SUN, MAX_CONCENTRATION } from '../physics/constants.js';
 import { UserError } from '../errors.js';
 import { blackbodySpectrum } from './blackbody.js';
+import { clearSkySpectrum } from './clear-sky-source.js';
 import { scaleSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
 import { readSpectrumFile, spectrumFromText, type TableUnits } from './table-file.js';
 
@@ -74,7 +75,7 @@ export function parseSuns(value: unknown): number | 'max' | undefined {
 }
 
 /**
- * Resolve a spectrum name: "am1.5g", "am1.5d", "am0", "blackbody:<K>" or a file path, then
+ * Resolve a spectrum name: "am1.5g", "am1.5d", "am0", "clearsky:<key=value,…>" (SPECTRL2), "blackbody:<K>" or a file path, then
  * apply concentration (--suns) or a target irradiance. For a blackbody the
  * concentration sets the dilution f = C·(R_sun/D)²; for a table it scales it.
  */
@@ -89,6 +90,8 @@ export function resolveSpectrum(name: string, opts: LightOptions = {}): Spectrum
   const builtin = BUILTIN_SPECTRUM_NAMES[key];
   if (builtin) {
     s = builtin();
+  } else if (key.startsWith('clearsky:')) {
+    s = clearSkySpectrum(name.trim());
   } else if (key.startsWith('blackbody:') || key.startsWith('bb:')) {
     const t = Number(key.slice(key.indexOf(':') + 1).replace(/k$/, ''));
     if (!Number.isFinite(t)) throw new UserError(`"${name}": blackbody temperature must be a number of kelvin, e.g. blackbody:5778`);
