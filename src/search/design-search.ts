@@ -10,7 +10,8 @@ import { describeGap, gapAtTemperature, gapReach, type AbsorberFamily } from '..
 import { REFERENCE_TEMPERATURE_K } from '../materials/index.js';
 import { buildObjective } from './objectives.js';
 import { bandEdgeEnergiesEv, searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
-import { StepObjective, type WeightedSpectrum, type GapObjective } from './step-objective.js';
+import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
+import { StepObjective, type GapObjective } from './step-objective.js';
 
 /** How one subcell may vary. */
 export type SubcellConstraint =

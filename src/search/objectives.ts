@@ -6,7 +6,8 @@
  */
 import type { StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
-import { StepObjective, type GapObjective, type WeightedSpectrum } from './step-objective.js';
+import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
+import { StepObjective, type GapObjective } from './step-objective.js';
 
 /** Any stack: gaps substituted into a template and evaluated in full per spectrum. */
 export class GenericObjective implements GapObjective {

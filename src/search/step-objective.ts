@@ -10,25 +10,13 @@
  * Yield over spectra k: Σ w_k·P_k / Σ w_k·P_in,k (docs/PHYSICS.md §8).
  */
 import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
-import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';
+import { photonsAboveEv } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
 import { lambertW0OfExp } from '../junction/lambert-w.js';
 import { goldenSectionMax } from '../numerics/golden.js';
+import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 
 export type FastWiring = 'series' | 'independent';
-
-export interface WeightedSpectrum {
-  spectrum: Spectrum;
-  /** Weight (hours or energy share) [-]. */
-  weight: number;
-  /** Cell temperature under this spectrum [K]. */
-  tempK: number;
-}
-
-/** A weighted spectrum with the name people see. */
-export interface LabelledSpectrum extends WeightedSpectrum {
-  label: string;
-}
 
 export interface StepObjectiveOptions {
   cells: number;
