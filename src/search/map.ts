@@ -9,7 +9,7 @@ import { j0RadStepAm2 } from '../junction/radiative.js';
 import { UserError } from '../errors.js';
 import { StepObjective, type GapObjective } from './step-objective.js';
 import { nelderMeadMax } from './refine.js';
-import { maximiseScan } from '../stack/electrical.js';
+import { maximiseScan } from '../numerics/golden.js';
 
 export interface MapRequest {
   /** Axis values [eV] of the upper mapped subcell. */
