@@ -10,7 +10,7 @@ import { UserError } from '../errors.js';
 import { HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import { computeMap, uniformAxis } from '../search/map.js';
 import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
-import { StepObjective } from '../search/step-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 import { evaluateStack, type StackResult } from '../stack/evaluate.js';
 import type { StackSpec } from '../stack/model.js';
 import { stackOptics } from '../stack/optics.js';

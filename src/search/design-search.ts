@@ -7,10 +7,11 @@
 import type { StackSpec } from '../stack/model.js';
 import { UserError } from '../errors.js';
 import { describeGap, gapAtReference, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
-import { buildObjective } from './objectives.js';
+import { buildObjective } from '../stack/objectives.js';
 import { bandEdgeEnergiesEv, searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
-import { StepObjective, type GapObjective } from './step-objective.js';
+import type { GapObjective } from '../stack/gap-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 
 /** How one subcell may vary. */
 export type SubcellConstraint =

@@ -10,7 +10,7 @@
 import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import { photonsAboveEv } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
-import { singlePowerWm2, type StepObjective } from './step-objective.js';
+import { singlePowerWm2, type StepObjective } from '../stack/step-objective.js';
 
 export interface Candidate {
   /** Gaps [eV], top first. */

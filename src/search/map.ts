@@ -7,7 +7,8 @@ import { ELEMENTARY_CHARGE_C } from '../physics/constants.js';
 import { photonsAboveEv } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
 import { UserError } from '../errors.js';
-import { StepObjective, type GapObjective } from './step-objective.js';
+import type { GapObjective } from '../stack/gap-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 import { nelderMeadMax } from './refine.js';
 import { maximiseScan } from '../numerics/golden.js';
 

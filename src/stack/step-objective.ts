@@ -1,5 +1,5 @@
 /**
- * The search's hot path: efficiency of ideal-step stacks (constant
+ * The search's hot path, stack physics for ideal steps: efficiency of ideal-step stacks (constant
  * absorptance, no coupling) under one spectrum or a weighted set, in closed
  * form from the cumulative photon tables, with no allocation per call.
  *
@@ -15,6 +15,7 @@ import { j0RadStepAm2 } from '../junction/radiative.js';
 import { lambertW0OfExp } from '../junction/lambert-w.js';
 import { goldenSectionMax } from '../numerics/golden.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
+import type { GapObjective } from './gap-objective.js';
 
 export type FastWiring = 'series' | 'independent';
 
@@ -84,15 +85,6 @@ export function singlePowerWm2(jph: number, j0: number, vt: number): number {
   const w = lambertW0OfExp(1 + Math.log1p(jph / j0));
   const v = vt * (w - 1);
   return v * (jph - j0 * Math.expm1(w - 1));
-}
-
-/** A stack objective over gaps (top first, [eV]); higher is better. */
-export interface GapObjective {
-  readonly cells: number;
-  /** Efficiency (or yield-weighted efficiency) [-] at continuous gaps [eV]. */
-  value(gapsEv: ArrayLike<number>): number;
-  /** Describe what is maximised, for reports. */
-  readonly label: string;
 }
 
 /** Fast objective for step stacks without coupling. */
