@@ -134,6 +134,19 @@ export class StepObjective implements GapObjective {
     return p;
   }
 
+  /**
+   * Tables over an axis of gaps [eV], one per spectrum, for searches that
+   * evaluate many stacks on the same axis through `powerFromTables`:
+   * q·N(E) [A/m²] (photons above E, docs/PHYSICS.md §2) and the radiative J0
+   * of an ideal step at E [A/m²] (Shockley & Queisser 1961).
+   */
+  axisTables(axisEv: ArrayLike<number>): { qnAm2: Float64Array; j0RadAm2: Float64Array }[] {
+    return this.opts.spectra.map((ws) => ({
+      qnAm2: Float64Array.from(axisEv, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(ws.spectrum, e)),
+      j0RadAm2: Float64Array.from(axisEv, (e) => j0RadStepAm2(e, ws.tempK)),
+    }));
+  }
+
   private readonly qnScratch = new Float64Array(6);
   private readonly j0Scratch = new Float64Array(6);
 
