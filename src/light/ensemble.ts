@@ -57,7 +57,7 @@ export interface EnsembleMember extends LabelledSpectrum {
 /** How the weights are meant: hours (so Σ w·P is energy [Wh/m²]) or relative energy shares [-]. */
 export type WeightUnit = 'hours' | 'share';
 
-export type EnsembleLayout = 'folder' | 'csv-manifest' | 'yaml-manifest' | 'wide-columns' | 'wide-rows';
+export type EnsembleLayout = 'folder' | 'csv-manifest' | 'yaml-manifest' | 'wide-columns' | 'wide-rows' | 'weather-year';
 
 export interface Ensemble {
   name: string;

@@ -174,24 +174,24 @@ export function spectrl2(i: Spectrl2Inputs, plane: Plane = { aoiDeg: i.zenithDeg
     const aw = t.water[k];
     const ao = t.ozone[k];
     const au = t.mixedGas[k];
-    const rayleigh = (mm: number) => Math.exp(-mm / (um ** 4 * (115.6406 - 1.3366 / (um * um))));
-    const water = (mm: number) => Math.exp((-0.2385 * aw * w * mm) / (1 + 20.07 * aw * w * mm) ** 0.45);
-    const mixed = (mm: number) => Math.exp((-1.41 * au * mm) / (1 + 118.3 * au * mm) ** 0.45);
+    // Rayleigh, water and mixed-gas transmittances at the hour's M (M') and at M = 1.8 (M' = 1.8·P/101300).
+    const rayleighDepth = 1 / (um ** 4 * (115.6406 - 1.3366 / (um * um)));
+    const awW = aw * w;
     const tau = i.aod500 * (lambdaNm / 500) ** -i.alpha;
     const lnRatio = Math.log(lambdaNm / 400);
     const omega = i.omega0 * Math.exp(-i.omegaPrime * lnRatio * lnRatio);
 
-    const tr = rayleigh(mP);
+    const tr = Math.exp(-mP * rayleighDepth);
     const ta = Math.exp(-tau * m);
-    const tw = water(m);
+    const tw = awW === 0 ? 1 : Math.exp((-0.2385 * awW * m) / (1 + 20.07 * awW * m) ** 0.45);
     const to = Math.exp(-ao * i.ozoneAtmCm * mO);
-    const tu = mixed(mP);
+    const tu = au === 0 ? 1 : Math.exp((-1.41 * au * mP) / (1 + 118.3 * au * mP) ** 0.45);
     const tas = Math.exp(-omega * tau * m);
     const taa = Math.exp(-(1 - omega) * tau * m);
 
-    const trP = rayleigh(mPPrimed);
-    const twP = water(mPrimed);
-    const tuP = mixed(mPPrimed);
+    const trP = Math.exp(-mPPrimed * rayleighDepth);
+    const twP = awW === 0 ? 1 : Math.exp((-0.2385 * awW * mPrimed) / (1 + 20.07 * awW * mPrimed) ** 0.45);
+    const tuP = au === 0 ? 1 : Math.exp((-1.41 * au * mPPrimed) / (1 + 118.3 * au * mPPrimed) ** 0.45);
     const tasP = Math.exp(-omega * tau * mPrimed);
     const taaP = Math.exp(-(1 - omega) * tau * mPrimed);
     const rs = tuP * twP * taaP * (0.5 * (1 - trP) + (1 - fsPrimed) * trP * (1 - tasP));
@@ -205,10 +205,7 @@ export function spectrl2(i: Spectrl2Inputs, plane: Plane = { aoiDeg: i.zenithDeg
     const is = (ir + ia + ig) * cs;
     const igh = id * cosZ + is;
 
-    const anisotropy = id / h0d;
-    const beam = id * cosAoi;
-    const sky = is * (anisotropy * rb + (1 - anisotropy) * (1 + cosBeta) / 2);
-    const ground = igh * i.albedo * (1 - cosBeta) / 2;
+    const { beam, sky, ground } = planeParts(id, is, h0d, cosZ, cosAoi, cosBeta, rb, i.albedo);
     out.etrWm2Nm[k] = h0d;
     out.dniWm2Nm[k] = id;
     out.dhiWm2Nm[k] = is;
@@ -219,6 +216,24 @@ export function spectrl2(i: Spectrl2Inputs, plane: Plane = { aoiDeg: i.zenithDeg
     out.poaWm2Nm[k] = beam + sky + ground;
   }
   return out;
+}
+
+/**
+ * Irradiance on a tilted plane from direct normal and diffuse horizontal at one
+ * wavelength (docs/PHYSICS.md §10): beam I_d·max(cos θ, 0); sky diffuse by Hay &
+ * Davies (1980), I_s·[A·R_b + (1 − A)(1 + cos β)/2] with A = I_d/(H₀D); ground
+ * (I_d cos Z + I_s)·ρ·(1 − cos β)/2, isotropic. All in the same unit as the inputs.
+ * @param id direct normal; @param is diffuse horizontal; @param h0d extraterrestrial at the day's distance
+ * @param cosZ cosine of the zenith; @param cosAoi max(cos θ, 0); @param cosBeta cosine of the tilt
+ * @param rb max(cos θ, 0)/max(cos Z, 0.01745); @param albedo ground albedo ρ [-]
+ */
+export function planeParts(id: number, is: number, h0d: number, cosZ: number, cosAoi: number, cosBeta: number, rb: number, albedo: number): { beam: number; sky: number; ground: number } {
+  const anisotropy = h0d > 0 ? Math.min(1, id / h0d) : 0;
+  return {
+    beam: id * cosAoi,
+    sky: is * (anisotropy * rb + ((1 - anisotropy) * (1 + cosBeta)) / 2),
+    ground: ((id * cosZ + is) * albedo * (1 - cosBeta)) / 2,
+  };
 }
 
 /** Trapezoid integral of a spectral column over the model's wavelengths [W/m²]. */
