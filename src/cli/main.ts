@@ -30,7 +30,24 @@ function stackOptions<T>(y: Argv<T>) {
     .option('top-urbach', { type: 'string', describe: 'top-cell Urbach energy [eV] (default 0.015)' })
     .option('top-optics', { type: 'string', describe: 'top-cell light path: single | double | lambertian (default single)' })
     .option('reflectance', { type: 'string', describe: 'front reflectance [0, 1) (default 0)' })
-    .option('interlayer-t', { type: 'string', describe: 'transmittance of each interlayer (0, 1], one value or one per interface (default 1)' });
+    .option('interlayer-t', { type: 'string', describe: 'transmittance of each interlayer (0, 1], one value or one per interface (default 1)' })
+    .option('dgap-dt', { type: 'string', describe: 'dE_g/dT [eV/K], one value or one per subcell: gaps are stated at 300 K and move with each spectrum\'s cell temperature' });
+}
+
+/* Weather options (their parsing lives in weather-options.ts, loaded with the command). */
+/** Register the weather options on a command. */
+function weatherOptions<T>(y: Argv<T>) {
+  return y
+    .option('weather', { type: 'string', describe: 'weather file (EPW or NSRDB TMY3 CSV): its hourly year becomes the ensemble (needs --tilt and --azimuth)' })
+    .option('tilt', { type: 'string', describe: 'with --weather: module tilt [°] from horizontal' })
+    .option('azimuth', { type: 'string', describe: 'with --weather: azimuth the module faces [°] east of north (180 = south); with a tracker, its axis azimuth' })
+    .option('albedo', { type: 'string', describe: 'with --weather: ground albedo (default: the file\'s, else 0.2)' })
+    .option('tracking', { type: 'string', describe: 'with --weather: none (fixed plane, default) | single-axis (horizontal axis)' })
+    .option('max-rotation', { type: 'string', describe: 'with --tracking single-axis: largest rotation [°] (default 60)' })
+    .option('aod500', { type: 'string', describe: 'with --weather: aerosol optical depth at 500 nm for every hour (default: the file\'s, else 0.1)' })
+    .option('water-cm', { type: 'string', describe: 'with --weather: precipitable water [cm] for every hour (default: the file\'s, else from dew point)' })
+    .option('ozone-atm-cm', { type: 'string', describe: 'with --weather: ozone column [atm-cm] (default 0.3)' })
+    .option('faiman', { type: 'string', describe: 'with --weather: Faiman cell-temperature coefficients "U0,U1" [W/m²/K, W·s/m³/K] (default 25,6.84)' });
 }
 
 type Handler = (a: Record<string, unknown>) => Promise<void>;
@@ -79,12 +96,13 @@ async function run(argv: string[]): Promise<void> {
       .option('full-range', { type: 'boolean', default: false, describe: 'let material-bound subcells use the family\'s full reach, not its practical window (warns)' })
       .option('span', { type: 'string', describe: 'global gap span [eV], low:high (default 0.5:2.6)' })
       .option('ensemble', { type: 'string', describe: 'a set of spectra (folder, manifest or wide table): maximise the yield-weighted efficiency' });
+  const searchWithWeather = (y: Argv) => weatherOptions(searchOptions(y));
   cli = command(
     cli,
     'optimize',
     'global optimum gaps, runner-up basins and the tolerance region',
     (y) =>
-      searchOptions(y)
+      searchWithWeather(y)
         .option('step', { type: 'string', describe: 'coarse grid step [eV] (default 5–40 meV by free subcells); refinement goes below 1 meV' })
         .option('loss', { type: 'string', describe: 'relative efficiency loss that bounds the tolerance region (default 0.01)' })
         .option('free-top-absorptance', { type: 'boolean', default: false, describe: '2T: let the search thin the top cell (constant absorptance above its gap)' })
@@ -97,7 +115,7 @@ async function run(argv: string[]): Promise<void> {
     'map',
     'efficiency over two subcell gaps (others fixed, or maximised: a profile map) as CSV or JSON',
     (y) =>
-      searchOptions(y)
+      searchWithWeather(y)
         .option('axes', { type: 'string', describe: 'the two mapped subcells "i,j", upper first (default 1,2)' })
         .option('x', { type: 'string', describe: 'gap range of the upper mapped subcell [eV], low:high', demandOption: true })
         .option('y', { type: 'string', describe: 'gap range of the lower mapped subcell [eV], low:high', demandOption: true })
@@ -111,9 +129,9 @@ async function run(argv: string[]): Promise<void> {
     'yield',
     'yield-weighted efficiency of one stack over a set of spectra (each re-solved: 2T re-matches its current)',
     (y) =>
-      stackOptions(y)
+      weatherOptions(stackOptions(y))
         .option('gaps', { type: 'string', describe: 'band gaps [eV], top first', demandOption: true })
-        .option('ensemble', { type: 'string', describe: 'folder of spectra, manifest (CSV/YAML) or wide table', demandOption: true })
+        .option('ensemble', { type: 'string', describe: 'folder of spectra, manifest (CSV/YAML) or wide table (or give --weather)' })
         .option('units', { type: 'string', describe: 'units of headerless member files' })
         .option('ape-window', { type: 'string', describe: 'window for the average photon energy [nm], low:high (default 350:1050)' })
         .option('json', { type: 'boolean', default: false }),
@@ -156,6 +174,12 @@ async function run(argv: string[]): Promise<void> {
         .option('alpha', { type: 'string', describe: 'Ångström exponent (default 1.14, rural)' })
         .option('omega0', { type: 'string', describe: 'single-scattering albedo at 400 nm (default 0.945, rural)' })
         .option('asymmetry', { type: 'string', describe: 'aerosol asymmetry factor (default 0.65, rural)' })
+        .option('weather', { type: 'string', describe: 'weather file (EPW or NSRDB TMY3 CSV): build its hourly year on the plane --tilt/--azimuth' })
+        .option('azimuth', { type: 'string', describe: 'with --weather: azimuth the module faces [°] east of north (180 = south); with a tracker, its axis azimuth' })
+        .option('tracking', { type: 'string', describe: 'with --weather: none (default) | single-axis (horizontal axis)' })
+        .option('max-rotation', { type: 'string', describe: 'with --tracking single-axis: largest rotation [°] (default 60)' })
+        .option('faiman', { type: 'string', describe: 'with --weather: Faiman coefficients "U0,U1" (default 25,6.84)' })
+        .option('out', { type: 'string', describe: 'with --weather: folder to write the hourly spectra and manifest (an ensemble)' })
         .option('json', { type: 'boolean', default: false }),
     async (a) => print(await (await import('./sky-command.js')).skyCommand(a as never)),
   );

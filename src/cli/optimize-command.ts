@@ -2,7 +2,7 @@
 import type { Spectrum } from '../light/spectrum.js';
 import { UserError } from '../errors.js';
 import { availableParallelism } from 'node:os';
-import { runDesignSearchParallel, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
+import { runDesignSearchParallel, withFamilySlopes, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
 import type { StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import { am15g } from '../light/sources.js';
@@ -104,8 +104,9 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const spec = stackFromArgs(placeholder, a);
   const constraints = constraintsFromArgs(a, cells);
   const members = await spectraFromArgs(a, spec.tempK);
+  const ensembleLight = a.ensemble !== undefined || a.weather !== undefined;
   const question: DesignSearchRequest = {
-    template: spec,
+    template: ensembleLight ? withFamilySlopes(spec, constraints) : spec,
     spectra: members,
     constraints,
     spanEv: spanFromArgs(a.span),
@@ -123,7 +124,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   }
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
-  if (a.ensemble !== undefined) {
+  if (ensembleLight) {
     const reference = await runDesignSearchParallel({ ...question, spectra: [{ spectrum: am15g(), weight: 1, tempK: spec.tempK }] }, threads);
     const refGaps = reference.result.best.gapsEv;
     const yieldOfReference = d.objective.value(refGaps);

@@ -118,6 +118,8 @@ export interface StackArgs {
   topOptics?: unknown;
   reflectance?: unknown;
   interlayerT?: unknown;
+  /** dE_g/dT per subcell [eV/K]. */
+  dgapDt?: unknown;
 }
 
 /** Absorptance of the top cell from --top-absorptance or --top-thickness and its model. */
@@ -157,7 +159,8 @@ export function stackFromArgs(gapsEv: number[], a: StackArgs): StackSpec {
   const tempK = tempFromArgs(a.temp);
   const ere = ereFromArgs(a.ere, a.vocLoss, n, tempK);
   const top = topAbsorptanceFromArgs(a);
-  const subcells: SubcellSpec[] = gapsEv.map((g, i) => ({ gapEv: g, ere: ere[i], absorptance: i === 0 ? top : { kind: 'step', value: 1 } }));
+  const slopes = dgapDtFromArgs(a.dgapDt, n);
+  const subcells: SubcellSpec[] = gapsEv.map((g, i) => ({ gapEv: g, ere: ere[i], absorptance: i === 0 ? top : { kind: 'step', value: 1 }, ...(slopes ? { dEgDtEvPerK: slopes[i] } : {}) }));
   const r = a.reflectance === undefined ? 0 : parseNumber('reflectance', a.reflectance);
   if (!(r >= 0 && r < 1)) throw new UserError(`--reflectance must be within [0, 1), got ${r}`);
   if (n === 1 && a.interlayerT !== undefined) throw new UserError('--interlayer-t needs at least 2 subcells (it sits between them)');
@@ -171,6 +174,14 @@ export function stackFromArgs(gapsEv: number[], a: StackArgs): StackSpec {
     coupling: couplingFromArgs(a.lc, n),
     wiring: wiringFromArgs(a.wiring, n),
   };
+}
+
+/** --dgap-dt: dE_g/dT per subcell [eV/K] (one value or one per subcell); gaps are then stated at 300 K. */
+export function dgapDtFromArgs(value: unknown, n: number): number[] | undefined {
+  if (value === undefined) return undefined;
+  const v = perItem('dgap-dt', parseNumberList('dgap-dt', value), n, 'subcell');
+  for (const x of v) if (!(Math.abs(x) <= 0.01)) throw new UserError(`--dgap-dt is in eV/K and lies within ±0.01 (Si ≈ −2.5e-4, lead-halide perovskites ≈ +3e-4), got ${x}`);
+  return v;
 }
 
 /** Gaps from --gaps: positive numbers, top first. */

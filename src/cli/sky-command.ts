@@ -32,6 +32,7 @@ export interface SkyArgs {
   omega0?: unknown;
   asymmetry?: unknown;
   weather?: unknown;
+  out?: unknown;
   json?: boolean;
 }
 
@@ -162,9 +163,10 @@ function clearSkyCommand(a: SkyArgs): string {
 }
 
 export async function skyCommand(a: SkyArgs): Promise<string> {
-  const modes = [a.zenith !== undefined, a.lat !== undefined || a.lon !== undefined || a.time !== undefined].filter(Boolean).length;
-  if (modes > 1) throw new UserError('give one of: --lat/--lon/--time (sun position) or --zenith (clear-sky spectrum)');
+  const modes = [a.weather !== undefined, a.zenith !== undefined, a.lat !== undefined || a.lon !== undefined || a.time !== undefined].filter(Boolean).length;
+  if (modes > 1) throw new UserError('give one of: --lat/--lon/--time (sun position), --zenith (clear-sky spectrum) or --weather (site year)');
+  if (a.weather !== undefined) return (await import('./sky-weather.js')).skyWeatherCommand(a as never);
   if (a.zenith !== undefined) return clearSkyCommand(a);
   if (a.lat !== undefined || a.lon !== undefined || a.time !== undefined) return sunCommand(a);
-  throw new UserError('sky needs --lat/--lon/--time (sun position) or --zenith (clear-sky spectrum); see gapstack sky --help');
+  throw new UserError('sky needs --lat/--lon/--time (sun position), --zenith (clear-sky spectrum) or --weather FILE --tilt --azimuth (site year); see gapstack sky --help');
 }

@@ -3,15 +3,22 @@ import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
 import { spectrumFromArgs, type LightArgs } from './options.js';
 import { UserError } from '../errors.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
+import { checkWeatherOnlyOptions, siteYearFromArgs, type WeatherArgs } from './weather-options.js';
 
-export interface SpectraArgs extends LightArgs {
+export interface SpectraArgs extends LightArgs, WeatherArgs {
   ensemble?: string;
 }
 
 export type { LabelledSpectrum };
 
-/** One spectrum at the cell temperature, or every member of --ensemble. */
+/** One spectrum at the cell temperature, every member of --ensemble, or the hours of --weather. */
 export async function spectraFromArgs(a: SpectraArgs, tempK: number): Promise<LabelledSpectrum[]> {
+  checkWeatherOnlyOptions(a);
+  if (a.weather !== undefined) {
+    if (a.spectrum !== undefined || a.ensemble !== undefined) throw new UserError('give one light: --spectrum, --ensemble or --weather');
+    if (a.suns !== undefined || a.irradiance !== undefined) throw new UserError('--suns and --irradiance apply to one spectrum; a weather year carries its own irradiance');
+    return (await siteYearFromArgs(a)).ensemble.members;
+  }
   if (a.ensemble !== undefined) {
     if (a.spectrum !== undefined) throw new UserError('give either --spectrum or --ensemble, not both');
     if (a.suns !== undefined || a.irradiance !== undefined) throw new UserError('--suns and --irradiance apply to one spectrum; an ensemble carries its own irradiance');

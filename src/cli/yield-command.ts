@@ -13,8 +13,11 @@ import type { StackSpec } from '../stack/model.js';
 import { CAUTION, describeAbsorptance, describeCoupling, EMISSION_CONVENTION } from '../report/assumptions.js';
 import { fix, pct, round, table } from './format.js';
 import { gapsFromArgs, parseRange, stackFromArgs, type StackArgs } from './options.js';
+import { checkWeatherOnlyOptions, siteOptionsFromArgs, type WeatherArgs } from './weather-options.js';
+import { loadSiteYear, type SiteYear } from '../light/site-year.js';
+import { hasMovingGaps } from '../stack/model.js';
 
-export interface YieldArgs extends StackArgs {
+export interface YieldArgs extends StackArgs, WeatherArgs {
   gaps?: unknown;
   /** Folder of spectra, manifest (.csv/.yaml) or wide table. */
   ensemble?: unknown;
@@ -37,7 +40,11 @@ export function yieldAssumptions(spec: StackSpec, e: Ensemble, s: EnsembleSummar
     `ensemble: ${e.name}, ${e.source}, SHA-256 ${e.sha256.slice(0, 16)}…`,
     `spectra are taken as the irradiance reaching the cell's front surface; each is solved on its own table`,
     `outside a table: ${s.outOfRangePolicy}`,
-    `cell temperature per spectrum: ${s.tempK.min === s.tempK.max ? `${s.tempK.min} K` : `${s.tempK.min}–${s.tempK.max} K`} (members without one: --temp, default 300 K); gaps and ERE held fixed across temperatures`,
+    `cell temperature per spectrum: ${s.tempK.min === s.tempK.max ? `${s.tempK.min} K` : `${round(s.tempK.min, 5)}–${round(s.tempK.max, 5)} K`} (members without one: --temp, default 300 K); ${
+      hasMovingGaps(spec)
+        ? `gaps stated at 300 K move with each spectrum's cell temperature by dE_g/dT (${spec.subcells.map((c) => (c.dEgDtEvPerK ? `${c.dEgDtEvPerK.toExponential(2)} eV/K` : 'fixed')).join(', ')}); ERE held`
+        : 'gaps and ERE held fixed across temperatures (no dE_g/dT given: --dgap-dt)'
+    }`,
     `emission: ${EMISSION_CONVENTION}`,
     `ERE: ${eres.every((x) => x === 1) ? '1 (fully radiative)' : eres.join(', ')}`,
     `optics: ${spec.subcells.map((c, i) => `${i + 1}: ${describeAbsorptance(c.absorptance)}`).join('; ')}; front reflectance ${typeof spec.frontReflectance === 'number' ? spec.frontReflectance : 'tabulated'}`,
@@ -68,9 +75,10 @@ function summaryJson(s: EnsembleSummary): Record<string, unknown> {
 }
 
 /** JSON form of a yield run (currents in mA/cm², powers in W/m², energies in Wh/m²). */
-export function yieldJson(spec: StackSpec, e: Ensemble, s: EnsembleSummary, y: YieldResult, am15gEfficiency: number): Record<string, unknown> {
+export function yieldJson(spec: StackSpec, e: Ensemble, s: EnsembleSummary, y: YieldResult, am15gEfficiency: number, site?: SiteYear): Record<string, unknown> {
   const hours = e.weightUnit === 'hours';
   return {
+    ...(site ? { site: siteJson(site, y) } : {}),
     yield_efficiency: round(y.yieldEfficiency, 12),
     weight_unit: e.weightUnit,
     total_weight: round(y.totalWeight),
@@ -105,24 +113,80 @@ export function yieldJson(spec: StackSpec, e: Ensemble, s: EnsembleSummary, y: Y
     })),
     summary: summaryJson(s),
     ensemble: { name: e.name, sha256: e.sha256, source: e.source, layout: e.layout, skipped: e.skipped },
-    assumptions: yieldAssumptions(spec, e, s),
+    assumptions: [...yieldAssumptions(spec, e, s), ...(site ? site.assumptions : [])],
     caution: CAUTION,
   };
+}
+
+/** Monthly plane-of-array insolation and yield [kWh/m²] of a site year. */
+export function siteMonthly(site: SiteYear, y: YieldResult): { month: number; hours: number; poaKwhM2: number; yieldKwhM2: number }[] {
+  const out = site.monthly.map((m) => ({ month: m.month, hours: m.hours, poaKwhM2: 0, yieldKwhM2: 0 }));
+  y.perSpectrum.forEach((p, k) => {
+    const m = out[site.hours[k].month - 1];
+    m.poaKwhM2 += (p.weight * p.pinWm2) / 1000;
+    m.yieldKwhM2 += (p.weight * p.pmaxWm2) / 1000;
+  });
+  return out;
+}
+
+/** The site part of a weather-year yield: annual sums, monthly split, skipped hours, defaults. */
+export function siteJson(site: SiteYear, y: YieldResult): Record<string, unknown> {
+  return {
+    name: site.site.name,
+    latitude_deg: site.site.latitudeDeg,
+    longitude_deg: site.site.longitudeDeg,
+    elevation_m: site.site.elevationM,
+    utc_offset_h: site.site.utcOffsetHours,
+    format: site.format,
+    annual_poa_insolation_kwh_m2: round(y.weightedPinWm2 / 1000),
+    annual_yield_kwh_m2: round(y.weightedPmaxWm2 / 1000),
+    yield_efficiency: round(y.yieldEfficiency, 12),
+    file_sums_kwh_m2: { ghi: round(site.totals.ghiKwhM2), dni: round(site.totals.dniKwhM2), dhi: round(site.totals.dhiKwhM2) },
+    hours: { in_file: site.totals.fileHours, used: site.totals.usedHours },
+    skipped: site.skipped.map((k) => ({ reason: k.reason, hours: k.count, ghi_kwh_m2: round(k.ghiKwhM2), first_line: k.firstLine })),
+    defaults_used: site.defaultsUsed,
+    monthly: siteMonthly(site, y).map((m) => ({ month: m.month, hours: m.hours, poa_kwh_m2: round(m.poaKwhM2), yield_kwh_m2: round(m.yieldKwhM2) })),
+  };
+}
+
+/** Text lines of the site part. */
+export function siteLines(site: SiteYear, y: YieldResult): string[] {
+  const skipped = site.skipped.map((k) => `${k.count} h ${k.reason}${k.ghiKwhM2 > 0.0005 ? ` (GHI ${k.ghiKwhM2.toFixed(2)} kWh/m² left out)` : ''}`);
+  const monthly = siteMonthly(site, y);
+  const names = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+  return [
+    `Site ${site.site.name} (${site.site.latitudeDeg}°, ${site.site.longitudeDeg}°, ${site.site.elevationM} m), ${site.format.toUpperCase()} weather year:`,
+    `  annual plane-of-array insolation ${(y.weightedPinWm2 / 1000).toFixed(1)} kWh/m²; annual yield ${(y.weightedPmaxWm2 / 1000).toFixed(1)} kWh/m²; yield-weighted efficiency ${pct(y.yieldEfficiency, 3)}`,
+    `  file sums: GHI ${site.totals.ghiKwhM2.toFixed(1)}, DNI ${site.totals.dniKwhM2.toFixed(1)}, DHI ${site.totals.dhiKwhM2.toFixed(1)} kWh/m²; ${site.totals.usedHours} of ${site.totals.fileHours} hours used`,
+    `  skipped: ${skipped.join('; ') || 'none'}`,
+    `  defaults and estimates: ${site.defaultsUsed.join('; ')}`,
+    '',
+    table(['month', 'hours', 'POA [kWh/m²]', 'yield [kWh/m²]'], monthly.map((m) => [names[m.month - 1], String(m.hours), fix(m.poaKwhM2, 1), fix(m.yieldKwhM2, 2)])),
+  ];
 }
 
 export function yieldCommand(a: YieldArgs): string {
   const gaps = gapsFromArgs(a.gaps);
   const spec = stackFromArgs(gaps, a);
-  if (a.ensemble === undefined || String(a.ensemble).trim() === '') {
-    throw new UserError('--ensemble is required: a folder of spectrum files, a manifest (.csv with file,weight,temp_k or .yaml) or a wide table');
+  checkWeatherOnlyOptions(a);
+  let site: SiteYear | undefined;
+  let e: Ensemble;
+  if (a.weather !== undefined) {
+    if (a.ensemble !== undefined) throw new UserError('give either --ensemble or --weather, not both');
+    site = loadSiteYear(String(a.weather), siteOptionsFromArgs(a));
+    e = site.ensemble;
+  } else {
+    if (a.ensemble === undefined || String(a.ensemble).trim() === '') {
+      throw new UserError('--ensemble is required (or --weather): a folder of spectrum files, a manifest (.csv with file,weight,temp_k or .yaml), a wide table, or a weather file (EPW/TMY3) with --tilt and --azimuth');
+    }
+    e = loadEnsemble(String(a.ensemble), { defaultTempK: spec.tempK, units: a.units === undefined ? undefined : parseUnitDeclaration(a.units) });
   }
-  const e = loadEnsemble(String(a.ensemble), { defaultTempK: spec.tempK, units: a.units === undefined ? undefined : parseUnitDeclaration(a.units) });
   const window = a.apeWindow === undefined ? undefined : parseRange('ape-window', a.apeWindow);
   const lowestGapEv = Math.min(...gaps);
   const s = ensembleSummary(e, window, { lowestGapEv });
   const y = yieldForStack(spec, e.members);
   const ref = evaluateStack(spec, am15g()).efficiency;
-  if (a.json) return JSON.stringify(yieldJson(spec, e, s, y, ref), null, 2);
+  if (a.json) return JSON.stringify(yieldJson(spec, e, s, y, ref, site), null, 2);
 
   const hours = e.weightUnit === 'hours';
   const wUnit = hours ? 'h' : 'share';
@@ -147,12 +211,13 @@ export function yieldCommand(a: YieldArgs): string {
     const equal = e.members.every((m) => m.weight === e.members[0].weight);
     out.push(`Weights are ${equal ? 'equal' : 'relative energy shares'} (total ${fix(y.totalWeight, 4)}); no energy totals without hours.`);
   }
+  if (site) out.push('', ...siteLines(site, y));
   const ape = s.ape;
   out.push(
     '',
     `Ensemble ${e.name}: ${e.source}`,
     `  irradiance: weighted mean ${s.weightedMeanIrradianceWm2.toFixed(1)} W/m², min ${s.irradianceWm2.min.toFixed(1)}, weighted median ${s.irradianceWm2.median.toFixed(1)}, max ${s.irradianceWm2.max.toFixed(1)} W/m²`,
-    `  cell temperature: ${s.tempK.min === s.tempK.max ? s.tempK.min : `${s.tempK.min}–${s.tempK.max}`} K`,
+    `  cell temperature: ${s.tempK.min === s.tempK.max ? fix(s.tempK.min, 2) : `${fix(s.tempK.min, 2)}–${fix(s.tempK.max, 2)}`} K`,
     `  average photon energy (${ape.windowNm[0]}–${ape.windowNm[1]} nm): weighted mean ${fix(ape.weightedMeanEv, 4)} eV`,
   );
   if (ape.histogram.weights.length > 0) {
@@ -163,6 +228,6 @@ export function yieldCommand(a: YieldArgs): string {
   if (y.perSpectrum.length > TEXT_ROWS_SHOWN) out.push(`… ${y.perSpectrum.length - TEXT_ROWS_SHOWN} more spectra (all of them with --json)`);
   if (e.skipped.length > 0) out.push('', `Skipped in the folder (not spectra): ${e.skipped.join(', ')}`);
   if (s.warnings.length > 0) out.push('', 'Warnings:', ...s.warnings.map((w) => `  ! ${w}`));
-  out.push('', 'Cell 1 is the top (light side). Assumptions:', ...yieldAssumptions(spec, e, s).map((l) => `  ${l}`), '', CAUTION);
+  out.push('', 'Cell 1 is the top (light side). Assumptions:', ...[...yieldAssumptions(spec, e, s), ...(site ? site.assumptions : [])].map((l) => `  ${l}`), '', CAUTION);
   return out.join('\n');
 }

@@ -160,3 +160,18 @@ export async function runDesignSearchParallel(req: DesignSearchRequest, threads:
   const unconstrained = prep.looseProblem ? await searchGapsParallel(prep.objective, prep.looseProblem, prep.edges, threads) : undefined;
   return assembleDesign(req, prep, result, unconstrained);
 }
+
+/**
+ * Under an ensemble, material-bound subcells carry their family's dE_g/dT so
+ * every member's cell temperature moves their gaps (stated at 300 K;
+ * docs/PHYSICS.md §10). Slopes already given on the template are kept.
+ */
+export function withFamilySlopes(template: StackSpec, constraints: SubcellConstraint[]): StackSpec {
+  return {
+    ...template,
+    subcells: template.subcells.map((c, i) => {
+      const k = constraints[i];
+      return k?.kind === 'material' && c.dEgDtEvPerK === undefined ? { ...c, dEgDtEvPerK: k.family.dEgDtEvPerK } : c;
+    }),
+  };
+}

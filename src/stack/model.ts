@@ -46,8 +46,14 @@ export type AbsorptanceModel =
 export type SpectralValue = number | { energyEv: number[]; value: number[] };
 
 export interface SubcellSpec {
-  /** Band gap [eV]. */
+  /** Band gap [eV]; with dEgDtEvPerK set, the gap at GAP_REFERENCE_TEMPERATURE_K. */
   gapEv: number;
+  /**
+   * Temperature slope of the gap dE_g/dT [eV/K], when known (material-bound or
+   * given): under a spectrum at cell temperature T the gap is
+   * gapEv + dE_g/dT·(T − 300 K) (docs/PHYSICS.md §10, "Gaps move with temperature").
+   */
+  dEgDtEvPerK?: number;
   /** External radiative efficiency (0, 1]. */
   ere: number;
   absorptance: AbsorptanceModel;
@@ -90,6 +96,25 @@ export interface StackSpec {
   interlayerTransmittance: SpectralValue[];
   coupling: Coupling;
   wiring: Wiring;
+}
+
+/** Temperature at which a subcell's gapEv is stated when its dE_g/dT is known [K]. */
+export const GAP_REFERENCE_TEMPERATURE_K = 300;
+
+/** Gap of a subcell at a cell temperature [eV]: E_g(T) = E_g(300 K) + (dE_g/dT)(T − 300 K), linear (docs/PHYSICS.md §10). */
+export function gapAtCellTemperatureEv(c: SubcellSpec, tempK: number): number {
+  return c.dEgDtEvPerK ? c.gapEv + c.dEgDtEvPerK * (tempK - GAP_REFERENCE_TEMPERATURE_K) : c.gapEv;
+}
+
+/** True when some subcell's gap moves with temperature. */
+export function hasMovingGaps(spec: StackSpec): boolean {
+  return spec.subcells.some((c) => c.dEgDtEvPerK !== undefined && c.dEgDtEvPerK !== 0);
+}
+
+/** The stack at a cell temperature: tempK replaced and every gap with a known dE_g/dT moved there. */
+export function stackAtCellTemperature(spec: StackSpec, tempK: number): StackSpec {
+  if (!hasMovingGaps(spec)) return { ...spec, tempK };
+  return { ...spec, tempK, subcells: spec.subcells.map((c) => ({ ...c, gapEv: gapAtCellTemperatureEv(c, tempK) })) };
 }
 
 /** Ideal step subcells (a = 1), no reflection, lossless interlayers, isolated, at 300 K. */

@@ -4,7 +4,7 @@
  * optics, coupling or wiring) with the gaps substituted into a template.
  * Both score a weighted set of spectra as Σ w·P_max / Σ w·P_in.
  */
-import type { StackSpec } from './model.js';
+import { GAP_REFERENCE_TEMPERATURE_K, gapAtCellTemperatureEv, hasMovingGaps, type StackSpec } from './model.js';
 import { evaluateStack } from './evaluate.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import type { GapObjective } from './gap-objective.js';
@@ -28,9 +28,13 @@ export class GenericObjective implements GapObjective {
     this.label = spectra.length === 1 ? 'efficiency' : 'yield-weighted efficiency';
   }
 
-  /** The template with these gaps [eV] (and, for a spectrum, its cell temperature). */
+  /**
+   * The template with these gaps [eV] at a cell temperature: gaps are stated
+   * at 300 K for subcells with a known dE_g/dT and move to tempK
+   * (docs/PHYSICS.md §10); the others are taken as given.
+   */
   stackAt(gapsEv: ArrayLike<number>, tempK = this.template.tempK): StackSpec {
-    return { ...this.template, tempK, subcells: this.template.subcells.map((c, i) => ({ ...c, gapEv: gapsEv[i] })) };
+    return { ...this.template, tempK, subcells: this.template.subcells.map((c, i) => ({ ...c, gapEv: gapAtCellTemperatureEv({ ...c, gapEv: gapsEv[i] }, tempK) })) };
   }
 
   value(gapsEv: ArrayLike<number>): number {
@@ -63,7 +67,9 @@ export interface ObjectiveOptions {
 
 /** The fastest exact objective for a template stack under weighted spectra. */
 export function buildObjective(template: StackSpec, spectra: WeightedSpectrum[], opts: ObjectiveOptions = {}): GapObjective {
-  if (stepObjectiveApplies(template)) {
+  // The closed form holds every gap on one axis for all spectra; gaps that move with each member's temperature need the full evaluation.
+  const moving = hasMovingGaps(template) && spectra.some((s) => s.tempK !== GAP_REFERENCE_TEMPERATURE_K);
+  if (stepObjectiveApplies(template) && !moving) {
     const w = template.wiring;
     const top = template.subcells[0].absorptance;
     return new StepObjective({

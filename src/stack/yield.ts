@@ -5,7 +5,7 @@
 import { UserError } from '../errors.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import { evaluateStack, type StackResult } from './evaluate.js';
-import type { StackSpec } from './model.js';
+import { stackAtCellTemperature, type StackSpec } from './model.js';
 
 export interface SpectrumYield {
   label: string;
@@ -35,8 +35,9 @@ export interface YieldResult {
 /**
  * Yield-weighted efficiency of a stack over weighted spectra,
  * Σ w·P_max / Σ w·P_in (docs/PHYSICS.md §8), each spectrum solved in full with
- * evaluateStack at its own cell temperature (the spec's tempK replaced; gaps
- * and ERE held as given). A series stack re-matches its current under every
+ * evaluateStack at its own cell temperature (the spec's tempK replaced; every
+ * subcell with a known dE_g/dT moved to that temperature from its 300 K gap,
+ * the others and ERE held as given). A series stack re-matches its current under every
  * spectrum.
  */
 export function yieldForStack(spec: StackSpec, members: (WeightedSpectrum & { label?: string; timestamp?: string })[]): YieldResult {
@@ -46,7 +47,7 @@ export function yieldForStack(spec: StackSpec, members: (WeightedSpectrum & { la
   let total = 0;
   const perSpectrum = members.map((m, k): SpectrumYield => {
     if (!(m.weight > 0) || !Number.isFinite(m.weight)) throw new UserError(`spectrum ${m.label ?? k + 1}: weight must be a positive finite number, got ${m.weight}`);
-    const r: StackResult = evaluateStack({ ...spec, tempK: m.tempK }, m.spectrum);
+    const r: StackResult = evaluateStack(stackAtCellTemperature(spec, m.tempK), m.spectrum);
     pin += m.weight * r.pinWm2;
     pmax += m.weight * r.pmaxWm2;
     total += m.weight;

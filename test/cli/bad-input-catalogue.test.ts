@@ -94,7 +94,7 @@ const argumentCases: [string, string[], RegExp][] = [
   ['map with a fixed mapped cell', ['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.05', '--fix', '1=1.7'], /subcell 1 is mapped/],
   ['materials unknown family', ['materials', 'unobtainium'], /unobtainium/],
   ['materials gap and composition', ['materials', 'cigs', '--gap', '1.2', '--composition', '0.3'], /gap|composition/],
-  ['yield without ensemble', ['yield', '--gaps', '1.7,1.1'], /Missing required argument: ensemble/],
+  ['yield without ensemble or weather', ['yield', '--gaps', '1.7,1.1'], /--ensemble is required \(or --weather\)/],
   ['yield with a missing ensemble', ['yield', '--gaps', '1.7,1.1', '--ensemble', join(dir, 'nowhere')], /nowhere/],
   ['unknown command', ['frobnicate'], /Unknown argument: frobnicate/],
   ['a hexadecimal gap', ['evaluate', '--gaps', '0x10'], /--gaps must be a number/],
