@@ -5,6 +5,7 @@
 import yargs, { type Argv } from 'yargs';
 import { hideBin } from 'yargs/helpers';
 import { UserError } from '../errors.js';
+import { commandLineMessage } from './parameter-flags.js';
 
 const EXIT_USER = 2;
 const EXIT_INTERNAL = 1;
@@ -171,7 +172,7 @@ async function run(argv: string[]): Promise<void> {
     await cli.parseAsync();
   } catch (err) {
     if (err instanceof UserError || (err as Error)?.name === 'YError') {
-      process.stderr.write(`gapstack: ${(err as Error).message.split('\n')[0]}\n`);
+      process.stderr.write(`gapstack: ${commandLineMessage(err as Error)}\n`);
       process.exitCode = EXIT_USER;
       return;
     }
