@@ -25,8 +25,9 @@ const REPORT = [...DESIGN, 'report'];
  * Layer → the layers it may import, bottom first. Read upward:
  * physics/numerics ← light ← junction ← stack ← search ← design ← report ← cli,
  * with materials beside the engine chain (it needs only the base) and usable
- * from search upward; io is a base utility only the shells use; bench sits
- * beside cli over the engine; index is the public library surface.
+ * from search upward; io is a base utility only the shells use; sites (batches
+ * over many weather files) sits over report, under cli; bench sits beside cli
+ * over the engine and sites; index is the public library surface.
  */
 export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   errors: [],
@@ -40,8 +41,9 @@ export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   search: STACK.concat('materials'),
   design: SEARCH,
   report: DESIGN,
-  cli: [...REPORT, 'io'],
-  bench: SEARCH,
+  sites: [...REPORT, 'io'],
+  cli: [...REPORT, 'io', 'sites'],
+  bench: [...SEARCH, 'sites'],
   index: [...REPORT, 'io'],
 };
 
