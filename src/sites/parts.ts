@@ -9,6 +9,7 @@
  */
 import { createHash } from 'node:crypto';
 import { UserError } from '../errors.js';
+import { CAUTION } from '../report/assumptions.js';
 import { shardLabel, type Shard } from './shard.js';
 
 /** Format tag of part files; bump when their layout changes. */
@@ -137,7 +138,7 @@ export function jsonRow(r: SiteResult, columns: readonly string[]): string {
   return `${JSON.stringify(obj)}\n`;
 }
 
-const CSV_HEADER_KEYS = ['format', 'gapstack_version', 'question_sha256', 'sites_sha256', 'sites_total', 'shard', 'shard_sites'] as const;
+const CSV_HEADER_KEYS = ['format', 'gapstack_version', 'question_sha256', 'sites_sha256', 'sites_total', 'shard', 'shard_sites', 'caution'] as const;
 
 /** The opening lines of a CSV part: `# key: value` lines, then the column names. */
 export function csvHeader(id: PartIdentity): string {
@@ -159,6 +160,7 @@ function identityValues(id: PartIdentity): Record<(typeof CSV_HEADER_KEYS)[numbe
     sites_total: id.sitesTotal,
     shard: shardLabel(id.shard),
     shard_sites: id.shardSites,
+    caution: CAUTION,
   };
 }
 

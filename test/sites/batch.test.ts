@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
 import { mergeParts } from '../../src/sites/merge.js';
-import { columnsFor, csvRow, jsonRow, type SiteResult } from '../../src/sites/parts.js';
+import { columnsFor, csvRow, CSV_HEADER_LINES, jsonRow, type SiteResult } from '../../src/sites/parts.js';
 import { listWeatherFiles, partPaths, runSites, type SiteQuestion } from '../../src/sites/run.js';
 import { parseShard, WHOLE } from '../../src/sites/shard.js';
 import { ROOT } from '../helpers/cli.js';
@@ -85,7 +85,7 @@ describe('sites batch', () => {
     const b = join(work, 'order-b');
     await run(a, parseShard('2/3'));
     const s = await run(b, parseShard('2/3'), fakeQuestion(), listWeatherFiles([renamed]).reverse());
-    const keys = (dir: string) => readFileSync(join(dir, 'part-2-of-3.csv'), 'utf8').split('\n').slice(8).filter(Boolean).map((l) => l.split(',')[0]);
+    const keys = (dir: string) => readFileSync(join(dir, 'part-2-of-3.csv'), 'utf8').split('\n').slice(CSV_HEADER_LINES).filter(Boolean).map((l) => l.split(',')[0]);
     expect(keys(b)).toEqual(keys(a));
     expect(s.shardSites).toBe(keys(a).length);
   }, 120_000);
@@ -97,7 +97,7 @@ describe('sites batch', () => {
     const full = { csv: readFileSync(ref.csv), jsonl: readFileSync(ref.jsonl) };
     // Cut the CSV inside its 10th row and the JSON after its 11th: as if stopped while writing.
     const csvLines = full.csv.toString().split('\n');
-    truncateSync(ref.csv, csvLines.slice(0, 8 + 9).join('\n').length + 1 + 20);
+    truncateSync(ref.csv, csvLines.slice(0, CSV_HEADER_LINES + 9).join('\n').length + 1 + 20);
     const jsonLines = full.jsonl.toString().split('\n');
     truncateSync(ref.jsonl, jsonLines.slice(0, 1 + 11).join('\n').length + 1);
     const calls: string[] = [];
