@@ -13,7 +13,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { dirname, join, posix, relative, sep } from 'node:path';
 import ts from 'typescript';
 
-const BASE = ['errors', 'physics', 'numerics'];
+const BASE = ['errors', 'physics', 'numerics', 'io'];
 const LIGHT = [...BASE, 'light'];
 const JUNCTION = [...LIGHT, 'junction'];
 const STACK = [...JUNCTION, 'stack'];
@@ -25,9 +25,10 @@ const REPORT = [...DESIGN, 'report'];
  * Layer → the layers it may import, bottom first. Read upward:
  * physics/numerics ← light ← junction ← stack ← search ← design ← report ← cli,
  * with materials beside the engine chain (it needs only the base) and usable
- * from search upward; io is a base utility only the shells use; sites (batches
- * over many weather files) sits over report, under cli; bench sits beside cli
- * over the engine and sites; index is the public library surface.
+ * from search upward; io (safe reading and atomic writing of files) is a base
+ * utility every layer may use; sites (batches over many weather files) sits
+ * over the report; bench sits beside cli over the engine and sites; index is the public
+ * library surface.
  */
 export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   errors: [],
@@ -41,10 +42,10 @@ export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   search: STACK.concat('materials'),
   design: SEARCH,
   report: DESIGN,
-  sites: [...REPORT, 'io'],
-  cli: [...REPORT, 'io', 'sites'],
+  sites: REPORT,
+  cli: [...REPORT, 'sites'],
   bench: [...SEARCH, 'sites'],
-  index: [...REPORT, 'io'],
+  index: [...REPORT, 'sites'],
 };
 
 export interface SourceFile {

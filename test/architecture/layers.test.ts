@@ -49,7 +49,7 @@ describe('the checker', () => {
     ];
     const v = layerViolations(files);
     expect(v).toHaveLength(4);
-    expect(v[0]).toBe('src/light/a.ts imports src/search/b.ts: light/ may not import search/ (light/ may import errors, physics, numerics)');
+    expect(v[0]).toBe('src/light/a.ts imports src/search/b.ts: light/ may not import search/ (light/ may import errors, physics, numerics, io)');
     expect(v.join('\n')).toContain('src/light/c.ts imports src/stack/model.ts');
     expect(v.join('\n')).toContain('src/junction/d.ts imports src/report/e.ts');
     expect(v.join('\n')).toContain('src/stack/f.ts imports src/cli/main.ts');
