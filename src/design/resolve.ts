@@ -68,6 +68,40 @@ function relativeTo(src: Located, p: string): string {
 }
 
 async function resolveLight(src: Located, f: DesignFile, tempK: number, spanEv: [number, number]): Promise<{ light: DesignLight; spectra: LabelledSpectrum[] }> {
+  if (f.weather !== undefined) {
+    if (f.spectrum !== undefined || f.ensemble !== undefined) throw designError(src, ['weather'], 'give one light: spectrum, ensemble or weather', true);
+    const w = f.weather;
+    const { loadSiteYear } = await import('../light/site-year.js');
+    const { ensembleSummary } = await import('../light/ensemble.js');
+    const site = at(src, ['weather', 'file'], () =>
+      loadSiteYear(relativeTo(src, w.file), {
+        tiltDeg: w.tilt,
+        azimuthDeg: w.azimuth,
+        tracking: w.tracking ?? 'none',
+        albedo: w.albedo,
+        aod500: w.aod500,
+        waterCm: w.water_cm,
+        ozoneAtmCm: w.ozone_atm_cm,
+        faiman: w.faiman ? { u0: w.faiman[0], u1: w.faiman[1] } : undefined,
+      }),
+    );
+    const e = site.ensemble;
+    const s = ensembleSummary(e, undefined, { lowestGapEv: spanEv[0] });
+    const summaryLines = [
+      `${site.site.name} (${site.site.latitudeDeg}°, ${site.site.longitudeDeg}°, ${site.site.elevationM} m), ${site.format.toUpperCase()} weather year: ${site.totals.usedHours} of ${site.totals.fileHours} hours used`,
+      `annual plane-of-array insolation ${site.totals.poaKwhM2.toFixed(1)} kWh/m² (file: GHI ${site.totals.ghiKwhM2.toFixed(1)}, DNI ${site.totals.dniKwhM2.toFixed(1)}, DHI ${site.totals.dhiKwhM2.toFixed(1)} kWh/m²)`,
+      `skipped: ${site.skipped.map((k) => `${k.count} h ${k.reason}`).join('; ') || 'none'}`,
+      `defaults and estimates: ${site.defaultsUsed.join('; ')}`,
+      ...site.assumptions,
+      s.ape.weightedMeanEv === null ? `average photon energy: not available over ${s.ape.windowNm[0]}–${s.ape.windowNm[1]} nm` : `average photon energy ${s.ape.weightedMeanEv.toFixed(4)} eV (weighted mean, ${s.ape.windowNm[0]}–${s.ape.windowNm[1]} nm)`,
+      `cell temperatures ${s.tempK.min.toFixed(1)}–${s.tempK.max.toFixed(1)} K; gaps of material-bound subcells are stated at 300 K and move with each hour's cell temperature`,
+    ];
+    const spectra = e.members.map((m) => ({ spectrum: m.spectrum, weight: m.weight, tempK: m.tempK, label: m.label }));
+    return {
+      light: { kind: 'ensemble', name: e.name, sha256: e.sha256, source: e.source, summaryLines, summary: s, warnings: s.warnings, request: w.file, site },
+      spectra,
+    };
+  }
   if (f.ensemble !== undefined) {
     if (f.spectrum !== undefined) throw designError(src, ['ensemble'], 'give either spectrum or ensemble, not both', true);
     const path = relativeTo(src, f.ensemble);
@@ -293,6 +327,8 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
         absorptance: c.model,
         ...(rs[i] > 0 ? { rsOhmCm2: rs[i] } : {}),
         ...(c.refractiveIndex !== undefined ? { refractiveIndex: c.refractiveIndex } : {}),
+        // Under an ensemble, a material-bound gap is stated at 300 K and moves with each member's cell temperature (docs/PHYSICS.md §10).
+        ...((f.ensemble !== undefined || f.weather !== undefined) && c.constraint.kind === 'material' ? { dEgDtEvPerK: c.constraint.family.dEgDtEvPerK } : {}),
       })),
       tempK,
       frontReflectance: reflectance,

@@ -4,6 +4,7 @@
  */
 import type { EnsembleSummary } from '../light/ensemble.js';
 import type { Spectrum } from '../light/spectrum.js';
+import type { SiteYear } from '../light/site-year.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
 import type { AbsorptanceModel, StackSpec, Wiring } from '../stack/model.js';
@@ -64,6 +65,18 @@ export interface DesignFile {
   description?: string;
   spectrum?: string | SpectrumEntry;
   ensemble?: string;
+  /** A weather file's hourly year as the ensemble (docs/PHYSICS.md §10). */
+  weather?: {
+    file: string;
+    tilt: number;
+    azimuth: number;
+    tracking?: 'none' | 'single-axis';
+    albedo?: number;
+    aod500?: number;
+    water_cm?: number;
+    ozone_atm_cm?: number;
+    faiman?: [number, number];
+  };
   temperature?: number;
   subcells: SubcellEntry[];
   optics?: {
@@ -95,6 +108,8 @@ export type DesignLight =
       summary: EnsembleSummary;
       warnings: string[];
       request: string;
+      /** The site year, when the ensemble came from a weather file. */
+      site?: SiteYear;
     };
 
 export interface DesignSubcell {

@@ -4,6 +4,7 @@
  * JSON. Nothing is written here; the command writes the files only after
  * everything has been built, so a failure leaves existing outputs as they were.
  */
+import { siteSection } from './site-section.js';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import Handlebars from 'handlebars';
@@ -445,6 +446,9 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     };
   });
   const comparison = comparisonSection(data, charts);
+  const light = design.light;
+  const site = light.kind === 'ensemble' && light.site && data.outcomes.length > 0 ? siteSection(light.site, data.outcomes[0].bestSpec, wiringTitle(data.outcomes[0].wiring.key)) : null;
+  if (site) charts.push(...site.charts);
   const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
   const html = pageTemplate()({
     version,
@@ -458,10 +462,13 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     caution: CAUTION,
     maps,
     comparison,
+    site: site ? { heading: site.heading, lines: site.lines, monthlySvg: site.monthlySvg, monthlyCaption: site.monthlyCaption, apeSvg: site.apeSvg, apeCaption: site.apeCaption, assumptions: light.kind === 'ensemble' && light.site ? light.site.assumptions : [] } : null,
     details,
     assumptions: assumptionList(data),
     provenance: provenanceList(design, version),
     generated,
   });
-  return { html, charts, summary: summaryJson(data, version, generated), data };
+  const summary = summaryJson(data, version, generated);
+  if (site) summary.site = site.summary;
+  return { html, charts, summary, data };
 }

@@ -59,10 +59,18 @@ function ensembleTemps(design: Design): string {
   return lo === hi ? `${k(lo)} K` : `${k(lo)}–${k(hi)} K`;
 }
 
-/** How temperature enters the question: one cell temperature, or one per ensemble member with the gaps held. */
+/**
+ * How temperature enters the question: one cell temperature, or one per
+ * ensemble member; material-bound gaps are stated at 300 K and move with each
+ * member's temperature by their family's dE_g/dT (docs/PHYSICS.md §10), other gaps are held.
+ */
 function temperaturePhrase(design: Design): string {
   if (design.light.kind !== 'ensemble') return `at ${design.tempK} K`;
-  return `with each spectrum at its own cell temperature (${ensembleTemps(design)}) and the gaps held at their ${design.tempK} K design values`;
+  const bound = design.subcells.filter((c) => c.constraint.kind === 'material').map((c) => c.index);
+  const held = design.subcells.length - bound.length;
+  const moving = bound.length === 0 ? '' : `the gaps of subcell${bound.length > 1 ? 's' : ''} ${joinWords(bound.map(String))} stated at 300 K and moving with each spectrum's cell temperature by their material's dE_g/dT`;
+  const fixed = held === 0 ? '' : `${bound.length === 0 ? 'the gaps' : 'the other gaps'} held at their ${design.tempK} K design values`;
+  return `with each spectrum at its own cell temperature (${ensembleTemps(design)})${bound.length === 0 ? ' and' : ','} ${[moving, fixed].filter(Boolean).join(' and ')}`;
 }
 
 const joinWords = (xs: string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
@@ -216,7 +224,9 @@ export function assumptionList(data: ReportData): string[] {
   if (l.kind === 'ensemble') {
     lines.push(
       `Cell temperature: each spectrum is solved at its own cell temperature (${ensembleTemps(design)}); members without one take the ensemble's default temperature, else ${design.tempK} K. ` +
-        `Gaps, and material windows, are held at their ${design.tempK} K design values for every member (no dE_g/dT shift per spectrum).`,
+        (design.subcells.some((c) => c.constraint.kind === 'material')
+          ? `Material-bound gaps (and their practical windows) are stated at 300 K and move with each member's cell temperature by the family's dE_g/dT (docs/PHYSICS.md §10); other gaps are held at their ${design.tempK} K design values.`
+          : `Gaps are held at their ${design.tempK} K design values for every member (no dE_g/dT shift per spectrum: no subcell is bound to a material with a known dE_g/dT).`),
     );
   } else lines.push(`Cell temperature: ${design.tempK} K${design.tempK === 300 ? ' (the detailed-balance convention)' : ''}.`);
   lines.push(`Emission: ${emissionConvention(t.coupling)}.`);

@@ -40,7 +40,12 @@ export class GenericObjective implements GapObjective {
   value(gapsEv: ArrayLike<number>): number {
     if (this.steps) for (let i = 1; i < this.cells; i++) if (!(gapsEv[i] < gapsEv[i - 1])) return 0;
     let p = 0;
-    for (const s of this.spectra) p += s.weight * evaluateStack(this.stackAt(gapsEv, s.tempK), s.spectrum).pmaxWm2;
+    for (const s of this.spectra) {
+      const stack = this.stackAt(gapsEv, s.tempK);
+      // Gaps that moved with temperature can cross: such a stack of steps is no stack at all.
+      if (this.steps) for (let i = 1; i < this.cells; i++) if (!(stack.subcells[i].gapEv < stack.subcells[i - 1].gapEv)) return 0;
+      p += s.weight * evaluateStack(stack, s.spectrum).pmaxWm2;
+    }
     return p / this.pinTotal;
   }
 }
