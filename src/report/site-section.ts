@@ -129,7 +129,7 @@ export function siteSection(site: SiteYear, best: StackSpec, wiringTitle: string
     monthlySvg: monthly.svg,
     monthlyCaption: `Plane-of-array insolation (light bars) and the yield of ${design} (dark bars) per month, from the hourly model whose assumptions are listed below.`,
     apeSvg: ape.svg,
-    apeCaption: `Each dot is one hour: average photon energy over ${w0}–${w1} nm against plane-of-array irradiance. Cloudy hours carry the clear-sky diffuse shape, which is bluer than real overcast light (an approximation of the hourly model).`,
+    apeCaption: `Each dot is one hour: average photon energy over ${w0}–${w1} nm against plane-of-array irradiance. Cloudy hours carry the clear-sky shapes scaled to the measured amounts; the change of shape under clouds is not modelled (an approximation of the hourly model).`,
     charts: [monthly, ape],
     summary: {
       site: site.site,
