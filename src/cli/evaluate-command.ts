@@ -1,6 +1,6 @@
 /** `gapstack evaluate`: one stack, one spectrum, every number with its unit. */
 import { evaluateStack, stackWarnings, type StackResult } from '../stack/evaluate.js';
-import { maximiseScan } from '../numerics/golden.js';
+import { bestTopAbsorptanceOfStack, withTopAbsorptance } from '../stack/top-absorptance.js';
 import { UserError } from '../errors.js';
 import { toMaCm2 } from '../physics/constants.js';
 import type { StackSpec } from '../stack/model.js';
@@ -57,10 +57,8 @@ export function evaluateCommand(a: EvaluateArgs): string {
   if (a.topAbsorptance === 'best') {
     // Thinning the top cell: the constant absorptance in (0, 1] that maximises this stack.
     if (gaps.length < 2) throw new UserError('--top-absorptance best needs a stack of 2 or more subcells');
-    const withTop = (value: number): StackSpec => ({ ...spec, subcells: spec.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step', value } } : c)) });
-    chosenTop = maximiseScan((v) => evaluateStack(withTop(v), spectrum).efficiency, 0.02, 1, 49, 1e-9);
-    if (evaluateStack(withTop(1), spectrum).efficiency >= evaluateStack(withTop(chosenTop), spectrum).efficiency) chosenTop = 1;
-    spec.subcells[0] = withTop(chosenTop).subcells[0];
+    chosenTop = bestTopAbsorptanceOfStack(spec, spectrum).absorptance;
+    spec.subcells[0] = withTopAbsorptance(spec, chosenTop).subcells[0];
   }
   const r = evaluateStack(spec, spectrum);
   const warnings = stackWarnings(spec);
