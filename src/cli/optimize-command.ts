@@ -12,6 +12,7 @@ import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
+import { toMaCm2 } from '../physics/constants.js';
 
 /** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
 export function threadsFromArgs(value: unknown): number {
@@ -149,7 +150,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       '',
       table(
         ['cell', 'gap [eV]', 'Jph [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]'],
-        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), fix(c.jphAm2 / 10, 2), fix(c.vocV, 4), fix(c.ff, 4), fix(c.jOpAm2 / 10, 2), fix(c.vOpV, 4)]),
+        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), fix(toMaCm2(c.jphAm2), 2), fix(c.vocV, 4), fix(c.ff, 4), fix(toMaCm2(c.jOpAm2), 2), fix(c.vOpV, 4)]),
       ),
     );
   }

@@ -12,7 +12,7 @@ import { am15g } from '../light/sources.js';
 import { averagePhotonEnergyEv, type Spectrum } from '../light/spectrum.js';
 import { computeMap, type GapMap } from '../search/map.js';
 import { runDesignSearch, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
-import type { StackSpec } from '../stack/model.js';
+import { isSeriesString, stackWithGaps, type StackSpec } from '../stack/model.js';
 import { stackOptics } from '../stack/optics.js';
 import type { MapOutcome, WiringOutcome } from './outcomes.js';
 
@@ -85,7 +85,7 @@ export interface EnsembleComparison {
 export const SYNTHETIC_NAME = /synthetic|demo|invented|fictional|made[- ]up/i;
 
 function mismatchOf(t: StackSpec, gaps: number[], tempK: number, spectrum: Spectrum): number {
-  const j = stackOptics({ ...t, tempK, subcells: t.subcells.map((c, i) => ({ ...c, gapEv: gaps[i] })) }, spectrum).jgenAm2;
+  const j = stackOptics(stackWithGaps(t, gaps, tempK), spectrum).jgenAm2;
   return Math.max(...j) / Math.min(...j) - 1;
 }
 
@@ -143,7 +143,7 @@ export function compareWithReference(design: Design, outcomes: WiringOutcome[]):
         referenceThreshold: best.value * (1 - design.loss),
       };
     });
-    const series = w.wiring.kind === 'groups' && w.wiring.groups.length === 1 && refGaps.length > 1;
+    const series = isSeriesString(w.wiring) && refGaps.length > 1;
     let mismatch: MismatchSpread | null = null;
     if (series) {
       const per = design.spectra.map((s) => ({ x: mismatchOf(w.template, refGaps, s.tempK, s.spectrum), w: s.weight * s.spectrum.pinWm2 }));

@@ -4,7 +4,7 @@
  * the practitioner takes away: best gaps with compositions, runner-up basins,
  * the tolerance region, and warnings when a window binds.
  */
-import type { StackSpec } from '../stack/model.js';
+import { isSeriesString, type StackSpec } from '../stack/model.js';
 import { UserError } from '../errors.js';
 import { describeGap, gapAtReference, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
 import { buildObjective } from '../stack/objectives.js';
@@ -102,7 +102,7 @@ interface PreparedDesign {
 function prepareDesign(req: DesignSearchRequest): PreparedDesign {
   const n = req.template.subcells.length;
   if (req.constraints.length !== n) throw new UserError(`expected ${n} subcell constraints, got ${req.constraints.length}`);
-  if (req.freeTopAbsorptance && !(req.template.wiring.kind === 'groups' && req.template.wiring.groups.length === 1 && n >= 2)) {
+  if (req.freeTopAbsorptance && !(isSeriesString(req.template.wiring) && n >= 2)) {
     throw new UserError('a free top-cell absorptance is offered for series (2T) stacks of 2 or more subcells');
   }
   const objective = buildObjective(req.template, req.spectra, { freeTopAbsorptance: req.freeTopAbsorptance });

@@ -9,6 +9,7 @@
  */
 import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import { singlePowerWm2, type StepObjective } from '../stack/step-objective.js';
+import { lastIndexNotPast } from '../numerics/sorted.js';
 
 export interface Candidate {
   /** Gaps [eV], top first. */
@@ -132,15 +133,7 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   const highestCollecting = (k: number, below: number, target: number): number => {
     const q = qn[k];
     if (below - 1 < lowestIndex || q[lowestIndex] < target) return -1;
-    let lo = lowestIndex;
-    let hi = below - 1;
-    if (q[hi] >= target) return hi;
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >> 1;
-      if (q[mid] >= target) lo = mid;
-      else hi = mid;
-    }
-    return lo;
+    return lastIndexNotPast(q, target, lowestIndex, below - 1, true);
   };
 
   const boundAt = (depth: number): number => {

@@ -8,7 +8,7 @@ import { BOLTZMANN_EV_K, thermalVoltageV } from '../physics/constants.js';
 import { j0WithEreAm2 } from '../junction/radiative.js';
 import type { Spectrum } from '../light/spectrum.js';
 import { maxPowerPoint, vocV } from '../junction/diode.js';
-import type { StackSpec } from './model.js';
+import { isSeriesString, type StackSpec } from './model.js';
 import { stackOptics } from './optics.js';
 import { operateGroups, operateVoltageMatched, seriesTerminals, type StackElectrical } from './electrical.js';
 
@@ -163,7 +163,7 @@ export function evaluateStack(spec: StackSpec, spectrum: Spectrum): StackResult 
       jmpAm2: mpp.jmpAm2,
     };
   });
-  const oneGroup = w.kind === 'groups' && w.groups.length === 1;
+  const oneGroup = isSeriesString(w);
   const terminals = oneGroup ? seriesTerminals(el, w.groups[0]) : null;
   return {
     efficiency: op.powerWm2 / spectrum.pinWm2,

@@ -107,3 +107,13 @@ export function idealStack(gapsEv: number[], wiring: Wiring, overrides: Partial<
 
 export const seriesWiring = (n: number): Wiring => ({ kind: 'groups', label: 'series', groups: [Array.from({ length: n }, (_, i) => i)] });
 export const independentWiring = (n: number): Wiring => ({ kind: 'groups', label: 'independent', groups: Array.from({ length: n }, (_, i) => [i]) });
+
+/** The template stack with these gaps [eV], top first (and, if given, another cell temperature [K]); everything else unchanged. */
+export function stackWithGaps(template: StackSpec, gapsEv: ArrayLike<number>, tempK = template.tempK): StackSpec {
+  return { ...template, tempK, subcells: template.subcells.map((c, i) => ({ ...c, gapEv: gapsEv[i] })) };
+}
+
+/** True when the wiring is one series string through every subcell (2T): one current, re-matched under every spectrum. */
+export function isSeriesString(w: Wiring): boolean {
+  return w.kind === 'groups' && w.groups.length === 1;
+}
