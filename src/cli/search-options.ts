@@ -10,7 +10,7 @@ function asList(value: unknown): string[] {
 }
 
 /** Parse "i=value" items (1-based subcell from the top). */
-export function parseIndexed(option: string, value: unknown, cells: number): Map<number, string> {
+function parseIndexed(option: string, value: unknown, cells: number): Map<number, string> {
   const out = new Map<number, string>();
   for (const item of asList(value)) {
     const m = /^(\d+)=(.+)$/.exec(item);

@@ -11,7 +11,7 @@ import { scaleSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
 import { readSpectrumFile, spectrumFromText, type TableUnits } from './table-file.js';
 
 /** Path of a file shipped in the package's spectra/ folder. */
-export function builtinSpectrumPath(fileName: string): string {
+function builtinSpectrumPath(fileName: string): string {
   return fileURLToPath(new URL(`../../spectra/${fileName}`, import.meta.url));
 }
 

@@ -7,7 +7,7 @@
 import type { Design, DesignMapPair, DesignWiring } from '../design/index.js';
 import { constraintRangeEv, MAX_MAP_AXIS_POINTS } from '../design/index.js';
 import { UserError } from '../errors.js';
-import { HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
+import { thermalVoltageV } from '../physics/constants.js';
 import { computeMap, uniformAxis } from '../search/map.js';
 import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
 import { StepObjective } from '../stack/step-objective.js';
@@ -218,5 +218,3 @@ export function computeReport(design: Design): ReportData {
   return { design, outcomes, comparison: compareWithReference(design, outcomes) };
 }
 
-/** Wavelength [nm] of a photon energy [eV]. */
-export const nmOfEv = (e: number): number => HC_EV_NM / e;

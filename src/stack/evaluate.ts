@@ -115,7 +115,7 @@ export function stackWarnings(spec: StackSpec): string[] {
 }
 
 /** Saturation currents with ERE and the coupling model applied, plus per-interface η. */
-export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Float64Array): StackElectrical {
+function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Float64Array): StackElectrical {
   const n = spec.subcells.length;
   const j0 = new Float64Array(n);
   const eta = new Float64Array(Math.max(0, n - 1));
