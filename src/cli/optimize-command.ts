@@ -3,7 +3,7 @@ import type { Spectrum } from '../light/spectrum.js';
 import { UserError } from '../errors.js';
 import { availableParallelism } from 'node:os';
 import { runDesignSearchParallel, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
-import type { StackSpec } from '../stack/model.js';
+import { stackWithGaps, type StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import { compareAnswers, questionUnderReference } from '../report/ensemble-compare.js';
 import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '../report/assumptions.js';
@@ -138,7 +138,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   if (a.json) return JSON.stringify({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
   const r = d.result;
   const first = members[0].spectrum;
-  const bestSpec = { ...spec, subcells: spec.subcells.map((c, i) => ({ ...c, gapEv: r.best.gapsEv[i] })) };
+  const bestSpec = stackWithGaps(spec, r.best.gapsEv);
   const detail = members.length === 1 && d.topAbsorptance === undefined ? evaluateStack(bestSpec, first) : null;
   const lines = [
     `Best ${d.objective.label}: ${pct(r.best.value, 3)}  wiring ${spec.wiring.label}, ${cells} subcell(s)`,
