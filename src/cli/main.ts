@@ -50,7 +50,8 @@ function command(cli: Argv, name: string, describe: string, builder: (y: Argv) =
   return cli.command(name, describe, builder as never, handler as never);
 }
 
-async function run(argv: string[]): Promise<void> {
+/** Run the command line on these arguments (without node and script); prints, and sets process.exitCode. */
+export async function run(argv: string[]): Promise<void> {
   const debug = argv.includes('--debug');
   const print = (text: string): void => {
     process.stdout.write(text.endsWith("\n") ? text : `${text}\n`);
@@ -209,4 +210,7 @@ async function run(argv: string[]): Promise<void> {
   }
 }
 
-await run(hideBin(process.argv));
+/** The command line of this process (bin/gapstack.js calls it). */
+export async function main(): Promise<void> {
+  await run(hideBin(process.argv));
+}
