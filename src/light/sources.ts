@@ -53,6 +53,7 @@ export const BUILTIN_SPECTRUM_NAMES: Readonly<Record<string, () => Spectrum>> = 
   am0: am0,
 };
 
+/** How to scale a resolved spectrum: concentration [suns] or a target irradiance [W/m²], and units for a headerless file. */
 export interface LightOptions {
   /** Concentration [suns], a number ≥ 1e-6, or 'max' for full concentration (≈ 46 240). */
   suns?: number | 'max';

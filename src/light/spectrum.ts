@@ -11,6 +11,7 @@ import { ELEMENTARY_CHARGE_C, HC_EV_NM, HC_J_NM } from '../physics/constants.js'
 import { UserError } from '../errors.js';
 import { lastIndexNotPast } from '../numerics/sorted.js';
 
+/** One light source as the engine uses it: spectral irradiance on an ascending wavelength grid [nm, W m⁻² nm⁻¹], photon flux, its cumulative photon table, P_in [W/m²] and provenance. */
 export interface Spectrum {
   /** Human-readable name, e.g. "AM1.5G (ASTM G173-03 global tilt)". */
   readonly name: string;
@@ -32,6 +33,7 @@ export interface Spectrum {
   readonly source: string;
 }
 
+/** What `makeSpectrum` needs: wavelength [nm] ascending and irradiance [W m⁻² nm⁻¹], with a name and source. */
 export interface SpectrumInput {
   name: string;
   sha256: string;

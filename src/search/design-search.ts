@@ -20,6 +20,7 @@ export type SubcellConstraint =
   | { kind: 'fixed'; gapEv: number }
   | { kind: 'material'; family: AbsorberFamily; fullRange: boolean };
 
+/** A design question: template stack, spectra, per-subcell constraints, gap span [eV], grid step [eV] and tolerance loss [-]. */
 export interface DesignSearchRequest {
   template: StackSpec;
   spectra: WeightedSpectrum[];
@@ -31,6 +32,7 @@ export interface DesignSearchRequest {
   progress?: (fraction: number) => void;
 }
 
+/** For a subcell bound to an absorber family: the composition(s) giving the chosen gap, and whether they lie in the practical window. */
 export interface CompositionNote {
   subcell: number;
   family: string;
@@ -44,6 +46,7 @@ export interface CompositionNote {
   note: string;
 }
 
+/** A design question answered: the search result, the objective, compositions, warnings and, when a window bound, the unconstrained optimum. */
 export interface DesignSearchResult {
   result: SearchResult;
   objective: GapObjective;
@@ -145,7 +148,11 @@ function assembleDesign(req: DesignSearchRequest, prep: PreparedDesign, result: 
   return { result, objective, topAbsorptance, compositions, warnings, unconstrained };
 }
 
-/** Answer a design question in this thread. */
+/**
+ * Answer a design question in this thread: the global search over the allowed
+ * gaps [eV] (docs/PHYSICS.md §6), compositions for subcells bound to an absorber
+ * family (§7), and warnings when a practical window binds.
+ */
 export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
   const prep = prepareDesign(req);
   const result = searchGaps(prep.objective, prep.problem, prep.edges);

@@ -57,12 +57,17 @@ export function stepObjectiveApplies(t: StackSpec): boolean {
   );
 }
 
+/** Choices of the objective beyond the template stack. */
 export interface ObjectiveOptions {
   /** Let the search choose the top cell's constant absorptance (2T thinning). */
   freeTopAbsorptance?: boolean;
 }
 
-/** The fastest exact objective for a template stack under weighted spectra. */
+/**
+ * The fastest exact objective for a template stack under weighted spectra: the
+ * closed-form step objective where it reproduces the template, else the full
+ * evaluation. Its value is Σ w·P_max / Σ w·P_in [-] at gaps [eV] (docs/PHYSICS.md §8).
+ */
 export function buildObjective(template: StackSpec, spectra: WeightedSpectrum[], opts: ObjectiveOptions = {}): GapObjective {
   if (stepObjectiveApplies(template)) {
     const w = template.wiring;
