@@ -10,7 +10,7 @@ import { UserError } from '../errors.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
-import { gapAtTemperature, gapReach, getFamily, parseUserFamily, type AbsorberFamily } from '../materials/index.js';
+import { familyFromEntry, gapAtTemperature, gapReach, getFamily, type AbsorberFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { Coupling, StackSpec, Wiring } from '../stack/model.js';
 import { parseWiring } from '../stack/wiring-text.js';
@@ -248,7 +248,7 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
   if (!(span[0] < span[1])) throw designError(src, ['search', 'span'], `low end must be below high end, got [${span[0]}, ${span[1]}]`);
   const userFamilies = (f.materials ?? []).map((m, k) => {
     try {
-      return parseUserFamily(m, `materials[${k}]`);
+      return familyFromEntry(m, `materials[${k}]`);
     } catch (err) {
       if (err instanceof UserError) throw designError(src, ['materials', k], err.message.replace(/^materials\[\d+\]: /, ''));
       throw err;

@@ -7,6 +7,7 @@ import type { Spectrum } from '../light/spectrum.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
 import type { AbsorptanceModel, StackSpec, Wiring } from '../stack/model.js';
+import type { UserFamilyEntry } from '../materials/index.js';
 
 export interface SpectrumEntry {
   source: string;
@@ -76,7 +77,7 @@ export interface DesignFile {
   map?: { step?: number; pairs?: MapPairEntry[] };
   tolerance?: { loss?: number };
   /** User-defined absorber families (bowing form), usable as subcell materials by id. */
-  materials?: Record<string, unknown>[];
+  materials?: UserFamilyEntry[];
 }
 
 export type { LabelledSpectrum };
