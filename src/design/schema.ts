@@ -96,9 +96,11 @@ function describe(e: ErrorObject): Problem {
 export function validateDesignData(src: DesignSource): DesignFile {
   const validate = validator();
   if (validate(src.data)) return src.data as DesignFile;
-  const errors = validate.errors ?? [];
+  let errors = validate.errors ?? [];
   // A failed anyOf reports every branch too; keep only the anyOf itself there.
   const anyOfPaths = errors.filter((e) => e.keyword === 'anyOf').map((e) => e.instancePath);
+  // An if/then reports its own failure beside the failed "then" keyword; the latter says it.
+  errors = errors.filter((e) => e.keyword !== 'if');
   const kept = errors.filter((e) => e.keyword === 'anyOf' || !anyOfPaths.some((a) => e.instancePath === a || e.instancePath.startsWith(`${a}/`)));
   const seen = new Set<string>();
   const problems = kept

@@ -78,7 +78,12 @@ export interface DesignFile {
   tolerance?: { loss?: number };
   /** User-defined absorber families (bowing form), usable as subcell materials by id. */
   materials?: UserFamilyEntry[];
+  /** Several questions side by side; each replaces the shared keys it gives. */
+  scenarios?: ScenarioEntry[];
 }
+
+/** One scenario: a name, its own subcells, and any shared key it replaces. */
+export type ScenarioEntry = { name: string; subcells: SubcellEntry[] } & Partial<Omit<DesignFile, 'name' | 'subcells' | 'scenarios'>>;
 
 export type { LabelledSpectrum };
 
