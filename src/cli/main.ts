@@ -5,6 +5,7 @@
 import yargs, { type Argv } from 'yargs';
 import { hideBin } from 'yargs/helpers';
 import { UserError } from '../errors.js';
+import { commandLineMessage } from './parameter-flags.js';
 
 const EXIT_USER = 2;
 const EXIT_INTERNAL = 1;
@@ -163,6 +164,24 @@ async function run(argv: string[]): Promise<void> {
       );
     },
   );
+  cli = command(
+    cli,
+    'sites',
+    'one design question over many weather files, in shards a scheduler can run; merge the shards',
+    (y) =>
+      command(
+        y,
+        'merge <parts..>',
+        'combine the part files of every shard into the file one unsharded run writes (refuses parts of different questions)',
+        (m) =>
+          m
+            .positional('parts', { type: 'string', array: true, describe: 'part files of all shards (all .csv or all .jsonl)' })
+            .option('out', { alias: 'o', type: 'string', describe: 'merged file to write (atomically)', demandOption: true })
+            .option('json', { type: 'boolean', default: false }),
+        async (a) => print((await import('./sites-command.js')).sitesMergeCommand(a as never)),
+      ).demandCommand(1, 'name a sites subcommand; see gapstack sites --help'),
+    async () => {},
+  );
   cli = cli
     .demandCommand(1, 'name a command; see gapstack --help')
     .option('debug', { type: 'boolean', describe: 'print internal details on failure', default: false })
@@ -180,7 +199,7 @@ async function run(argv: string[]): Promise<void> {
     await cli.parseAsync();
   } catch (err) {
     if (err instanceof UserError || (err as Error)?.name === 'YError') {
-      process.stderr.write(`gapstack: ${(err as Error).message.split('\n')[0]}\n`);
+      process.stderr.write(`gapstack: ${commandLineMessage(err as Error)}\n`);
       process.exitCode = EXIT_USER;
       return;
     }

@@ -6,7 +6,7 @@
  * names the field and its line.
  */
 import { dirname, isAbsolute, resolve } from 'node:path';
-import { UserError } from '../errors.js';
+import { ParameterError, UserError } from '../errors.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
@@ -33,25 +33,30 @@ export const MAX_MAP_AXIS_POINTS = 401;
 type Located = Pick<DesignSource, 'path' | 'lineOf'>;
 
 /** Re-raise a UserError from a lower layer as one located at a field of the design. */
-/** Command-line flags named in engine messages, and what a design file says instead. */
-const FLAG_FIELDS: Record<string, string> = {
-  '--units': 'spectrum.units',
-  '--suns': 'spectrum.suns',
-  '--irradiance': 'spectrum.irradiance',
-  '--step': 'map.step',
+/** Engine parameters named in engine messages, and what a design file says instead. */
+const PARAMETER_FIELDS: Record<string, string> = {
+  units: 'spectrum.units',
+  suns: 'spectrum.suns',
+  irradianceWm2: 'spectrum.irradiance',
+  stepEv: 'map.step',
 };
 
-/** An engine message reworded for a design file: flags become design fields (`fields` overrides the defaults). */
-function designWording(message: string, fields: Record<string, string> = {}): string {
-  const names = { ...FLAG_FIELDS, ...fields };
-  return message.replace(/^--[a-z-]+ /, '').replace(/--[a-z][a-z-]*/g, (flag) => names[flag] ?? flag);
+/**
+ * An engine message reworded for a design file: parameters become design
+ * fields (`fields` overrides the defaults), and a field that opens the message
+ * is dropped because the location already names it.
+ */
+function designWording(err: UserError, fields: Record<string, string> = {}): string {
+  if (!(err instanceof ParameterError)) return err.message;
+  const names: Record<string, string> = { ...PARAMETER_FIELDS, ...fields };
+  return err.messageWith((p) => names[p], { omitLeading: (p) => p in names });
 }
 
 function at<T>(src: Located, path: FieldPath, fn: () => T, fields?: Record<string, string>): T {
   try {
     return fn();
   } catch (err) {
-    if (err instanceof UserError) throw designError(src, path, designWording(err.message, fields));
+    if (err instanceof UserError) throw designError(src, path, designWording(err, fields));
     throw err;
   }
 }
@@ -72,7 +77,7 @@ async function resolveLight(src: Located, f: DesignFile, tempK: number, spanEv: 
     } catch {
       throw designError(src, ['ensemble'], 'spectral ensembles are not available in this build of gapstack; use spectrum instead');
     }
-    const e = at(src, ['ensemble'], () => mod.loadEnsemble(path, { defaultTempK: tempK }), { '--units': 'a "# units:" line in the ensemble file' });
+    const e = at(src, ['ensemble'], () => mod.loadEnsemble(path, { defaultTempK: tempK }), { units: 'a "# units:" line in the ensemble file' });
     const s = at(src, ['ensemble'], () => mod.ensembleSummary(e, undefined, { lowestGapEv: spanEv[0] }));
     const unit = s.weightUnit === 'hours' ? 'h' : '';
     const summaryLines = [
