@@ -144,15 +144,28 @@ export async function run(argv: string[]): Promise<void> {
   );
   cli = command(
     cli,
-    'materials [id]',
-    'absorber families: composition ↔ gap and practical windows',
+    'materials [id] [file]',
+    'absorber families: composition ↔ gap and practical windows; "materials fit FILE" fits a gap model to your measured points',
     (y) =>
       y
-        .positional('id', { type: 'string', describe: 'family id, e.g. perovskite-i-br' })
+        .positional('id', { type: 'string', describe: 'family id, e.g. perovskite-i-br; or "fit"' })
+        .positional('file', { type: 'string', describe: 'with fit: (composition, gap) points, header e.g. "composition,gap_eV"' })
         .option('gap', { type: 'string', describe: 'gap [eV] → composition(s)' })
         .option('composition', { type: 'string', describe: 'composition x → gap [eV]' })
+        .option('model', { type: 'string', describe: 'with fit: bowing (default) or poly:N (polynomial of degree N)' })
+        .option('write', { type: 'string', describe: 'with fit: write a family definition (YAML) for a design file\'s materials:' })
+        .option('family-id', { type: 'string', describe: 'with fit --write: the family id (default from the file name)' })
+        .option('name', { type: 'string', describe: 'with fit --write: the family name' })
+        .option('variable', { type: 'string', describe: 'with fit --write: what x means' })
+        .option('dedt', { type: 'string', describe: 'with fit --write: dE_g/dT [eV/K] (required)' })
+        .option('index', { type: 'string', describe: 'with fit --write: refractive index [-] (required)' })
         .option('json', { type: 'boolean', default: false }),
     async (a) => {
+      if (a.id === 'fit') {
+        const { materialsFitCommand } = await import('./materials-fit-command.js');
+        print(await materialsFitCommand(a as never));
+        return;
+      }
       const { parseNumber } = await import('./options.js');
       const { materialsCommand } = await import('./materials-command.js');
       print(
