@@ -93,4 +93,6 @@ rows.push({ item: 'cli-startup', seconds: cliHelp });
 rows.push({ item: 'cli-report-example', seconds: cliReport });
 // Many sites: per-site cost and peak memory of a streamed batch.
 rows.push(...(await import('./sites.js')).benchSites(log));
+// Site light: a weather file's hourly year.
+rows.push(...(await import('./site-light.js')).benchSiteLight(log));
 if (json) console.log(JSON.stringify({ node: process.version, rows }, null, 2));
