@@ -16,6 +16,14 @@ const FLAGS: Record<string, string> = {
   irradianceWm2: '--irradiance',
   units: '--units',
   wiring: '--wiring',
+  tiltDeg: '--tilt',
+  azimuthDeg: '--azimuth',
+  albedo: '--albedo',
+  ozoneAtmCm: '--ozone-atm-cm',
+  aod500: '--aod500',
+  waterCm: '--water-cm',
+  maxRotationDeg: '--max-rotation',
+  faiman: '--faiman',
 };
 
 /** The flag for an engine parameter; indexed ones name the 1-based subcell (`fixedEv[1]` → `--fix 2`). */

@@ -9,7 +9,7 @@
  * change the amount of direct and diffuse light, not their spectral shape here,
  * although real clouds blue-shift diffuse light. Every output carries that.
  */
-import { UserError } from '../errors.js';
+import { ParameterError, UserError, ref, says } from '../errors.js';
 import { FAIMAN_DEFAULT, faimanCellTempC, precipitableWaterFromDewPointCm, standardPressureHpa, type FaimanCoefficients } from './atmosphere.js';
 import type { Ensemble, EnsembleMember } from './ensemble.js';
 import { makeSpectrum, sha256Hex, sha256OfTable } from './spectrum.js';
@@ -123,21 +123,23 @@ function planeNormal(o: SiteLightOptions, sun: [number, number, number]): { n: [
 }
 
 function checkOptions(o: SiteLightOptions): void {
-  const bad = (what: string, x: number | undefined, lo: number, hi: number) => {
-    if (x !== undefined && !(Number.isFinite(x) && x >= lo && x <= hi)) throw new UserError(`${what} must be within ${lo}–${hi}, got ${x}`);
+  const bad = (parameter: string, unit: string, x: number | undefined, lo: number, hi: number) => {
+    if (x !== undefined && !(Number.isFinite(x) && x >= lo && x <= hi)) throw new ParameterError(parameter, `${lo}–${hi}${unit}`, says`${ref(parameter)} must be within ${lo}–${hi}${unit}, got ${x}`);
   };
-  bad('--tilt [°]', o.tiltDeg, 0, 90);
-  bad('--azimuth [°, east of north]', o.azimuthDeg, 0, 360);
-  bad('--albedo', o.albedo, 0, 1);
-  bad('--ozone-atm-cm', o.ozoneAtmCm, 0, 1);
-  bad('--aod500', o.aod500, 0, 5);
-  bad('--water-cm', o.waterCm, 0, 10);
-  bad('--max-rotation [°]', o.maxRotationDeg, 0, 90);
+  bad('tiltDeg', ' °', o.tiltDeg, 0, 90);
+  bad('azimuthDeg', ' ° east of north', o.azimuthDeg, 0, 360);
+  bad('albedo', '', o.albedo, 0, 1);
+  bad('ozoneAtmCm', ' atm-cm', o.ozoneAtmCm, 0, 1);
+  bad('aod500', '', o.aod500, 0, 5);
+  bad('waterCm', ' cm', o.waterCm, 0, 10);
+  bad('maxRotationDeg', ' °', o.maxRotationDeg, 0, 90);
   if (o.faiman) {
-    bad('Faiman U0 [W/m²/K]', o.faiman.u0, 1, 200);
-    bad('Faiman U1 [W s/m³/K]', o.faiman.u1, 0, 100);
+    bad('faiman', ' W/m²/K for U0', o.faiman.u0, 1, 200);
+    bad('faiman', ' W·s/m³/K for U1', o.faiman.u1, 0, 100);
   }
-  if (o.tracking === 'single-axis' && o.tiltDeg !== 0) throw new UserError('single-axis tracking here turns about a horizontal axis: give --tilt 0 (the axis azimuth is --azimuth)');
+  if (o.tracking === 'single-axis' && o.tiltDeg !== 0) {
+    throw new ParameterError('tiltDeg', '0 with single-axis tracking', says`single-axis tracking here turns about a horizontal axis: give ${ref('tiltDeg')} 0 (the axis azimuth is ${ref('azimuthDeg')})`);
+  }
 }
 
 /** Read a weather file and build its hourly ensemble (see the module comment). */
@@ -288,7 +290,7 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
   say(used.waterDefault, `precipitable water default ${SITE_DEFAULTS.waterCm} cm (neither water nor dew point in the file)`);
   if (o.aod500 !== undefined) defaultsUsed.push(`τ500 ${o.aod500} (given) in every hour`);
   say(used.aodFromFile, `τ500 from the file's broadband AOD taken at ${SITE_DEFAULTS.broadbandAodWavelengthNm} nm, Ångström ${SPECTRL2_RURAL.alpha} (from memory)`);
-  say(used.aodDefault, `τ500 default ${SITE_DEFAULTS.aod500} (no AOD in the file; override with --aod500)`);
+  say(used.aodDefault, `τ500 default ${SITE_DEFAULTS.aod500} (no AOD in the file; overridable)`);
   say(used.pressureStandard, 'pressure of the ISO 2533 standard atmosphere at the site elevation (none in the file)');
   if (o.albedo !== undefined) defaultsUsed.push(`albedo ${o.albedo} (given) in every hour`);
   say(used.albedoDefault, `albedo default ${SITE_DEFAULTS.albedo} (none in the file)`);

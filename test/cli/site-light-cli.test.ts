@@ -8,7 +8,7 @@ import { loadEnsemble } from '../../src/light/ensemble.js';
 import { loadSiteYear } from '../../src/light/site-year.js';
 import { yieldForStack } from '../../src/stack/yield.js';
 import { idealStack, seriesWiring } from '../../src/stack/model.js';
-import { runCli } from '../helpers/cli.js';
+import { runCli, runJson } from '../helpers/cli.js';
 
 const TMY3 = new URL('../fixtures/weather/tmy3-723170.csv', import.meta.url).pathname;
 const LONG = 180_000;
@@ -63,5 +63,30 @@ describe('yield --weather', () => {
     const c = runCli(['yield', '--gaps', '1.7,1.12', '--weather', TMY3, '--tilt', '30', '--azimuth', '180', '--tracking', 'dual']);
     expect(c.code).toBe(2);
     expect(c.stderr).toMatch(/--tracking must be none or single-axis/);
+    // The library names its parameter (tiltDeg); the command line shows the flag typed.
+    const d = runCli(['yield', '--gaps', '1.7,1.12', '--weather', TMY3, '--tilt', '120', '--azimuth', '180']);
+    expect(d.code).toBe(2);
+    expect(d.stderr).toMatch(/--tilt must be within 0–90 °, got 120/);
   }, LONG);
 });
+
+describe('optimize --weather: the site-optimal gaps and the AM1.5G winner\'s loss at the site', () => {
+  test('2T with the bottom fixed at 1.12 eV: the comparison block names both optima, and the AM1.5G design yields less at the site', () => {
+    const j = runJson(['optimize', '--cells', '2', '--fix', '2=1.12', '--weather', TMY3, '--tilt', '36', '--azimuth', '180']);
+    const c = j.am15g_comparison;
+    expect(c.am15g_best.gaps_ev[1]).toBe(1.12);
+    expect(c.am15g_design_yield_efficiency).toBeLessThanOrEqual(c.ensemble_best_yield_efficiency + 1e-12);
+    expect(c.loss_rel).toBeGreaterThanOrEqual(0);
+    expect(c.gap_shift_ev[0]).toBeCloseTo(j.best.gaps_ev[0] - c.am15g_best.gaps_ev[0], 5);
+    expect(j.spectra.length).toBeGreaterThan(4000);
+  }, 600_000);
+
+  test('sky --weather --json: site, annual sums and the hours accounted for', () => {
+    const j = runJson(['sky', '--weather', TMY3, '--tilt', '36', '--azimuth', '180']);
+    expect(j.site.latitude_deg).toBe(36.1);
+    expect(j.annual_kwh_m2.poa).toBeGreaterThan(j.annual_kwh_m2.ghi);
+    expect(j.hours.used + j.skipped.reduce((a: number, k: { hours: number }) => a + k.hours, 0)).toBe(8760);
+    expect(j.assumptions.join(' ')).toMatch(/hour-ending/);
+  }, LONG);
+});
+

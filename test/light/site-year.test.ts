@@ -66,7 +66,7 @@ describe('the hourly year of a weather file', () => {
     const b = loadSiteYear(TMY3, { tiltDeg: 36, azimuthDeg: 180, tracking: 'none', aod500: 0.3, waterCm: 3 });
     expect(b.hours.every((h) => h.aod500 === 0.3 && h.waterCm === 3)).toBe(true);
     expect(a.ensemble.sha256).not.toBe(b.ensemble.sha256);
-    expect(() => loadSiteYear(TMY3, { tiltDeg: 120, azimuthDeg: 180, tracking: 'none' })).toThrow(/--tilt/);
-    expect(() => loadSiteYear(TMY3, { tiltDeg: 20, azimuthDeg: 180, tracking: 'single-axis' })).toThrow(/--tilt 0/);
+    expect(() => loadSiteYear(TMY3, { tiltDeg: 120, azimuthDeg: 180, tracking: 'none' })).toThrow(/tiltDeg must be within 0–90 °/);
+    expect(() => loadSiteYear(TMY3, { tiltDeg: 20, azimuthDeg: 180, tracking: 'single-axis' })).toThrow(/give tiltDeg 0/);
   }, LONG);
 });
