@@ -50,7 +50,7 @@ export {
   totalPhotonFlux,
 } from './light/spectrum.js';
 export type { LightOptions } from './light/sources.js';
-export { am15g, resolveSpectrum } from './light/sources.js';
+export { am0, am15d, am15g, resolveSpectrum } from './light/sources.js';
 export type { BlackbodyOptions } from './light/blackbody.js';
 export { blackbodySpectrum } from './light/blackbody.js';
 export type { TableUnits } from './light/table-file.js';
@@ -59,12 +59,25 @@ export type { LabelledSpectrum, WeightedSpectrum } from './light/weighted-spectr
 export type { Ensemble, EnsembleMember, EnsembleSummary, LoadEnsembleOptions } from './light/ensemble.js';
 export { ensembleSummary, loadEnsemble } from './light/ensemble.js';
 
+// ── Site light: sun position, clear-sky spectra, weather files, the hourly year ──
+export type { Observer, SunPosition } from './light/sun-position.js';
+export { airMassKastenYoung, angleOfIncidenceDeg, sunPosition } from './light/sun-position.js';
+export type { Plane, Spectrl2Inputs, Spectrl2Result } from './light/spectrl2.js';
+export { SPECTRL2_RURAL, bandIntegralWm2, earthSunFactor, spectrl2 } from './light/spectrl2.js';
+export { clearSkySpectrum, parseClearSkyRequest } from './light/clear-sky-source.js';
+export type { FaimanCoefficients } from './light/atmosphere.js';
+export { FAIMAN_DEFAULT, faimanCellTempC, precipitableWaterFromDewPointCm, standardPressureHpa } from './light/atmosphere.js';
+export type { WeatherFile, WeatherHour, WeatherSite } from './light/weather/index.js';
+export { readEpw, readTmy3, readWeatherFile } from './light/weather/index.js';
+export type { SiteHour, SiteLightOptions, SiteYear, SkippedHours, Tracking } from './light/site-year.js';
+export { SITE_DEFAULTS, loadSiteYear, siteYearFromWeather } from './light/site-year.js';
+
 // ── One junction ──────────────────────────────────────────────────────────
 export { ereFromVocLoss, j0RadStepAm2 } from './junction/radiative.js';
 
 // ── A stack: model, evaluation, yield ────────────────────────────────────
 export type { AbsorptanceModel, AlphaModel, Coupling, SpectralValue, StackSpec, SubcellSpec, Wiring } from './stack/model.js';
-export { idealStack, independentWiring, seriesWiring } from './stack/model.js';
+export { GAP_REFERENCE_TEMPERATURE_K, gapAtCellTemperatureEv, idealStack, independentWiring, seriesWiring, stackAtCellTemperature } from './stack/model.js';
 export { parseWiring } from './stack/wiring-text.js';
 export type { StackResult, SubcellResult } from './stack/evaluate.js';
 export { evaluateStack, stackWarnings, validateStack } from './stack/evaluate.js';

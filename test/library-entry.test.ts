@@ -33,3 +33,15 @@ describe('the library entry', () => {
     expect(r.data.outcomes.length).toBeGreaterThan(0);
   }, 120_000);
 });
+
+describe('site light from the library entry', () => {
+  it('a weather file and a plane give an hourly ensemble with site metadata and annual sums, ready for yieldForStack', () => {
+    const tmy3 = new URL('./fixtures/weather/tmy3-723170.csv', import.meta.url).pathname;
+    const y = lib.loadSiteYear(tmy3, { tiltDeg: 36, azimuthDeg: 180, tracking: 'none' });
+    expect(y.site).toMatchObject({ latitudeDeg: 36.1, longitudeDeg: -79.95 });
+    expect(y.totals.poaKwhM2).toBeGreaterThan(y.totals.ghiKwhM2);
+    const r = lib.yieldForStack(lib.idealStack([1.7, 1.12], lib.seriesWiring(2)), y.ensemble.members);
+    expect(r.weightedPinWm2 / 1000).toBeCloseTo(y.totals.poaKwhM2, 6);
+    expect(lib.am15d().pinWm2).toBeCloseTo(900.14, 2); // ASTM G173-03 direct + circumsolar
+  }, 120_000);
+});
