@@ -40,6 +40,36 @@ export function spectrl2Tables(): Spectrl2Tables {
   return tablesCache;
 }
 
+/** Wavelength-only factors of the model, computed once from the tables. */
+interface WavelengthFactors {
+  /** 1 / (λ_µm⁴ (115.6406 − 1.3366/λ_µm²)): Rayleigh optical depth per unit pressure-corrected air mass. */
+  rayleighDepth: Float64Array;
+  /** ln(λ/500 nm), for the Ångström law. */
+  lnOver500: Float64Array;
+  /** (ln(λ/400 nm))², for the single-scattering albedo. */
+  lnOver400Squared: Float64Array;
+  /** C_s = ((λ + 550)/1000)^1.8 for λ ≤ 450 nm, else 1. */
+  diffuseCorrection: Float64Array;
+}
+
+let factorsCache: WavelengthFactors | undefined;
+
+function wavelengthFactors(): WavelengthFactors {
+  if (factorsCache) return factorsCache;
+  const wl = spectrl2Tables().wavelengthNm;
+  const map = (f: (nm: number) => number) => Float64Array.from(wl, f);
+  factorsCache = {
+    rayleighDepth: map((nm) => {
+      const um = nm / 1000;
+      return 1 / (um ** 4 * (115.6406 - 1.3366 / (um * um)));
+    }),
+    lnOver500: map((nm) => Math.log(nm / 500)),
+    lnOver400Squared: map((nm) => Math.log(nm / 400) ** 2),
+    diffuseCorrection: map((nm) => (nm <= 450 ? ((nm + 550) / 1000) ** 1.8 : 1)),
+  };
+  return factorsCache;
+}
+
 export interface Spectrl2Inputs {
   /** Apparent (refracted) solar zenith angle Z [°], below 90. */
   zenithDeg: number;
@@ -136,6 +166,7 @@ export function checkSpectrl2Inputs(i: Spectrl2Inputs, p?: Plane): void {
 export function spectrl2(i: Spectrl2Inputs, plane: Plane = { aoiDeg: i.zenithDeg, tiltDeg: 0 }): Spectrl2Result {
   checkSpectrl2Inputs(i, plane);
   const t = spectrl2Tables();
+  const c = wavelengthFactors();
   const n = t.wavelengthNm.length;
   const d = earthSunFactor(i.dayOfYear);
   const cosZ = Math.cos(i.zenithDeg * RAD);
@@ -168,26 +199,25 @@ export function spectrl2(i: Spectrl2Inputs, plane: Plane = { aoiDeg: i.zenithDeg
     poaGroundWm2Nm: new Float64Array(n),
   };
   for (let k = 0; k < n; k++) {
-    const lambdaNm = t.wavelengthNm[k];
-    const um = lambdaNm / 1000;
     const h0d = t.etrWm2Nm[k] * d;
     const aw = t.water[k];
     const ao = t.ozone[k];
     const au = t.mixedGas[k];
-    // Rayleigh, water and mixed-gas transmittances at the hour's M (M') and at M = 1.8 (M' = 1.8·P/101300).
-    const rayleighDepth = 1 / (um ** 4 * (115.6406 - 1.3366 / (um * um)));
+    // Rayleigh, water and mixed-gas transmittances at the hour's M (M') and at M = 1.8 (M' = 1.8·P/101300);
+    // the wavelength-only factors come from the cached tables.
+    const rayleighDepth = c.rayleighDepth[k];
     const awW = aw * w;
-    const tau = i.aod500 * (lambdaNm / 500) ** -i.alpha;
-    const lnRatio = Math.log(lambdaNm / 400);
-    const omega = i.omega0 * Math.exp(-i.omegaPrime * lnRatio * lnRatio);
+    const tau = i.aod500 * Math.exp(-i.alpha * c.lnOver500[k]);
+    const omega = i.omega0 * Math.exp(-i.omegaPrime * c.lnOver400Squared[k]);
 
-    const tr = Math.exp(-mP * rayleighDepth);
-    const ta = Math.exp(-tau * m);
+    const lnTr = -mP * rayleighDepth;
+    const tr = Math.exp(lnTr);
     const tw = awW === 0 ? 1 : Math.exp((-0.2385 * awW * m) / (1 + 20.07 * awW * m) ** 0.45);
     const to = Math.exp(-ao * i.ozoneAtmCm * mO);
     const tu = au === 0 ? 1 : Math.exp((-1.41 * au * mP) / (1 + 118.3 * au * mP) ** 0.45);
     const tas = Math.exp(-omega * tau * m);
     const taa = Math.exp(-(1 - omega) * tau * m);
+    const ta = tas * taa; // exp(−τM) = exp(−ωτM)·exp(−(1 − ω)τM)
 
     const trP = Math.exp(-mPPrimed * rayleighDepth);
     const twP = awW === 0 ? 1 : Math.exp((-0.2385 * awW * mPrimed) / (1 + 20.07 * awW * mPrimed) ** 0.45);
@@ -198,10 +228,10 @@ export function spectrl2(i: Spectrl2Inputs, plane: Plane = { aoiDeg: i.zenithDeg
 
     const id = h0d * tr * ta * tw * to * tu;
     const kk = h0d * cosZ * to * tu * tw * taa;
-    const ir = (kk * (1 - tr ** 0.95)) / 2;
-    const ia = kk * tr ** 1.5 * (1 - tas) * fs;
+    const ir = (kk * (1 - Math.exp(0.95 * lnTr))) / 2;
+    const ia = kk * tr * Math.sqrt(tr) * (1 - tas) * fs;
     const ig = ((id * cosZ + ir + ia) * rs * i.albedo) / (1 - rs * i.albedo);
-    const cs = lambdaNm <= 450 ? ((lambdaNm + 550) / 1000) ** 1.8 : 1;
+    const cs = c.diffuseCorrection[k];
     const is = (ir + ia + ig) * cs;
     const igh = id * cosZ + is;
 
