@@ -28,7 +28,7 @@
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { basename, dirname, extname, isAbsolute, join, resolve } from 'node:path';
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode } from 'yaml';
-import { UserError, fileError } from '../errors.js';
+import { UserError, fileError, withSuffix } from '../errors.js';
 import { HC_EV_NM } from '../physics/constants.js';
 import type { LabelledSpectrum } from './weighted-spectrum.js';
 import { DEFAULT_APE_WINDOW_NM, averagePhotonEnergyEv, makeSpectrum, sha256Hex, sha256OfTable, type Spectrum } from './spectrum.js';
@@ -247,7 +247,7 @@ function readMembers(entries: FileEntry[], units: TableUnits | undefined): { mem
       try {
         s = readSpectrumFile(e.path, units);
       } catch (err) {
-        if (err instanceof UserError && e.listedAt) throw new UserError(`${err.message} (listed at ${e.listedAt})`);
+        if (err instanceof UserError && e.listedAt) throw withSuffix(err, ` (listed at ${e.listedAt})`);
         throw err;
       }
       cache.set(e.path, s);
