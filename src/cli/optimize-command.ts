@@ -79,7 +79,8 @@ export function optimizeJson(spec: StackSpec, spectra: { label: string; spectrum
         open_low: t.openLow,
         open_high: t.openHigh,
       })),
-      convention: 'each interval moves one gap with the others held at the optimum; open_* means the interval reaches the allowed range there',
+      composition_intervals: d.compositionTolerance.map((c) => ({ subcell: c.subcell + 1, family: c.family, variable: c.variable, x: round(c.x, 6), low_x: round(c.lowX, 6), high_x: round(c.highX, 6), clipped: c.clipped })),
+      convention: 'each interval moves one gap with the others held at the optimum; open_* means the interval reaches the allowed range there; composition_intervals read bound subcells\' gap intervals in composition on the optimum\'s branch',
     },
     unconstrained: d.unconstrained ? basin(d.unconstrained.best) : null,
     warnings: d.warnings,
@@ -166,6 +167,9 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       r.tolerance.intervals.map((t) => [String(t.subcell + 1), fix(t.gapEv, 4), `${t.openLow ? '≤' : ''}${fix(t.lowEv, 4)}`, `${t.openHigh ? '≥' : ''}${fix(t.highEv, 4)}`]),
     ),
   );
+  for (const c of d.compositionTolerance) {
+    lines.push(`  subcell ${c.subcell + 1} in composition (${c.variable}): x = ${c.lowX.toFixed(3)}–${c.highX.toFixed(3)} around ${c.x.toFixed(3)}${c.clipped ? ' (an end reaches the family’s composition range)' : ''}`);
+  }
   if (r.basins.length > 0) {
     lines.push('', 'Runner-up basins:');
     lines.push(table(['gaps [eV]', d.objective.label], r.basins.slice(0, 5).map((b) => [gapsText(b.gapsEv), pct(b.value, 3)])));

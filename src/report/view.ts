@@ -116,7 +116,8 @@ export function toleranceText(o: WiringOutcome, i: number): string {
   const t = o.search.result.tolerance.intervals.find((x) => x.subcell === i);
   if (!t) return 'fixed by the design';
   const open = t.openLow && t.openHigh ? ' (both ends at the allowed range)' : t.openLow ? ' (low end at the allowed range)' : t.openHigh ? ' (high end at the allowed range)' : '';
-  return `${fx(t.lowEv, 3)}–${fx(t.highEv, 3)} eV${open}`;
+  const c = o.search.compositionTolerance?.find((x) => x.subcell === i);
+  return `${fx(t.lowEv, 3)}–${fx(t.highEv, 3)} eV${open}${c ? `; x = ${fx(c.lowX, 3)}–${fx(c.highX, 3)}` : ''}`;
 }
 
 /** The answer table: one column per wiring. */

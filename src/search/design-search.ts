@@ -6,6 +6,7 @@
  */
 import { isSeriesString, type StackSpec } from '../stack/model.js';
 import { UserError } from '../errors.js';
+import { compositionInterval, type CompositionInterval } from './composition-tolerance.js';
 import { describeGap, gapAtReference, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
 import { buildObjective } from '../stack/objectives.js';
 import { bandEdgeEnergiesEv, searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
@@ -56,6 +57,8 @@ export interface DesignSearchResult {
   warnings: string[];
   /** The unconstrained optimum when a material window bound the search. */
   unconstrained?: SearchResult;
+  /** Tolerance intervals of subcells bound to alloy families, in composition units. */
+  compositionTolerance: CompositionInterval[];
 }
 
 /** Range or fixed gap [eV] at the operating temperature that a constraint allows. */
@@ -145,7 +148,13 @@ function assembleDesign(req: DesignSearchRequest, prep: PreparedDesign, result: 
   }
   let topAbsorptance: number | undefined;
   if (req.freeTopAbsorptance && objective instanceof StepObjective) topAbsorptance = objective.bestTopAbsorptance(result.best.gapsEv).absorptance;
-  return { result, objective, topAbsorptance, compositions, warnings, unconstrained };
+  const compositionTolerance = result.tolerance.intervals.flatMap((t) => {
+    const c = req.constraints[t.subcell];
+    if (c?.kind !== 'material') return [];
+    const ci = compositionInterval(c.family, t.subcell, t.gapEv, t.lowEv, t.highEv, tempK);
+    return ci ? [ci] : [];
+  });
+  return { result, objective, topAbsorptance, compositions, warnings, unconstrained, compositionTolerance };
 }
 
 /**

@@ -54,7 +54,14 @@ function interpolateClamped(xs: number[], ys: number[], x: number): number {
   return ys[lo] + ((ys[hi] - ys[lo]) * (x - xs[lo])) / (xs[hi] - xs[lo]);
 }
 
-/** Absorption coefficient [cm⁻¹] at an energy [eV] for a subcell of a gap [eV]. */
+/**
+ * Absorption coefficient [cm⁻¹] at an energy [eV] for a subcell of a gap [eV].
+ * Direct edge α0·√(E − E_g) [cm⁻¹] above the join E_g + E_U/2; below it the
+ * exponential Urbach tail α0·√(E_U/2)·exp((E − E_g − E_U/2)/E_U) (Urbach,
+ * Phys. Rev. 92 (1953) 1324), joined where both value and slope agree, and cut
+ * to zero URBACH_TAIL_DEPTH_EV below the gap. A table is interpolated linearly,
+ * zero below its first energy, its last value held above its last.
+ */
 export function alphaPerCm(model: AlphaModel, gapEv: number, energyEv: number): number {
   if (model.kind === 'table') {
     if (energyEv < model.energyEv[0]) return 0;
