@@ -50,7 +50,8 @@ function command(cli: Argv, name: string, describe: string, builder: (y: Argv) =
   return cli.command(name, describe, builder as never, handler as never);
 }
 
-async function run(argv: string[]): Promise<void> {
+/** Run the command line on these arguments (without node and script); prints, and sets process.exitCode. */
+export async function run(argv: string[]): Promise<void> {
   const debug = argv.includes('--debug');
   const print = (text: string): void => {
     process.stdout.write(text.endsWith("\n") ? text : `${text}\n`);
@@ -192,7 +193,20 @@ async function run(argv: string[]): Promise<void> {
             .option('out', { alias: 'o', type: 'string', describe: 'merged file to write (atomically)', demandOption: true })
             .option('json', { type: 'boolean', default: false }),
         async (a) => print((await import('./sites-command.js')).sitesMergeCommand(a as never)),
-      ).demandCommand(1, 'name a sites subcommand; see gapstack sites --help'),
+      )
+        .command(
+          'map <rows>',
+          'draw the sites of a rows file (.csv or .jsonl) on a world or regional outline, coloured by a column: SVG and PNG',
+          (m: Argv) =>
+            m
+              .positional('rows', { type: 'string', describe: 'a merged or single-part rows file' })
+              .option('colour', { type: 'string', default: 'top-gap', describe: 'top-gap | 2t-loss | 4t-gain | a numeric column name' })
+              .option('wiring', { type: 'string', describe: 'wiring column prefix for top-gap (default: the first, e.g. 2t)' })
+              .option('world', { type: 'boolean', default: false, describe: 'show the whole world even when the sites fit in a region' })
+              .option('out', { alias: 'o', type: 'string', describe: 'file name for <out>.svg and <out>.png', demandOption: true }),
+          (async (a: Record<string, unknown>) => print(await (await import('./sites-command.js')).sitesMapCommand(a as never))) as never,
+        )
+        .demandCommand(1, 'name a sites subcommand; see gapstack sites --help'),
     async () => {},
   );
   cli = cli
@@ -222,4 +236,7 @@ async function run(argv: string[]): Promise<void> {
   }
 }
 
-await run(hideBin(process.argv));
+/** The command line of this process (bin/gapstack.js calls it). */
+export async function main(): Promise<void> {
+  await run(hideBin(process.argv));
+}

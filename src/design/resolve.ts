@@ -12,7 +12,7 @@ import { parseUnitDeclaration } from '../light/table-file.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
 import { familyFromEntry, gapAtTemperature, gapReach, getFamily, type AbsorberFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
-import type { Coupling, StackSpec, Wiring } from '../stack/model.js';
+import { isSeriesString, type Coupling, type StackSpec, type Wiring } from '../stack/model.js';
 import { parseWiring } from '../stack/wiring-text.js';
 import { designError, type DesignSource, type FieldPath } from './source.js';
 import { perInterface, subcellAbsorptance } from './films.js';
@@ -289,7 +289,7 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
     const contacts = perInterface(src, ['wirings', k, 'contact_transmittance'], entry.contact_transmittance, n, 1);
     const rs = entry.rs_ohm_cm2 ?? cells.map((c) => c.rsOhmCm2);
     if (rs.length !== n) throw designError(src, ['wirings', k, 'rs_ohm_cm2'], `takes one resistance per subcell (${n}), got ${rs.length}`);
-    const series = wiring.kind === 'groups' && wiring.groups.length === 1;
+    const series = isSeriesString(wiring);
     const template: StackSpec = {
       subcells: cells.map((c, i) => ({
         gapEv: 2.5 - 0.3 * i,

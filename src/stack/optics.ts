@@ -14,6 +14,7 @@ import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';
 import { BLACKBODY_PREFACTOR_EV, ELEMENTARY_CHARGE_C } from '../physics/constants.js';
 import { boseEinsteinTailEv3, j0RadStepAm2 } from '../junction/radiative.js';
 import type { AbsorptanceModel, AlphaModel, SpectralValue, StackSpec } from './model.js';
+import { lastIndexNotPast } from '../numerics/sorted.js';
 
 export interface StackOptics {
   /** Photogeneration of each subcell before coupling [A/m²]. */
@@ -48,13 +49,8 @@ function interpolateClamped(xs: number[], ys: number[], x: number): number {
   const n = xs.length;
   if (x <= xs[0]) return ys[0];
   if (x >= xs[n - 1]) return ys[n - 1];
-  let lo = 0;
-  let hi = n - 1;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (xs[mid] <= x) lo = mid;
-    else hi = mid;
-  }
+  const lo = lastIndexNotPast(xs, x, 0, n - 2);
+  const hi = lo + 1;
   return ys[lo] + ((ys[hi] - ys[lo]) * (x - xs[lo])) / (xs[hi] - xs[lo]);
 }
 
