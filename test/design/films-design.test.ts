@@ -77,6 +77,24 @@ describe('per-subcell films, measured data and resistance in a design file', () 
   });
 });
 
+describe('absorptance: best reaches the report', () => {
+  test(
+    'the report evaluates its detail at the top absorptance the search chose, and its η is the search optimum',
+    async () => {
+      const d = await loadDesign(file('best-report.yaml', 'name: best in a report\nsubcells:\n  - range: [1.5, 1.56]\n    absorptance: best\n  - gap: 1.12\nwirings: [series]\nmap: { step: 0.05 }\n'));
+      const { computeReport } = await import('../../src/report/compute.js');
+      const o = computeReport(d).outcomes[0];
+      const top = o.bestSpec.subcells[0].absorptance;
+      expect(top.kind).toBe('step');
+      // a thinned top (A < 0.9; at 1.55/1.12 eV the reference optimum is A = 0.803)
+      expect(o.search.topAbsorptance as number).toBeLessThan(0.9);
+      expect(top.kind === 'step' && top.value).toBe(o.search.topAbsorptance);
+      expect(Math.abs(o.detail.efficiency - o.search.result.best.value)).toBeLessThan(1e-7);
+    },
+    120_000,
+  );
+});
+
 describe('mistakes name the field and its line', () => {
   test('a rear mirror on an upper film (docs/PHYSICS.md §11)', async () => {
     const p = file('mirror.yaml', 'name: mirror\nsubcells:\n  - gap: 1.7\n    thickness_nm: 300\n    optics: double\n  - gap: 1.12\n');
