@@ -64,6 +64,13 @@ describe('per-subcell films, measured data and resistance in a design file', () 
     expect(four.coupling).toEqual({ model: 'none' });
     expect(two.subcells.map((c) => c.rsOhmCm2 ?? 0)).toEqual([0, 0.5]);
     expect(four.subcells.map((c) => c.rsOhmCm2 ?? 0)).toEqual([1.0, 0.7]);
+    // and the report's assumptions say so, per wiring
+    const { filmAssumptionLines } = await import('../../src/report/film-assumptions.js');
+    const lines = filmAssumptionLines(d).join('\n');
+    expect(lines).toContain('Series resistance, series: 1: 0 Ω·cm²; 2: 0.5 Ω·cm²');
+    expect(lines).toContain('Series resistance, independent: 1: 1 Ω·cm²; 2: 0.7 Ω·cm²');
+    expect(lines).toContain('Optics between subcells, independent: transmittance 0.8820');
+    expect(lines).toContain('Coupling, independent: isolated subcells');
   });
 
   test('absorptance: best lets a series search thin the top cell (reference.json top_absorptance_optimum: A = 0.8032 at 1.55/1.12 eV)', async () => {
