@@ -44,6 +44,7 @@ export function stackResultJson(spec: StackSpec, spectrum: Spectrum, r: StackRes
       power_w_m2: round(c.powerWm2),
       ere: spec.subcells[i].ere,
       absorptance: describeAbsorptance(spec.subcells[i].absorptance),
+      rs_ohm_cm2: spec.subcells[i].rsOhmCm2 ?? 0,
     })),
     caution: CAUTION,
   };

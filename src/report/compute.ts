@@ -10,6 +10,7 @@ import { UserError } from '../errors.js';
 import { thermalVoltageV } from '../physics/constants.js';
 import { computeMap, uniformAxis } from '../search/map.js';
 import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
+import { compositionAxis } from '../search/composition-tolerance.js';
 import { StepObjective } from '../stack/step-objective.js';
 import { evaluateStack, type StackResult } from '../stack/evaluate.js';
 import { isSeriesString, stackWithGaps, type StackSpec } from '../stack/model.js';
@@ -123,7 +124,19 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
       }
     }
   }
-  return { pair, map, stepEv: step, optimum, threshold: best.value * (1 - design.loss), matching, marks, profiled, warnings };
+  const compositionAxes = mapCompositionAxes(design, xCell, yCell, xr, yr);
+  return { pair, map, stepEv: step, optimum, threshold: best.value * (1 - design.loss), matching, marks, profiled, warnings, ...(compositionAxes ? { compositionAxes } : {}) };
+}
+
+/** Composition axes for mapped subcells bound to alloy families, or undefined when neither is. */
+function mapCompositionAxes(design: Design, xCell: number, yCell: number, xr: [number, number], yr: [number, number]): MapOutcome['compositionAxes'] {
+  const axis = (cell: number, r: [number, number]) => {
+    const c = design.subcells[cell].constraint;
+    return c.kind === 'material' ? compositionAxis(c.family, cell, r[0], r[1], design.tempK) : undefined;
+  };
+  const x = axis(xCell, xr);
+  const y = axis(yCell, yr);
+  return x || y ? { ...(x ? { x } : {}), ...(y ? { y } : {}) } : undefined;
 }
 
 function sensitivity(d: DesignSearchResult, bounds: [number, number][]): SensitivitySlice[] {
