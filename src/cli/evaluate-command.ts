@@ -8,6 +8,7 @@ import type { Spectrum } from '../light/spectrum.js';
 import { assumptionLines, CAUTION, describeCoupling, describeAbsorptance, emissionConvention } from '../report/assumptions.js';
 import { fix, pct, round, table } from './format.js';
 import { gapsFromArgs, spectrumFromArgs, stackFromArgs, type LightArgs, type StackArgs } from './options.js';
+import { finiteJson } from './guards.js';
 
 export interface EvaluateArgs extends LightArgs, StackArgs {
   gaps?: unknown;
@@ -64,7 +65,7 @@ export function evaluateCommand(a: EvaluateArgs): string {
   }
   const r = evaluateStack(spec, spectrum);
   const warnings = stackWarnings(spec);
-  if (a.json) return JSON.stringify({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}), warnings }, null, 2);
+  if (a.json) return finiteJson({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}), warnings }, null, 2);
   const rows = r.subcells.map((c, i) => [
     String(i + 1),
     fix(c.gapEv, 4),

@@ -5,9 +5,7 @@
 import yargs, { type Argv } from 'yargs';
 import { hideBin } from 'yargs/helpers';
 import { UserError } from '../errors.js';
-
-const EXIT_USER = 2;
-const EXIT_INTERNAL = 1;
+import { assertFiniteText, checkRepeatedOptions, EXIT_INTERNAL, EXIT_USER, guardStandardStreams, joinNegativeValues, sanitiseForTerminal } from './guards.js';
 
 function lightOptions<T>(y: Argv<T>) {
   return y
@@ -40,10 +38,15 @@ function command(cli: Argv, name: string, describe: string, builder: (y: Argv) =
   return cli.command(name, describe, builder as never, handler as never);
 }
 
-async function run(argv: string[]): Promise<void> {
-  const debug = argv.includes('--debug');
+async function run(rawArgv: string[]): Promise<void> {
+  guardStandardStreams();
+  const debug = rawArgv.includes('--debug');
+  const argv = joinNegativeValues(rawArgv);
   const print = (text: string): void => {
-    process.stdout.write(text.endsWith("\n") ? text : `${text}\n`);
+    // JSON output is checked as it is built (finiteJson); text is checked here.
+    if (!/^\s*[[{]/.test(text)) assertFiniteText(text);
+    const safe = sanitiseForTerminal(text);
+    process.stdout.write(safe.endsWith('\n') ? safe : `${safe}\n`);
   };
   let cli: Argv = yargs(argv)
     .scriptName('gapstack')
@@ -168,15 +171,19 @@ async function run(argv: string[]): Promise<void> {
   try {
     // Fault injection for the test of the internal-error path (see DEVELOPERS.md).
     if (process.env.GAPSTACK_FAULT_INJECTION === 'internal') throw new Error('injected fault');
+    checkRepeatedOptions(argv);
     await cli.parseAsync();
   } catch (err) {
     if (err instanceof UserError || (err as Error)?.name === 'YError') {
-      process.stderr.write(`gapstack: ${(err as Error).message.split('\n')[0]}\n`);
+      // One line; a design with several problems lists the others below it (its first line says so).
+      const [first, ...more] = (err as Error).message.split('\n');
+      const listed = err instanceof UserError && /listed below\)$/.test(first) ? more : [];
+      process.stderr.write(`${sanitiseForTerminal([`gapstack: ${first}`, ...listed.map((d) => `  ${d}`)].join('\n'))}\n`);
       process.exitCode = EXIT_USER;
       return;
     }
     const e = err as Error;
-    process.stderr.write(`gapstack: internal error: ${e?.message ?? String(e)}${debug ? `\n${e?.stack ?? ''}` : ' (rerun with --debug for details)'}\n`);
+    process.stderr.write(`gapstack: internal error: ${sanitiseForTerminal(e?.message ?? String(e))}${debug ? `\n${e?.stack ?? ''}` : ' (rerun with --debug for details)'}\n`);
     process.exitCode = EXIT_INTERNAL;
   }
 }

@@ -11,6 +11,7 @@ import { startProgress } from './progress.js';
 import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
+import { finiteJson } from './guards.js';
 
 export interface MapArgs extends StackArgs, ConstraintArgs, SpectraArgs {
   cells?: unknown;
@@ -87,7 +88,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     spectra: members.map((s) => ({ label: s.label, sha256: s.spectrum.sha256, pin_w_m2: round(s.spectrum.pinWm2) })),
   };
   const free = Array.from({ length: cells }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && fixed[i] === undefined);
-  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? JSON.stringify(mapJson(m, meta)) : mapToCsv(m, free));
+  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, meta)) : mapToCsv(m, free));
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {
     out: out ?? null,
@@ -97,7 +98,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     profile: m.profile,
     caution: CAUTION,
   };
-  if (a.json) return JSON.stringify(out ? summary : mapJson(m, meta), null, 2);
+  if (a.json) return finiteJson(out ? summary : mapJson(m, meta), null, 2);
   if (!out) return mapToCsv(m, free).trimEnd();
   return [
     `Wrote ${points} points to ${out} (${seconds.toFixed(3)} s).`,

@@ -12,6 +12,7 @@ import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
+import { finiteJson } from './guards.js';
 
 /** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
 export function threadsFromArgs(value: unknown): number {
@@ -135,7 +136,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       gap_shift_ev: d.result.best.gapsEv.map((g, i) => round(g - refGaps[i], 6)),
     };
   }
-  if (a.json) return JSON.stringify({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
+  if (a.json) return finiteJson({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
   const r = d.result;
   const first = members[0].spectrum;
   const bestSpec = { ...spec, subcells: spec.subcells.map((c, i) => ({ ...c, gapEv: r.best.gapsEv[i] })) };

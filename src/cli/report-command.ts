@@ -12,6 +12,7 @@ import { dirname, join, resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { CAUTION } from '../report/assumptions.js';
+import { finiteJson } from './guards.js';
 
 export interface ReportArgs {
   /** Design file (YAML or JSON). */
@@ -76,7 +77,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   const seconds = (performance.now() - t0) / 1000;
   const outcomes = built.data.outcomes;
   if (a.json) {
-    return JSON.stringify(
+    return finiteJson(
       {
         report: resolve(output),
         figures: a.figures === undefined ? null : resolve(a.figures),

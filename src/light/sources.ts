@@ -37,12 +37,29 @@ export interface LightOptions {
   units?: TableUnits;
 }
 
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * Refuse a rescale to an irradiance beyond full concentration of the source
+ * (the bound --suns has): `factor` is the requested irradiance over the
+ * source's own one-sun irradiance.
+ */
+function checkIrradianceBound(irradianceWm2: number, oneSunWm2: number): void {
+  const factor = irradianceWm2 / oneSunWm2;
+  if (!(factor <= MAX_CONCENTRATION * (1 + 1e-9))) {
+    throw new UserError(
+      `--irradiance ${irradianceWm2} W/m2 is ${factor.toPrecision(3)} times this light's ${oneSunWm2.toFixed(1)} W/m2, beyond full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`,
+    );
+  }
+}
+
 /** Parse `--suns`: a positive number or "max". */
 export function parseSuns(value: unknown): number | 'max' | undefined {
   if (value === undefined) return undefined;
   if (value === 'max') return 'max';
-  const x = typeof value === 'number' ? value : Number(value);
-  if (!Number.isFinite(x) || !(x > 0)) throw new UserError(`--suns must be a positive number or "max", got "${String(value)}"`);
+  // Decimal only: Number() would also take 0x10 and 0b101, which no other option accepts.
+  const x = typeof value === 'number' ? value : typeof value === 'string' && DECIMAL.test(value.trim()) ? Number(value) : NaN;
+  if (!Number.isFinite(x) || !(x > 0)) throw new UserError(`--suns must be a positive number or "max" (decimal), got "${String(value)}"`);
   if (x < 1e-6) throw new UserError(`--suns ${x} is below 1e-6 suns; the detailed-balance numbers mean little there`);
   if (x > MAX_CONCENTRATION * (1 + 1e-9)) throw new UserError(`--suns ${x} exceeds full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`);
   return x;
@@ -64,16 +81,23 @@ export function resolveSpectrum(name: string, opts: LightOptions = {}): Spectrum
   if (key === 'am1.5g' || key === 'am15g') {
     s = am15g();
   } else if (key.startsWith('blackbody:') || key.startsWith('bb:')) {
-    const t = Number(key.slice(key.indexOf(':') + 1).replace(/k$/, ''));
+    const word = key.slice(key.indexOf(':') + 1).replace(/k$/, '').trim();
+    const t = DECIMAL.test(word) ? Number(word) : NaN;
     if (!Number.isFinite(t)) throw new UserError(`"${name}": blackbody temperature must be a number of kelvin, e.g. blackbody:5778`);
     const dilution = suns === undefined ? DILUTION_ONE_SUN : Math.min(1, suns * DILUTION_ONE_SUN);
     s = blackbodySpectrum({ tempK: t, dilution });
-    if (opts.irradianceWm2 !== undefined) s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+    if (opts.irradianceWm2 !== undefined) {
+      checkIrradianceBound(opts.irradianceWm2, s.pinWm2 / (dilution / DILUTION_ONE_SUN));
+      s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+    }
     return s;
   } else {
     s = readSpectrumFile(name, opts.units);
   }
   if (suns !== undefined) s = scaleSpectrum(s, suns);
-  if (opts.irradianceWm2 !== undefined) s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+  if (opts.irradianceWm2 !== undefined) {
+    checkIrradianceBound(opts.irradianceWm2, s.pinWm2);
+    s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+  }
   return s;
 }
