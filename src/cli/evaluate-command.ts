@@ -1,5 +1,5 @@
 /** `gapstack evaluate`: one stack, one spectrum, every number with its unit. */
-import { evaluateStack, stackWarnings, type StackResult } from '../stack/evaluate.js';
+import { evaluateStack, stackWarnings, resultWarnings, type StackResult } from '../stack/evaluate.js';
 import { maximiseScan } from '../numerics/golden.js';
 import { UserError } from '../errors.js';
 import { toMaCm2 } from '../physics/constants.js';
@@ -64,7 +64,7 @@ export function evaluateCommand(a: EvaluateArgs): string {
     spec.subcells[0] = withTop(chosenTop).subcells[0];
   }
   const r = evaluateStack(spec, spectrum);
-  const warnings = stackWarnings(spec);
+  const warnings = [...stackWarnings(spec), ...resultWarnings(r)];
   if (a.json) return finiteJson({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}), warnings }, null, 2);
   const rows = r.subcells.map((c, i) => [
     String(i + 1),

@@ -60,7 +60,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const out = a.out;
   if (out !== undefined && !/\.(csv|json)$/i.test(out)) throw new UserError(`--out must end in .csv or .json, got "${out}"`);
   const spec = stackFromArgs(Array.from({ length: cells }, (_, i) => 2.5 - 0.3 * i), a);
-  const constraints = constraintsFromArgs(a, cells);
+  const constraints = constraintsFromArgs(a, cells, spanFromArgs(a.span));
   const xCell = axes[0] - 1;
   const yCell = axes[1] - 1;
   for (const i of [xCell, yCell]) if (constraints[i].kind !== 'free') throw new UserError(`subcell ${i + 1} is mapped; it cannot also be fixed, ranged or bound`);

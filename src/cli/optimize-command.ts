@@ -103,7 +103,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const cells = cellsFromArgs(a.cells);
   const placeholder = Array.from({ length: cells }, (_, i) => 2.5 - i * 0.3);
   const spec = stackFromArgs(placeholder, a);
-  const constraints = constraintsFromArgs(a, cells);
+  const constraints = constraintsFromArgs(a, cells, spanFromArgs(a.span));
   const members = await spectraFromArgs(a, spec.tempK);
   const question: DesignSearchRequest = {
     template: spec,
