@@ -12,6 +12,7 @@ import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs
 import { cellsFromArgs, constraintsFromArgs, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { finiteJson } from './guards.js';
+import { assertNotAnInput, forgetInputs } from '../io/inputs.js';
 
 export interface MapArgs extends StackArgs, ConstraintArgs, SpectraArgs {
   cells?: unknown;
@@ -67,7 +68,10 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const allowed = constraints.map((c) => constraintBounds(c, spec.tempK));
   const fixed = allowed.map((b) => b.fixed);
   const bounds = subcellBounds({ cells, spanEv: spanFromArgs(a.span), ranges: allowed.map((b) => b.range), fixed, loss: 0.01 });
+  forgetInputs();
   const members = await spectraFromArgs(a, spec.tempK);
+  // The light is read now: an --out that would replace one of its files is refused before the work.
+  if (out !== undefined) assertNotAnInput(out, '--out');
   const obj = buildObjective(spec, members);
   const t0 = performance.now();
   const bar = a.json ? null : await startProgress('mapping');
@@ -88,7 +92,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     spectra: members.map((s) => ({ label: s.label, sha256: s.spectrum.sha256, pin_w_m2: round(s.spectrum.pinWm2) })),
   };
   const free = Array.from({ length: cells }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && fixed[i] === undefined);
-  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, meta)) : mapToCsv(m, free));
+  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, meta)) : mapToCsv(m, free), '--out');
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {
     out: out ?? null,

@@ -2,15 +2,16 @@
  * `gapstack report <design>`: answer a design file's question as one
  * self-contained HTML page (inline CSS and SVG, no network), and on request a
  * folder of standalone figures (SVG, PNG) with the data behind them (CSV,
- * JSON). Everything is built in memory first and each file is written
- * atomically, so a failing report leaves existing outputs untouched.
+ * JSON). Everything is built in memory first, then the page and its figures
+ * are published together (src/io/publish.ts), so a failing or interrupted
+ * report leaves existing outputs untouched.
  *
  * The report modules (d3-node, resvg, handlebars) load only here.
  */
-import { mkdirSync, statSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
+import { join, resolve } from 'node:path';
 import { UserError } from '../errors.js';
-import { writeFileAtomic } from '../io/atomic-write.js';
+import { assertNoInputInside, assertNotAnInput, forgetInputs } from '../io/inputs.js';
+import { publishReport } from '../io/publish.js';
 import { CAUTION } from '../report/assumptions.js';
 import { finiteJson } from './guards.js';
 
@@ -39,23 +40,17 @@ export function reportDate(env: NodeJS.ProcessEnv = process.env): Date {
   return new Date();
 }
 
-/** A folder that exists (created if missing) and is a folder, or a UserError naming the option. */
-function preflight(dir: string, option: string): void {
-  try {
-    mkdirSync(dir, { recursive: true });
-  } catch (err) {
-    throw new UserError(`${option}: cannot create the folder ${dir} (${(err as NodeJS.ErrnoException).code ?? 'error'}); nothing was written`);
-  }
-  if (!statSync(dir).isDirectory()) throw new UserError(`${option}: ${dir} is not a folder; nothing was written`);
-}
-
 export async function reportCommand(a: ReportArgs): Promise<string> {
   if (typeof a.design !== 'string' || a.design === '') throw new UserError('name a design file, e.g. gapstack report examples/perovskite-silicon.yaml -o report.html');
   const output = a.output ?? 'report.html';
   if (!/\.html?$/i.test(output)) throw new UserError(`-o/--output must end in .html, got "${output}"`);
   const t0 = performance.now();
+  forgetInputs();
   const { loadDesign } = await import('../design/index.js');
   const design = await loadDesign(a.design);
+  // The design and every file it names are read now: refuse an output that would replace one, before the work.
+  assertNotAnInput(output, '-o/--output');
+  if (a.figures !== undefined) assertNoInputInside(a.figures, '--figures');
   const { buildReport } = await import('../report/build.js');
   const built = buildReport(design, { date: reportDate() });
   let files: { name: string; data: string | Uint8Array }[] = [];
@@ -63,17 +58,9 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
     const { figureFiles } = await import('../report/figures.js');
     files = figureFiles(built.charts, built.summary);
   }
-  // Every byte exists in memory now. Make sure both folders can take files before writing any.
-  preflight(dirname(resolve(output)), '-o/--output');
-  if (a.figures !== undefined) preflight(resolve(a.figures), '--figures');
-  const written: string[] = [];
-  writeFileAtomic(output, built.html);
-  written.push(output);
-  for (const f of files) {
-    const p = join(a.figures as string, f.name);
-    writeFileAtomic(p, f.data);
-    written.push(p);
-  }
+  // Every byte exists in memory now: publish the page and its figures together, or nothing.
+  publishReport(output, built.html, a.figures !== undefined ? { folder: a.figures, files } : undefined);
+  const written = [output, ...files.map((f) => join(a.figures as string, f.name))];
   const seconds = (performance.now() - t0) / 1000;
   const outcomes = built.data.outcomes;
   if (a.json) {

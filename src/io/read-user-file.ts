@@ -8,6 +8,7 @@
  */
 import { closeSync, fstatSync, openSync, readSync, constants as fsConstants } from 'node:fs';
 import { fileError, UserError } from '../errors.js';
+import { noteInput } from './inputs.js';
 
 /** Why a read failed, in words for people. */
 export function describeFsError(err: unknown): string {
@@ -72,6 +73,7 @@ export function readUserFile(path: string, opts: ReadUserFileOptions): Buffer {
     if (st.isDirectory()) throw fileError(path, undefined, `is a folder, not a ${opts.what}`);
     if (!st.isFile()) throw fileError(path, undefined, `is not a regular file (a FIFO, socket or device); a ${opts.what} must be a file`);
     if (st.size > opts.maxBytes) throw fileError(path, undefined, `is ${sizeText(st.size)}; a ${opts.what} above ${sizeText(opts.maxBytes)} is refused`);
+    noteInput(path, st);
     const chunks: Buffer[] = [];
     let total = 0;
     const chunk = Buffer.allocUnsafe(Math.min(1 << 20, opts.maxBytes + 1));
