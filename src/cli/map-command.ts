@@ -12,6 +12,7 @@ import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs
 import { cellsFromArgs, constraintsFromArgs, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { finiteJson } from './guards.js';
+import { coverageWarnings } from '../light/coverage.js';
 import { assertNotAnInput, forgetInputs } from '../io/inputs.js';
 
 export interface MapArgs extends StackArgs, ConstraintArgs, SpectraArgs {
@@ -92,7 +93,11 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     spectra: members.map((s) => ({ label: s.label, sha256: s.spectrum.sha256, pin_w_m2: round(s.spectrum.pinWm2) })),
   };
   const free = Array.from({ length: cells }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && fixed[i] === undefined);
-  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, meta)) : mapToCsv(m, free), '--out');
+  // The lowest gap the map uses: its axes' low ends, fixed gaps, and the span where other subcells are maximised.
+  const lowestGapEv = Math.min(x0, y0, ...fixed.filter((g): g is number => g !== undefined), ...(free.length > 0 ? [spanFromArgs(a.span)[0]] : []));
+  const warnings = members.length === 1 ? coverageWarnings(members[0].spectrum, lowestGapEv) : [];
+  const csv = () => withCsvWarnings(mapToCsv(m, free), warnings);
+  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, { ...meta, warnings })) : csv(), '--out');
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {
     out: out ?? null,
@@ -100,13 +105,22 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     seconds: round(seconds, 4),
     best: { x_ev: m.best.x, y_ev: m.best.y, efficiency: round(m.best.value, 10) },
     profile: m.profile,
+    warnings,
     caution: CAUTION,
   };
-  if (a.json) return finiteJson(out ? summary : mapJson(m, meta), null, 2);
-  if (!out) return mapToCsv(m, free).trimEnd();
+  if (a.json) return finiteJson(out ? summary : mapJson(m, { ...meta, warnings }), null, 2);
+  if (!out) return csv().trimEnd();
   return [
     `Wrote ${points} points to ${out} (${seconds.toFixed(3)} s).`,
     `Best on the map: ${(m.best.value * 100).toFixed(3)} % at subcell ${xCell + 1} = ${m.best.x.toFixed(4)} eV, subcell ${yCell + 1} = ${m.best.y.toFixed(4)} eV${m.profile ? ' (other gaps maximised per point)' : ''}.`,
+    ...warnings.map((w) => `Warning: ${w}`),
     CAUTION,
   ].join('\n');
+}
+
+/** Warnings as `# Warning:` comment lines after the CSV's first comment line. */
+function withCsvWarnings(csv: string, warnings: string[]): string {
+  if (warnings.length === 0) return csv;
+  const cut = csv.indexOf('\n') + 1;
+  return `${csv.slice(0, cut)}${warnings.map((w) => `# Warning: ${w}\n`).join('')}${csv.slice(cut)}`;
 }

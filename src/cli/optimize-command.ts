@@ -13,6 +13,7 @@ import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFro
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
 import { finiteJson } from './guards.js';
+import { coverageWarnings } from '../light/coverage.js';
 
 /** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
 export function threadsFromArgs(value: unknown): number {
@@ -122,6 +123,8 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   } finally {
     bar?.stop();
   }
+  // One spectrum that stops short of the lowest gap's edge makes η meaningless (docs/PHYSICS.md §11); ensembles say so in their summary.
+  if (a.ensemble === undefined) d = { ...d, warnings: [...d.warnings, ...coverageWarnings(members[0].spectrum, Math.min(...d.result.best.gapsEv))] };
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
   if (a.ensemble !== undefined) {

@@ -8,6 +8,7 @@ import { DILUTION_ONE_SUN, MAX_CONCENTRATION } from '../physics/constants.js';
 import { UserError } from '../errors.js';
 import { blackbodySpectrum } from './blackbody.js';
 import { scaleSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
+import { extendWithReferenceShape } from './coverage.js';
 import { readSpectrumFile, spectrumFromText, type TableUnits } from './table-file.js';
 
 /** Path of a file shipped in the package's spectra/ folder. */
@@ -60,6 +61,8 @@ export interface LightOptions {
   irradianceWm2?: number;
   /** Units declared for a headerless file. */
   units?: TableUnits;
+  /** Extend a table that ends before 4000 nm with the AM1.5G shape, joined at its last point (docs/PHYSICS.md §11). */
+  extendWithAm15g?: boolean;
 }
 
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -119,6 +122,7 @@ export function resolveSpectrum(name: string, opts: LightOptions = {}): Spectrum
     return s;
   } else {
     s = readSpectrumFile(name, opts.units);
+    if (opts.extendWithAm15g) s = extendWithReferenceShape(s, am15g(), 'AM1.5G (ASTM G173-03)');
   }
   if (suns !== undefined) s = scaleSpectrum(s, suns);
   if (opts.irradianceWm2 !== undefined) {

@@ -18,6 +18,7 @@ import { sensitivityChartSvg } from './charts/sensitivity-chart.js';
 import { compareChartSvg, compareColourRange } from './charts/compare-chart.js';
 import { apeChartSvg } from './charts/ape-chart.js';
 import type { ComparedMap, EnsembleComparison, WiringComparison } from './ensemble-compare.js';
+import { coverageWarnings } from '../light/coverage.js';
 import {
   answerRows,
   assumptionList,
@@ -355,9 +356,21 @@ function comparisonSection(data: ReportData, charts: Chart[]): Record<string, un
   };
 }
 
+/**
+ * A single spectrum that stops short of the lowest optimum gap's absorption
+ * edge (docs/PHYSICS.md §11); an ensemble says so in its own summary.
+ */
+function lightCoverageWarnings(data: ReportData): string[] {
+  const light = data.design.light;
+  if (light.kind !== 'spectrum' || data.outcomes.length === 0) return [];
+  const lowest = Math.min(...data.outcomes.flatMap((o) => o.search.result.best.gapsEv));
+  return coverageWarnings(light.spectrum, lowest, 'list a spectrum in the design that reaches it');
+}
+
 function summaryJson(data: ReportData, version: string, generated: string): Record<string, unknown> {
   const d = data.design;
   return {
+    light_warnings: lightCoverageWarnings(data),
     name: d.name,
     tool: `gapstack ${version}`,
     design_sha256: d.sha256,
@@ -445,7 +458,7 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     };
   });
   const comparison = comparisonSection(data, charts);
-  const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
+  const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...lightCoverageWarnings(data), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
   const html = pageTemplate()({
     version,
     title: design.name,
