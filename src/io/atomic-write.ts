@@ -7,6 +7,7 @@ import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, basename, join } from 'node:path';
 import { UserError } from '../errors.js';
 import { assertNotAnInput } from './inputs.js';
+import { injectedWriteFault } from './fault-injection.js';
 import { releaseTemp, trackTemp } from './temp-files.js';
 
 /** Write text or bytes to `path` atomically (same-folder temp file, then rename). */
@@ -21,6 +22,7 @@ export function writeFileAtomic(path: string, data: string | Uint8Array, option 
   const tmp = join(dir, `.${basename(path)}.${process.pid}.${Date.now()}.tmp`);
   trackTemp(tmp);
   try {
+    injectedWriteFault(tmp);
     writeFileSync(tmp, data);
     renameSync(tmp, path);
   } catch (err) {

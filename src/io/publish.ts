@@ -12,6 +12,7 @@ import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, s
 import { basename, dirname, join, resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { assertNoInputInside, assertNotAnInput } from './inputs.js';
+import { injectedWriteFault } from './fault-injection.js';
 import { discardTemp, releaseTemp, trackTemp } from './temp-files.js';
 
 export interface PublishedFile {
@@ -131,6 +132,7 @@ export function publishReport(htmlPath: string, html: string, figures?: { folder
   // 1. Every byte into temporaries.
   try {
     trackTemp(htmlTmp);
+    injectedWriteFault(htmlTmp);
     writeFileSync(htmlTmp, html);
     if (figures && staging) {
       trackTemp(staging);
@@ -138,6 +140,7 @@ export function publishReport(htmlPath: string, html: string, figures?: { folder
       for (const f of figures.files) {
         const p = join(staging, f.name);
         mkdirSync(dirname(p), { recursive: true });
+        injectedWriteFault(p);
         writeFileSync(p, f.data);
       }
       writeFileSync(join(staging, FIGURE_SET_MARKER), `# written by gapstack report; the folder is replaced as a whole by the next report\n${figures.files.map((f) => f.name).join('\n')}\n`);
