@@ -27,7 +27,7 @@ const REPORT = [...DESIGN, 'report'];
  * with materials beside the engine chain (it needs only the base) and usable
  * from search upward; io (safe reading and atomic writing of files) is a base
  * utility every layer may use; sites (batches over many weather files) sits
- * over the report; bench sits beside cli over the engine; index is the public
+ * over the report; bench sits beside cli over the engine and sites; index is the public
  * library surface.
  */
 export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
@@ -44,7 +44,7 @@ export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   report: DESIGN,
   sites: REPORT,
   cli: [...REPORT, 'sites'],
-  bench: SEARCH,
+  bench: [...SEARCH, 'sites'],
   index: [...REPORT, 'sites'],
 };
 
@@ -174,3 +174,35 @@ export function importCycles(files: readonly SourceFile[]): string[] {
 
 /** The repository's src/ directory. */
 export const SRC_DIR = join(dirname(new URL(import.meta.url).pathname), '..', '..', 'src');
+
+/**
+ * Packages a module loads when it is imported, following only imports that
+ * run at load time (static `import`/`export … from`, not `import('…')` and not
+ * `import type`), through the given files.
+ */
+export function packagesLoadedBy(files: readonly SourceFile[], entry: string): Set<string> {
+  const byPath = new Map(files.map((f) => [f.path, f]));
+  const seen = new Set<string>();
+  const packages = new Set<string>();
+  const visit = (path: string) => {
+    if (seen.has(path)) return;
+    seen.add(path);
+    const f = byPath.get(path);
+    if (!f) return;
+    const sf = ts.createSourceFile(path, f.text, ts.ScriptTarget.ES2022, false, ts.ScriptKind.TS);
+    for (const st of sf.statements) {
+      let spec: string | undefined;
+      if (ts.isImportDeclaration(st) && !st.importClause?.isTypeOnly) spec = (st.moduleSpecifier as ts.StringLiteral).text;
+      if (ts.isExportDeclaration(st) && !st.isTypeOnly && st.moduleSpecifier) spec = (st.moduleSpecifier as ts.StringLiteral).text;
+      if (spec === undefined) continue;
+      if (!spec.startsWith('.')) {
+        packages.add(spec);
+        continue;
+      }
+      const target = posix.normalize(posix.join(posix.dirname(path), spec)).replace(/\.js$/, '.ts');
+      visit(byPath.has(target) ? target : `${target}/index.ts`);
+    }
+  };
+  visit(entry);
+  return packages;
+}
