@@ -92,7 +92,8 @@ async function run(rawArgv: string[]): Promise<void> {
       .option('material', { type: 'string', array: true, describe: 'bind a subcell to an absorber family: i=<id> (see gapstack materials)' })
       .option('full-range', { type: 'boolean', default: false, describe: 'let material-bound subcells use the family\'s full reach, not its practical window (warns)' })
       .option('span', { type: 'string', describe: 'global gap span [eV], low:high (default 0.5:2.6)' })
-      .option('ensemble', { type: 'string', describe: 'a set of spectra (folder, manifest or wide table): maximise the yield-weighted efficiency' });
+      .option('ensemble', { type: 'string', describe: 'a set of spectra (folder, manifest or wide table): maximise the yield-weighted efficiency' })
+      .option('accept-large', { type: 'boolean', default: false, describe: 'run even when the size check (stacks × spectra) estimates hours of work' });
   cli = command(
     cli,
     'optimize',

@@ -8,6 +8,7 @@ import { constraintBounds } from '../search/design-search.js';
 import { CAUTION, describeCoupling } from '../report/assumptions.js';
 import { round } from './format.js';
 import { startProgress } from './progress.js';
+import { checkWorkSize, mapStacks } from './work-size.js';
 import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
@@ -16,6 +17,8 @@ import { coverageWarnings } from '../light/coverage.js';
 import { assertNotAnInput, forgetInputs } from '../io/inputs.js';
 
 export interface MapArgs extends StackArgs, ConstraintArgs, SpectraArgs {
+  /** Run even when the size check estimates hours of work. */
+  acceptLarge?: boolean;
   cells?: unknown;
   axes?: unknown;
   x?: unknown;
@@ -74,12 +77,16 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const members = await spectraFromArgs(a, spec.tempK);
   // The light is read now: an --out that would replace one of its files is refused before the work.
   if (out !== undefined) assertNotAnInput(out, '--out');
+  const xAxis = uniformAxis(x0, x1, step);
+  const yAxis = uniformAxis(y0, y1, step);
+  const profiled = fixed.some((g, i) => g === undefined && i !== xCell && i !== yCell);
+  checkWorkSize('map', mapStacks(xAxis.length, yAxis.length, profiled), members.length, Boolean(a.acceptLarge));
   const obj = buildObjective(spec, members);
   const t0 = performance.now();
   const bar = a.json ? null : await startProgress('mapping');
   let m: GapMap;
   try {
-    m = computeMap(obj, { x: uniformAxis(x0, x1, step), y: uniformAxis(y0, y1, step), xCell, yCell, fixed, bounds, progress: bar?.update });
+    m = computeMap(obj, { x: xAxis, y: yAxis, xCell, yCell, fixed, bounds, progress: bar?.update });
   } finally {
     bar?.stop();
   }

@@ -11,7 +11,9 @@ import { fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
-import { startProgress } from './progress.js';
+import { startStagedProgress } from './progress.js';
+import { checkWorkSize, searchStacks } from './work-size.js';
+import { defaultStepEv } from '../search/optimize.js';
 import { finiteJson } from './guards.js';
 import { coverageWarnings } from '../light/coverage.js';
 
@@ -24,6 +26,8 @@ export function threadsFromArgs(value: unknown): number {
 }
 
 export interface OptimizeArgs extends LightArgs, StackArgs, ConstraintArgs, SpectraArgs {
+  /** Run even when the size check estimates hours of work. */
+  acceptLarge?: boolean;
   threads?: unknown;
   cells?: unknown;
   span?: unknown;
@@ -107,6 +111,9 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const spec = stackFromArgs(placeholder, a, familyIndices(constraints));
   requireMeasuredFixed(spec, constraints);
   const members = await spectraFromArgs(a, spec.tempK);
+  // The spectra are counted now: refuse an hours-long run unless asked for.
+  const openCells = constraints.filter((c) => c.kind !== 'fixed').length;
+  checkWorkSize('search', searchStacks(constraints, spanFromArgs(a.span), stepFromArgs(a.step) ?? defaultStepEv(openCells)), members.length + (a.ensemble !== undefined ? 1 : 0), Boolean(a.acceptLarge));
   const question: DesignSearchRequest = {
     template: spec,
     spectra: members,
@@ -117,19 +124,26 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
     freeTopAbsorptance: Boolean(a.freeTopAbsorptance),
   };
   const threads = threadsFromArgs(a.threads);
-  const bar = a.json ? null : await startProgress('searching');
+  const bar = a.json ? null : await startStagedProgress('optimize', a.ensemble !== undefined ? 2 : 1);
   let d: DesignSearchResult;
   try {
-    d = await runDesignSearchParallel({ ...question, progress: bar?.update }, threads);
-  } finally {
+    d = await runDesignSearchParallel({ ...question, progress: bar?.stage(a.ensemble !== undefined ? `search over ${members.length} spectra` : 'search') }, threads);
+  } catch (err) {
     bar?.stop();
+    throw err;
   }
+  if (a.ensemble === undefined) bar?.stop();
   // One spectrum that stops short of the lowest gap's edge makes η meaningless (docs/PHYSICS.md §11); ensembles say so in their summary.
   if (a.ensemble === undefined) d = { ...d, warnings: [...d.warnings, ...coverageWarnings(members[0].spectrum, Math.min(...d.result.best.gapsEv))] };
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
   if (a.ensemble !== undefined) {
-    const reference = await runDesignSearchParallel({ ...question, spectra: [{ spectrum: am15g(), weight: 1, tempK: spec.tempK }] }, threads);
+    let reference: DesignSearchResult;
+    try {
+      reference = await runDesignSearchParallel({ ...question, spectra: [{ spectrum: am15g(), weight: 1, tempK: spec.tempK }], progress: bar?.stage('AM1.5G comparison') }, threads);
+    } finally {
+      bar?.stop();
+    }
     const refGaps = reference.result.best.gapsEv;
     const yieldOfReference = d.objective.value(refGaps);
     comparison = {

@@ -14,6 +14,7 @@ import { assertNoInputInside, assertNotAnInput, forgetInputs } from '../io/input
 import { publishReport } from '../io/publish.js';
 import { CAUTION } from '../report/assumptions.js';
 import { finiteJson } from './guards.js';
+import { startStagedProgress } from './progress.js';
 
 export interface ReportArgs {
   /** Design file (YAML or JSON). */
@@ -52,11 +53,20 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   assertNotAnInput(output, '-o/--output');
   if (a.figures !== undefined) assertNoInputInside(a.figures, '--figures');
   const { buildReport } = await import('../report/build.js');
-  const built = buildReport(design, { date: reportDate() });
+  const { reportStageCount } = await import('../report/compute.js');
+  // Long work shows where it is on a terminal: each wiring's search and map, then the figures.
+  const bar = a.json ? null : await startStagedProgress('report', reportStageCount(design) + (a.figures !== undefined ? 1 : 0));
+  let built: Awaited<ReturnType<typeof buildReport>>;
   let files: { name: string; data: string | Uint8Array }[] = [];
-  if (a.figures !== undefined) {
-    const { figureFiles } = await import('../report/figures.js');
-    files = figureFiles(built.charts, built.summary);
+  try {
+    built = buildReport(design, { date: reportDate(), stage: bar ? (name) => bar.stage(name) : undefined });
+    if (a.figures !== undefined) {
+      const { figureFiles } = await import('../report/figures.js');
+      bar?.stage('figures')(0);
+      files = figureFiles(built.charts, built.summary);
+    }
+  } finally {
+    bar?.stop();
   }
   // Every byte exists in memory now: publish the page and its figures together, or nothing.
   publishReport(output, built.html, a.figures !== undefined ? { folder: a.figures, files } : undefined);

@@ -10,7 +10,7 @@ import Handlebars from 'handlebars';
 import type { Design } from '../design/index.js';
 import { mapToCsv } from '../search/map.js';
 import { stackOptics } from '../stack/optics.js';
-import { computeReport, type MapOutcome, type ReportData, type WiringOutcome } from './compute.js';
+import { computeReport, type MapOutcome, type StageReporter, type ReportData, type WiringOutcome } from './compute.js';
 import { mapChartSvg } from './charts/map-chart.js';
 import { spectrumChartData, spectrumChartSvg } from './charts/spectrum-chart.js';
 import { jvChartSvg } from './charts/jv-chart.js';
@@ -411,8 +411,8 @@ function pageTemplate(): HandlebarsTemplateDelegate {
 }
 
 /** Build the report of a design: compute, draw, format. */
-export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
-  const data = computeReport(design);
+export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter }): BuiltReport {
+  const data = computeReport(design, opts.stage);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
   const charts: Chart[] = [];

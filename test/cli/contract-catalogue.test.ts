@@ -487,3 +487,40 @@ describe('interrupted reports: the page and its figures are published together o
     expect(statSync(join(root, readdirSync(root)[0])).isDirectory()).toBe(true);
   });
 });
+
+describe('long work: a size check that counts spectra, and progress on a terminal', () => {
+  test('optimize --cells 4 over 10 000 spectra is refused with an estimate before any work; --accept-large is the way through', () => {
+    const table = readFileSync(join(ROOT, 'examples/ensemble-demo/spectra/01-winter-clear-midday.tsv'));
+    file('big/a.tsv', table);
+    const m = file('big/m.csv', `# weight_unit: hours\nfile,weight\n${'a.tsv,1\n'.repeat(10_000)}`);
+    const r = runCli(['optimize', '--cells', '4', '--ensemble', m]);
+    expectUserError(r, /this search would evaluate about [\d.]+e\d+ stack–spectrum pairs \([\d.]+e\d+ stacks × 10001 spectra\).*--accept-large/);
+  });
+
+  test('the estimate: ordered free gaps count once; ranges and fixed gaps shrink it; profile points cost a local search', async () => {
+    const { searchStacks, mapStacks, checkWorkSize } = await import('../../src/cli/work-size.js');
+    // 2 free gaps over 0.5–2.6 eV at 10 meV: 211 points each, C-like count 211²/2! (common practice: the ordered pairs of a grid).
+    expect(searchStacks([{ kind: 'free' }, { kind: 'free' }], [0.5, 2.6], 0.01)).toBeCloseTo((211 * 211) / 2, 6);
+    expect(searchStacks([{ kind: 'free' }, { kind: 'fixed', gapEv: 1.12 }], [0.5, 2.6], 0.01)).toBe(211);
+    expect(searchStacks([{ kind: 'range', loEv: 1.5, hiEv: 2.0 }, { kind: 'fixed', gapEv: 1.12 }], [0.5, 2.6], 0.01)).toBe(51);
+    expect(mapStacks(10, 20, false)).toBe(200);
+    expect(mapStacks(10, 20, true)).toBeGreaterThan(200);
+    expect(() => checkWorkSize('search', 1e7, 1000, false)).toThrow(/about 1\.0e10 stack–spectrum pairs \(1\.0e7 stacks × 1000 spectra\)/);
+    expect(() => checkWorkSize('search', 1e7, 1000, true)).not.toThrow();
+    expect(() => checkWorkSize('search', 1e5, 1000, false)).not.toThrow();
+  });
+
+  test('ordinary runs pass the check untouched', () => {
+    expect(runCli(['optimize', '--cells', '2', '--fix', '2=1.12', '--json']).code).toBe(0);
+  });
+
+  const script = spawnSync('script', ['--version'], { encoding: 'utf8' }).status === 0;
+  test.skipIf(!script)('a report in a terminal names its stages and the time left (under script(1), a pseudo-terminal)', () => {
+    const out = join(dir, 'progress', 'r.html');
+    const cmd = `"${process.execPath}" "${BIN}" report "${join(ROOT, 'examples/perovskite-silicon.yaml')}" -o "${out}" --figures "${join(dir, 'progress', 'f')}"`;
+    const r = spawnSync('script', ['-qec', cmd, '/dev/null'], { cwd: ROOT, encoding: 'utf8', timeout: 180_000 });
+    expect(r.status, r.stdout).toBe(0);
+    const shown = r.stdout.replace(/\x1b\[[0-9;?]*[A-Za-z]/g, '');
+    expect(shown).toMatch(/report: stage \d\/5 (search|map|figures)[^[]*\[[░█]+\] \d+% \| about \S+ left/);
+  }, 180_000);
+});
