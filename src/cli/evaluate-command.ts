@@ -10,6 +10,7 @@ import { fix, pct, round, table } from './format.js';
 import { gapsFromArgs, spectrumFromArgs, stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { finiteJson } from './guards.js';
 import { coverageWarnings } from '../light/coverage.js';
+import { CLI_EXTEND_HINT } from './spectra-options.js';
 
 export interface EvaluateArgs extends LightArgs, StackArgs {
   gaps?: unknown;
@@ -65,7 +66,7 @@ export function evaluateCommand(a: EvaluateArgs): string {
     spec.subcells[0] = withTop(chosenTop).subcells[0];
   }
   const r = evaluateStack(spec, spectrum);
-  const warnings = [...stackWarnings(spec), ...resultWarnings(r), ...coverageWarnings(spectrum, Math.min(...gaps))];
+  const warnings = [...stackWarnings(spec), ...resultWarnings(r), ...coverageWarnings(spectrum, Math.min(...gaps), CLI_EXTEND_HINT)];
   if (a.json) return finiteJson({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}), warnings }, null, 2);
   const rows = r.subcells.map((c, i) => [
     String(i + 1),

@@ -11,7 +11,7 @@ import { startProgress } from './progress.js';
 import { checkWorkSize, mapStacks } from './work-size.js';
 import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, spanFromArgs, type ConstraintArgs } from './search-options.js';
-import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
+import { spectraFromArgs, type SpectraArgs, CLI_EXTEND_HINT } from './spectra-options.js';
 import { finiteJson } from './guards.js';
 import { coverageWarnings } from '../light/coverage.js';
 import { assertNotAnInput, forgetInputs } from '../io/inputs.js';
@@ -103,7 +103,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const free = Array.from({ length: cells }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && fixed[i] === undefined);
   // The lowest gap the map uses: its axes' low ends, fixed gaps, and the span where other subcells are maximised.
   const lowestGapEv = Math.min(x0, y0, ...fixed.filter((g): g is number => g !== undefined), ...(free.length > 0 ? [spanFromArgs(a.span)[0]] : []));
-  const warnings = members.length === 1 ? coverageWarnings(members[0].spectrum, lowestGapEv) : [];
+  const warnings = members.length === 1 ? coverageWarnings(members[0].spectrum, lowestGapEv, CLI_EXTEND_HINT) : [];
   const csv = () => withCsvWarnings(mapToCsv(m, free), warnings);
   if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, { ...meta, warnings })) : csv(), '--out');
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);

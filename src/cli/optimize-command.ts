@@ -10,7 +10,7 @@ import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '
 import { fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
-import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
+import { spectraFromArgs, type SpectraArgs, CLI_EXTEND_HINT } from './spectra-options.js';
 import { startStagedProgress } from './progress.js';
 import { checkWorkSize, searchStacks } from './work-size.js';
 import { defaultStepEv } from '../search/optimize.js';
@@ -111,9 +111,10 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const spec = stackFromArgs(placeholder, a, familyIndices(constraints));
   requireMeasuredFixed(spec, constraints);
   const members = await spectraFromArgs(a, spec.tempK);
-  // The spectra are counted now: refuse an hours-long run unless asked for.
+  // The spectra are counted now: refuse an hours-long run over an ensemble unless asked for
+  // (one spectrum: the search's own grid limit speaks).
   const openCells = constraints.filter((c) => c.kind !== 'fixed').length;
-  checkWorkSize('search', searchStacks(constraints, spanFromArgs(a.span), stepFromArgs(a.step) ?? defaultStepEv(openCells)), members.length + (a.ensemble !== undefined ? 1 : 0), Boolean(a.acceptLarge));
+  if (members.length > 1) checkWorkSize('search', searchStacks(constraints, spanFromArgs(a.span), stepFromArgs(a.step) ?? defaultStepEv(openCells)), members.length + (a.ensemble !== undefined ? 1 : 0), Boolean(a.acceptLarge));
   const question: DesignSearchRequest = {
     template: spec,
     spectra: members,
@@ -134,7 +135,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   }
   if (a.ensemble === undefined) bar?.stop();
   // One spectrum that stops short of the lowest gap's edge makes η meaningless (docs/PHYSICS.md §11); ensembles say so in their summary.
-  if (a.ensemble === undefined) d = { ...d, warnings: [...d.warnings, ...coverageWarnings(members[0].spectrum, Math.min(...d.result.best.gapsEv))] };
+  if (a.ensemble === undefined) d = { ...d, warnings: [...d.warnings, ...coverageWarnings(members[0].spectrum, Math.min(...d.result.best.gapsEv), CLI_EXTEND_HINT)] };
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
   if (a.ensemble !== undefined) {

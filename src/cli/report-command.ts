@@ -90,6 +90,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
     `Wrote ${output}${a.figures !== undefined ? ` and ${files.length} files in ${a.figures}` : ''} (${seconds.toFixed(2)} s).`,
     ...outcomes.map((o) => `  ${o.wiring.key}: ${(o.search.result.best.value * 100).toFixed(3)} % at ${o.search.result.best.gapsEv.map((g) => g.toFixed(4)).join(' / ')} eV`),
     ...outcomes.flatMap((o) => o.search.warnings.map((w) => `Warning (${o.wiring.key}): ${w}`)),
+    ...((built.summary.light_warnings as string[] | undefined) ?? []).map((w) => `Warning: ${w}`),
     CAUTION,
   ];
   return lines.join('\n');

@@ -19,7 +19,8 @@ interface InputFile {
   id: string;
 }
 
-const inputs: InputFile[] = [];
+/** Keyed by canonical path: a file read many times (a library caller's loop) is held once. */
+const inputs = new Map<string, InputFile>();
 
 function canonical(path: string): string {
   try {
@@ -43,17 +44,18 @@ export function noteInput(path: string, stat?: { dev: number; ino: number }): vo
   } catch {
     // unreadable inputs fail elsewhere
   }
-  inputs.push({ given: path, real: canonical(path), id });
+  const real = canonical(path);
+  inputs.set(real, { given: path, real, id });
 }
 
 /** The inputs recorded so far (for tests). */
 export function notedInputs(): readonly string[] {
-  return inputs.map((i) => i.given);
+  return [...inputs.values()].map((i) => i.given);
 }
 
 /** Forget recorded inputs (each library call that reads a new set starts here; tests too). */
 export function forgetInputs(): void {
-  inputs.length = 0;
+  inputs.clear();
 }
 
 /** Refuse an output file that is one of this run's inputs. */
@@ -66,13 +68,13 @@ export function assertNotAnInput(outPath: string, option: string): void {
   } catch {
     // a new file cannot be an input
   }
-  const hit = inputs.find((i) => i.real === real || (id !== '' && i.id === id));
+  const hit = [...inputs.values()].find((i) => i.real === real || (id !== '' && i.id === id));
   if (hit) throw new UserError(`${option} ${outPath} is an input of this run (${hit.given}); choose another path, nothing was written`);
 }
 
 /** Refuse a figures folder that holds one of this run's inputs (publishing it replaces the folder). */
 export function assertNoInputInside(folder: string, option: string): void {
   const real = canonical(folder);
-  const hit = inputs.find((i) => i.real === real || i.real.startsWith(real.endsWith(sep) ? real : real + sep));
+  const hit = [...inputs.values()].find((i) => i.real === real || i.real.startsWith(real.endsWith(sep) ? real : real + sep));
   if (hit) throw new UserError(`${option} ${folder} holds an input of this run (${hit.given}); choose a folder of its own, nothing was written`);
 }

@@ -61,6 +61,7 @@ function sizeText(bytes: number): string {
  * anything above `maxBytes`, before and while reading.
  */
 export function readUserFile(path: string, opts: ReadUserFileOptions): Buffer {
+  injectedReadFault(path, opts.what);
   let fd: number;
   try {
     // O_NONBLOCK: opening a FIFO must not wait for a writer; it is refused just below.
@@ -124,4 +125,17 @@ export function decodeUserText(path: string, bytes: Buffer, what: string): strin
 export function readUserText(path: string, opts: ReadUserFileOptions): { bytes: Buffer; text: string } {
   const bytes = readUserFile(path, opts);
   return { bytes, text: decodeUserText(path, bytes, opts.what) };
+}
+
+/**
+ * Tests only (documented in DEVELOPERS.md): `GAPSTACK_FAULT_INJECTION=eacces:<text>`
+ * makes opening any user file whose path contains <text> fail as permission
+ * denied, for machines where the tests run as root and cannot run the
+ * command line as an unprivileged user. Nothing else reads it.
+ */
+function injectedReadFault(path: string, what: string): void {
+  const spec = process.env.GAPSTACK_FAULT_INJECTION;
+  if (!spec?.startsWith('eacces:')) return;
+  const needle = spec.slice('eacces:'.length);
+  if (needle !== '' && path.includes(needle)) throw new UserError(`${path}: cannot open ${what} (${codeAndWords({ code: 'EACCES' })})`);
 }

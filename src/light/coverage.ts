@@ -85,8 +85,8 @@ function interpolate(x: Float64Array, y: Float64Array, at: number): number {
   return y[lo] + t * (y[hi] - y[lo]);
 }
 
-/** What to do about a short table, for command-line outputs. */
-export const EXTEND_HINT = 'use a spectrum that reaches it, or rerun with --extend-spectrum to continue the table with the AM1.5G shape joined at its last point';
+/** What to do about a short table, in the library's words (the command line names its option). */
+export const EXTEND_HINT = 'use a spectrum that reaches it, or extend the table with a stated reference shape (extendWithReferenceShape)';
 
 /** Zero or one warning line: the spectrum against the lowest gap [eV] the result uses. */
 export function coverageWarnings(s: Spectrum, lowestGapEv: number, hint = EXTEND_HINT): string[] {

@@ -216,6 +216,20 @@ describe('warnings where the model leaves its range', () => {
   });
 });
 
+describe('a short spectrum in a design: the report says so in its text, JSON and page', () => {
+  test('report of a quick design under a table ending at 1050 nm', () => {
+    file('short-design/short.csv', `wavelength_nm,irradiance_W_m2_nm\n${Array.from({ length: 71 }, (_, i) => `${350 + 10 * i},1.2`).join('\n')}\n`);
+    const d = file('short-design/d.yaml', QUICK_DESIGN('short.csv'));
+    const out = join(dir, 'short-design', 'r.html');
+    const text = runCli(['report', d, '-o', out]);
+    expect(text.code, text.stderr).toBe(0);
+    expect(text.stdout).toMatch(/Warning: the spectrum "short\.csv" stops at 1050 nm, short of the 1\.120 eV gap's absorption edge at 1107 nm/);
+    expect(readFileSync(out, 'utf8')).toMatch(/stops at 1050 nm, short of the 1\.120 eV gap(&#x27;|')s absorption edge at 1107 nm/);
+    const json = JSON.parse(runCli(['report', d, '-o', out, '--json']).stdout);
+    expect(json.light_warnings.join('\n')).toMatch(/stops at 1050 nm/);
+  }, 180_000);
+});
+
 describe('standard output that cannot take more', () => {
   test('a reader that goes away (| head -1): exit 0, nothing on stderr', async () => {
     const child = spawn(process.execPath, [BIN, 'map', '--x', '0.5:2.6', '--y', '0.5:2.6', '--step', '0.01'], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
@@ -299,7 +313,6 @@ describe('a full disk while writing a report', () => {
   }, 180_000);
 });
 
-/** Run the CLI as an unprivileged user when we are root (chmod 000 does not stop root). */
 describe('the write-failure injection (for machines that cannot mount a full tmpfs)', () => {
   test('the 3rd write fails as a full disk would: exit 2, the previous outputs stay, no temporaries', () => {
     const root = join(dir, 'injected');
@@ -321,15 +334,27 @@ describe('the write-failure injection (for machines that cannot mount a full tmp
   }, 180_000);
 });
 
-function runAsUnprivileged(args: string[]): CliResult {
-  const isRoot = process.getuid?.() === 0;
-  const cmd = isRoot ? 'setpriv' : process.execPath;
-  const argv = isRoot ? ['--reuid=65534', '--regid=65534', '--clear-groups', process.execPath, BIN, ...args] : [BIN, ...args];
-  const r = spawnSync(cmd, argv, { cwd: ROOT, encoding: 'utf8', timeout: 120_000 });
+const IS_ROOT = process.getuid?.() === 0;
+const AS_NOBODY = ['--reuid=65534', '--regid=65534', '--clear-groups'];
+/** Root can run the CLI as nobody only where nobody can reach the checkout (a clone in a private temp folder cannot). */
+const NOBODY_RUNS_CLI = IS_ROOT && spawnSync('setpriv', [...AS_NOBODY, process.execPath, BIN, '--version'], { cwd: ROOT, timeout: 60_000 }).status === 0;
+
+/**
+ * Run the CLI where `path` cannot be read: as an unprivileged user (chmod 000
+ * does not stop root), or, where that is impossible, through the test-only
+ * injection that fails opening that path with EACCES.
+ */
+function runUnreadable(args: string[], path: string): CliResult {
+  const opts = { cwd: ROOT, encoding: 'utf8' as const, timeout: 120_000 };
+  const r = !IS_ROOT
+    ? spawnSync(process.execPath, [BIN, ...args], opts)
+    : NOBODY_RUNS_CLI
+      ? spawnSync('setpriv', [...AS_NOBODY, process.execPath, BIN, ...args], opts)
+      : spawnSync(process.execPath, [BIN, ...args], { ...opts, env: { ...process.env, GAPSTACK_FAULT_INJECTION: `eacces:${path}` } });
   return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
 }
 
-describe('files the user cannot read: exit 2 naming the file (for real, as an unprivileged user)', () => {
+describe('files the user cannot read: exit 2 naming the file (as an unprivileged user where possible)', () => {
   const base = join(dir, 'eacces');
   mkdirSync(base, { recursive: true });
   chmodSync(base, 0o755);
@@ -359,7 +384,8 @@ describe('files the user cannot read: exit 2 naming the file (for real, as an un
   const design = locked('d1/design.yaml', QUICK_DESIGN());
   const referencing = open('d2/design.yaml', QUICK_DESIGN('light.csv'));
   const referenced = locked('d2/light.csv', GOOD_TABLE);
-  const unprivileged = spawnSync('setpriv', ['--reuid=65534', '--regid=65534', '--clear-groups', 'true']).status === 0 || process.getuid?.() !== 0;
+  const filmDesign = open('d3/design.yaml', 'name: film\nsubcells:\n  - gap: 1.7\n    absorptance_file: abs.csv\n  - gap: 1.12\nwirings: [series]\n');
+  const filmCurve = locked('d3/abs.csv', 'wavelength_nm,absorptance\n400,0.9\n700,0.8\n');
 
   const cases: [string, string[], string][] = [
     ['a spectrum (spectrum)', ['spectrum', spectrum], spectrum],
@@ -368,9 +394,10 @@ describe('files the user cannot read: exit 2 naming the file (for real, as an un
     ['an ensemble member', ['yield', '--gaps', '1.73,1.12', '--ensemble', memberManifest], member],
     ['a design', ['report', design, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], design],
     ['a file a design names', ['report', referencing, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], referenced],
+    ['a measured curve a design names', ['report', filmDesign, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], filmCurve],
   ];
-  test.skipIf(!unprivileged).each(cases)('%s', (what, args, path) => {
-    const r = runAsUnprivileged(args);
+  test.each(cases)(`%s (${!IS_ROOT ? 'chmod 000' : NOBODY_RUNS_CLI ? 'run as nobody' : 'injected'})`, (what, args, path) => {
+    const r = runUnreadable(args, path);
     expectUserError(r, /EACCES: permission denied/, what);
     expect(r.stderr).toContain(path);
   });
