@@ -47,19 +47,32 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   if (!/\.html?$/i.test(output)) throw new UserError(`-o/--output must end in .html, got "${output}"`);
   const t0 = performance.now();
   forgetInputs();
-  const { loadDesign } = await import('../design/index.js');
-  const design = await loadDesign(a.design);
+  const { loadScenarioSet } = await import('../design/index.js');
+  const set = await loadScenarioSet(a.design);
   // The design and every file it names are read now: refuse an output that would replace one, before the work.
   assertNotAnInput(output, '-o/--output');
   if (a.figures !== undefined) assertNoInputInside(a.figures, '--figures');
-  const { buildReport } = await import('../report/build.js');
   const { reportStageCount } = await import('../report/compute.js');
-  // Long work shows where it is on a terminal: each wiring's search and map, then the figures.
-  const bar = a.json ? null : await startStagedProgress('report', reportStageCount(design) + (a.figures !== undefined ? 1 : 0));
-  let built: Awaited<ReturnType<typeof buildReport>>;
+  // Long work shows where it is on a terminal: each scenario's and wiring's search and map, then the figures.
+  const stageCount = set.scenarios.reduce((n, d) => n + reportStageCount(d), 0) + (a.figures !== undefined ? 1 : 0);
+  const bar = a.json ? null : await startStagedProgress('report', stageCount);
+  const stage = bar ? (name: string) => bar.stage(name) : undefined;
+  let built: { html: string; charts: import('../report/build.js').Chart[]; summary: Record<string, unknown> };
+  let outcomes: { label: string; o: import('../report/outcomes.js').WiringOutcome }[];
   let files: { name: string; data: string | Uint8Array }[] = [];
   try {
-    built = buildReport(design, { date: reportDate(), stage: bar ? (name) => bar.stage(name) : undefined });
+    if (set.named) {
+      // Several scenarios: one comparison table first, then each scenario's own sections.
+      const { buildScenarioReport } = await import('../report/scenarios.js');
+      const r = buildScenarioReport(set, { date: reportDate(), stage });
+      built = r;
+      outcomes = r.built.flatMap((b, k) => b.data.outcomes.map((o) => ({ label: `${set.scenarios[k].name}, ${o.wiring.key}`, o })));
+    } else {
+      const { buildReport } = await import('../report/build.js');
+      const r = buildReport(set.scenarios[0], { date: reportDate(), stage });
+      built = r;
+      outcomes = r.data.outcomes.map((o) => ({ label: o.wiring.key, o }));
+    }
     if (a.figures !== undefined) {
       const { figureFiles } = await import('../report/figures.js');
       bar?.stage('figures')(0);
@@ -72,7 +85,6 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   publishReport(output, built.html, a.figures !== undefined ? { folder: a.figures, files } : undefined);
   const written = [output, ...files.map((f) => join(a.figures as string, f.name))];
   const seconds = (performance.now() - t0) / 1000;
-  const outcomes = built.data.outcomes;
   if (a.json) {
     return finiteJson(
       {
@@ -88,8 +100,8 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   }
   const lines = [
     `Wrote ${output}${a.figures !== undefined ? ` and ${files.length} files in ${a.figures}` : ''} (${seconds.toFixed(2)} s).`,
-    ...outcomes.map((o) => `  ${o.wiring.key}: ${(o.search.result.best.value * 100).toFixed(3)} % at ${o.search.result.best.gapsEv.map((g) => g.toFixed(4)).join(' / ')} eV`),
-    ...outcomes.flatMap((o) => o.search.warnings.map((w) => `Warning (${o.wiring.key}): ${w}`)),
+    ...outcomes.map(({ label, o }) => `  ${label}: ${(o.search.result.best.value * 100).toFixed(3)} % at ${o.search.result.best.gapsEv.map((g) => g.toFixed(4)).join(' / ')} eV`),
+    ...outcomes.flatMap(({ label, o }) => o.search.warnings.map((w) => `Warning (${label}): ${w}`)),
     ...((built.summary.light_warnings as string[] | undefined) ?? []).map((w) => `Warning: ${w}`),
     CAUTION,
   ];
