@@ -16,6 +16,7 @@ import { gapsFromArgs, parseRange, stackFromArgs, type StackArgs } from './optio
 import { checkWeatherOnlyOptions, siteOptionsFromArgs, type WeatherArgs } from './weather-options.js';
 import { loadSiteYear, type SiteYear } from '../light/site-year.js';
 import { hasMovingGaps } from '../stack/model.js';
+import { finiteJson } from './guards.js';
 import { toMaCm2 } from '../physics/constants.js';
 
 export interface YieldArgs extends StackArgs, WeatherArgs {
@@ -187,7 +188,7 @@ export function yieldCommand(a: YieldArgs): string {
   const s = ensembleSummary(e, window, { lowestGapEv });
   const y = yieldForStack(spec, e.members);
   const ref = evaluateStack(spec, am15g()).efficiency;
-  if (a.json) return JSON.stringify(yieldJson(spec, e, s, y, ref, site), null, 2);
+  if (a.json) return finiteJson(yieldJson(spec, e, s, y, ref, site), null, 2);
 
   const hours = e.weightUnit === 'hours';
   const wUnit = hours ? 'h' : 'share';
