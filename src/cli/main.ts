@@ -88,7 +88,7 @@ async function run(argv: string[]): Promise<void> {
         .option('step', { type: 'string', describe: 'coarse grid step [eV] (default 5–40 meV by free subcells); refinement goes below 1 meV' })
         .option('loss', { type: 'string', describe: 'relative efficiency loss that bounds the tolerance region (default 0.01)' })
         .option('free-top-absorptance', { type: 'boolean', default: false, describe: '2T: let the search thin the top cell (constant absorptance above its gap)' })
-        .option('threads', { type: 'string', describe: 'worker threads for large searches (default: the number of cores)' })
+        .option('threads', { type: 'string', describe: 'most worker threads for large searches (default: the number of cores; the size of the work decides)' })
         .option('json', { type: 'boolean', default: false }),
     async (a) => print(await (await import('./optimize-command.js')).optimizeCommand(a as never)),
   );

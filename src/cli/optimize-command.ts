@@ -13,7 +13,7 @@ import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFro
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
 
-/** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
+/** --threads: most worker threads the enumeration may use (default: the machine's cores, at most 8); the size of the work decides how many it does use. */
 export function threadsFromArgs(value: unknown): number {
   if (value === undefined) return Math.min(8, availableParallelism());
   const t = Number(value);

@@ -5,7 +5,9 @@
  * seeds locally to sub-meV, and report the best, the runner-up basins and the
  * tolerance region.
  */
+import { availableParallelism } from 'node:os';
 import { UserError } from '../errors.js';
+import { enumerationThreads } from './thread-plan.js';
 import { bandEdgeEnergiesEv, gapAxis } from './axis.js';
 import { enumerateGeneric, enumerateStep, type Candidate, type EnumerationResult } from './enumerate.js';
 import { compassMax, nelderMeadMax, type Box } from './refine.js';
@@ -115,6 +117,8 @@ interface PreparedSearch {
   ranges: [number, number][];
   margin: number;
   edgeCount: number;
+  /** Ordered combinations on the coarse axis (an estimate of the leaves). */
+  combinations: number;
   t0: number;
 }
 
@@ -148,7 +152,7 @@ function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: numb
   if (combinations > limit) {
     throw new UserError(`about ${combinations.toExponential(1)} gap combinations at a ${step * 1000} meV grid step; use a coarser --step (refinement goes below 1 meV anyway) or narrower ranges`);
   }
-  return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, t0 };
+  return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, combinations, t0 };
 }
 
 /** Run the global search in this thread. */
@@ -170,25 +174,27 @@ function searchPrepared(obj: GapObjective, p: SearchProblem, prep: PreparedSearc
 }
 
 /**
- * Threads pay for their start-up (about 0.1–0.2 s here) only on long
- * enumerations: use them when the coarse pass, a few times cheaper than the
- * full one, already took this long [s].
- */
-export const PARALLEL_MIN_COARSE_SECONDS = 0.08;
-
-/**
  * The global search with the enumeration shared across worker threads (a
- * piscina pool) when it is long enough to gain. Each worker takes
- * interleaved values of the top gap and starts from the best of the coarser
- * pass, so pruning bites at once. The answer does not depend on the threads.
+ * piscina pool) when the work is large enough for the machine's cores
+ * (`enumerationThreads`; `'force'` uses `maxThreads` whatever the size).
+ * Each worker takes interleaved values of the top gap and starts from the
+ * best of the coarser pass, so pruning bites at once. The answer does not
+ * depend on the threads.
  */
-export async function searchGapsParallel(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = [], threads = 2, minCoarseSeconds = PARALLEL_MIN_COARSE_SECONDS): Promise<SearchResult> {
+export async function searchGapsParallel(
+  obj: GapObjective,
+  p: SearchProblem,
+  edgeEnergiesEv: number[] = [],
+  maxThreads = 2,
+  plan: 'auto' | 'force' = 'auto',
+  cores = availableParallelism(),
+): Promise<SearchResult> {
   const prep = prepareSearch(obj, p, edgeEnergiesEv);
-  if (!prep.fast || threads < 2) return searchPrepared(obj, p, prep);
+  if (!prep.fast) return searchPrepared(obj, p, prep);
   const so = obj as StepObjective;
-  const t0 = performance.now();
+  const threads = plan === 'force' ? maxThreads : enumerationThreads({ combinations: prep.combinations, spectra: so.spectra.length, cores, maxThreads });
+  if (threads < 2) return searchPrepared(obj, p, prep);
   const incumbent = coarseIncumbent(so, prep.axis, prep.ranges);
-  if ((performance.now() - t0) / 1000 < minCoarseSeconds) return searchPrepared(obj, p, prep, incumbent);
   const [lo0, hi0] = prep.ranges[0];
   const tops: number[][] = Array.from({ length: threads }, () => []);
   for (let g = hi0, k = 0; g >= lo0; g--, k++) tops[k % threads].push(g);
