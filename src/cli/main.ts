@@ -35,9 +35,25 @@ function stackOptions<T>(y: Argv<T>) {
 
 type Handler = (a: Record<string, unknown>) => Promise<void>;
 
+/**
+ * yargs lays out and caches a command's whole help text every time it runs
+ * the command's handler, shown or not. Unless help was asked for, every
+ * option is hidden from that layout (it still parses and validates), so help
+ * text is built only when it is shown.
+ */
+const HELP_SHOWN = process.argv.some((a) => a === '--help' || a === '-h');
+
+function hideFromHelpLayout(y: Argv): Argv {
+  if (HELP_SHOWN) return y;
+  // getOptions() is public on the yargs instance but missing from its type declarations.
+  const keys = Object.keys((y as unknown as { getOptions(): { key: Record<string, unknown> } }).getOptions().key);
+  for (const key of keys) y.hide(key);
+  return y;
+}
+
 /** Register a command; yargs' inferred option types are not needed past this point. */
 function command(cli: Argv, name: string, describe: string, builder: (y: Argv) => Argv, handler: Handler): Argv {
-  return cli.command(name, describe, builder as never, handler as never);
+  return cli.command(name, describe, ((y: Argv) => hideFromHelpLayout(builder(y))) as never, handler as never);
 }
 
 async function run(argv: string[]): Promise<void> {
