@@ -8,9 +8,7 @@
  * with all remaining photons.
  */
 import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
-import { photonsAboveEv } from '../light/spectrum.js';
-import { j0RadStepAm2 } from '../junction/radiative.js';
-import { singlePowerWm2, type StepObjective } from './step-objective.js';
+import { singlePowerWm2, type StepObjective } from '../stack/step-objective.js';
 import { CandidateKeeper, type Candidate } from './candidates.js';
 
 export type { Candidate } from './candidates.js';
@@ -54,9 +52,10 @@ interface AxisTables {
 
 function axisTables(obj: StepObjective, axis: Float64Array): AxisTables {
   const spectra = obj.spectra;
+  const tables = obj.axisTables(axis);
   return {
-    qn: spectra.map((ws) => Float64Array.from(axis, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(ws.spectrum, e))),
-    j0: spectra.map((ws) => Float64Array.from(axis, (e) => j0RadStepAm2(e, ws.tempK))),
+    qn: tables.map((t) => t.qnAm2),
+    j0: tables.map((t) => t.j0RadAm2),
     vt: Float64Array.from(spectra, (s) => thermalVoltageV(s.tempK)),
     weights: Float64Array.from(spectra, (s) => s.weight),
     maxFluxPerEv: Float64Array.from(spectra, (ws) => {

@@ -11,7 +11,8 @@ import { enumerationThreads } from './thread-plan.js';
 import { bandEdgeEnergiesEv, gapAxis } from './axis.js';
 import { enumerateGeneric, enumerateStep, type Candidate, type EnumerationResult } from './enumerate.js';
 import { compassMax, nelderMeadMax, type Box } from './refine.js';
-import { StepObjective, type GapObjective } from './step-objective.js';
+import type { GapObjective } from '../stack/gap-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 
 export interface SearchProblem {
   cells: number;

@@ -78,7 +78,7 @@ describe('six independent subcells (once a hang: more leaves within the margin t
     'the search returns its optimum and beats the best five-cell stack',
     async () => {
       const { am15g } = await import('../../src/light/sources.js');
-      const { StepObjective } = await import('../../src/search/step-objective.js');
+      const { StepObjective } = await import('../../src/stack/step-objective.js');
       const { bandEdgeEnergiesEv, searchGaps } = await import('../../src/search/optimize.js');
       const s = am15g();
       const edges = bandEdgeEnergiesEv(s, 0.5, 2.6);
