@@ -120,7 +120,7 @@ export function yieldCommand(a: YieldArgs): string {
   const window = a.apeWindow === undefined ? undefined : parseRange('ape-window', a.apeWindow);
   const lowestGapEv = Math.min(...gaps);
   const s = ensembleSummary(e, window, { lowestGapEv });
-  const y = yieldForStack(spec, e.members);
+  const y = yieldForStack(spec, e.members, e.weightUnit);
   const ref = evaluateStack(spec, am15g()).efficiency;
   if (a.json) return JSON.stringify(yieldJson(spec, e, s, y, ref), null, 2);
 
@@ -138,7 +138,7 @@ export function yieldCommand(a: YieldArgs): string {
     ...p.subcells.map((c) => fix(c.jOpAm2 / 10, 2)),
   ]);
   const out = [
-    `Yield-weighted efficiency ${pct(y.yieldEfficiency, 3)} over ${e.members.length} spectra (Σ w·P_max / Σ w·P_in), wiring: ${spec.wiring.label}, gaps ${gaps.join(' / ')} eV`,
+    `Yield-weighted efficiency ${pct(y.yieldEfficiency, 3)} over ${e.members.length} spectra (${hours ? 'Σ Δt·P_max / Σ Δt·P_in' : 'Σ s·η / Σ s'}), wiring: ${spec.wiring.label}, gaps ${gaps.join(' / ')} eV`,
     `Same stack under AM1.5G at ${spec.tempK} K: ${pct(ref, 3)}`,
   ];
   if (hours) {

@@ -54,8 +54,8 @@ export interface EnsembleMember extends LabelledSpectrum {
   timestamp?: string;
 }
 
-/** How the weights are meant: hours (so Σ w·P is energy [Wh/m²]) or relative energy shares [-]. */
-export type WeightUnit = 'hours' | 'share';
+import type { WeightUnit } from './ensemble-weights.js';
+export type { WeightUnit } from './ensemble-weights.js';
 
 export type EnsembleLayout = 'folder' | 'csv-manifest' | 'yaml-manifest' | 'wide-columns' | 'wide-rows';
 
