@@ -2,7 +2,7 @@
 import { UserError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { buildObjective } from '../stack/objectives.js';
-import { computeMap, mapToCsv, uniformAxis, type GapMap } from '../search/map.js';
+import { computeMap, mapToCsvBytes, uniformAxis, type GapMap } from '../search/map.js';
 import { subcellBounds } from '../search/optimize.js';
 import { constraintBounds } from '../search/design-search.js';
 import { CAUTION, describeCoupling } from '../report/assumptions.js';
@@ -87,7 +87,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     spectra: members.map((s) => ({ label: s.label, sha256: s.spectrum.sha256, pin_w_m2: round(s.spectrum.pinWm2) })),
   };
   const free = Array.from({ length: cells }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && fixed[i] === undefined);
-  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? JSON.stringify(mapJson(m, meta)) : mapToCsv(m, free));
+  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? JSON.stringify(mapJson(m, meta)) : mapToCsvBytes(m, free));
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {
     out: out ?? null,
@@ -98,7 +98,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     caution: CAUTION,
   };
   if (a.json) return JSON.stringify(out ? summary : mapJson(m, meta), null, 2);
-  if (!out) return mapToCsv(m, free).trimEnd();
+  if (!out) return mapToCsvBytes(m, free).toString('utf8').trimEnd();
   return [
     `Wrote ${points} points to ${out} (${seconds.toFixed(3)} s).`,
     `Best on the map: ${(m.best.value * 100).toFixed(3)} % at subcell ${xCell + 1} = ${m.best.x.toFixed(4)} eV, subcell ${yCell + 1} = ${m.best.y.toFixed(4)} eV${m.profile ? ' (other gaps maximised per point)' : ''}.`,
