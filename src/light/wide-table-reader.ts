@@ -196,6 +196,36 @@ export function readWideColumns(file: string, isMetaTitle: (firstCell: string) =
       let x = NaN;
       const r = rows;
       for (let i = a; i <= b; i++) {
+        if (k >= 1 && delimiter && i === s) {
+          // Fast path for a plain value "ddd.ddd" ending at the delimiter or the line end:
+          // digits are read once, with the cell; anything else takes the general path below.
+          let j = i;
+          let mant = 0;
+          let sig = 0;
+          let frac = -1;
+          while (j < b) {
+            const c = buf[j];
+            if (c >= 48 && c <= 57) {
+              if (mant !== 0 || c !== 48) sig++;
+              mant = mant * 10 + (c - 48);
+              if (frac >= 0) frac++;
+            } else if (c === 46 && frac < 0) frac = 0;
+            else break;
+            j++;
+          }
+          const digits = j - i - (frac >= 0 ? 1 : 0);
+          if (digits > 0 && sig <= 15 && frac <= 22 && (j === b || buf[j] === delimiter)) {
+            const col = k - 1;
+            if (col >= columns || ended[col]) return false;
+            values[col * cap + r] = frac > 0 ? mant / EXACT_POW10[frac] : mant;
+            if (first[col] < 0) first[col] = r;
+            last[col] = r;
+            k++;
+            i = j;
+            s = j + 1;
+            continue;
+          }
+        }
         const atEnd = i === b;
         const c = atEnd ? -1 : buf[i];
         const isDelim = delimiter ? c === delimiter : c === SP || c === TAB;

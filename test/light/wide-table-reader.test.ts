@@ -60,6 +60,25 @@ describe('the streaming wide-table reader gives exactly what the row-by-row read
     expect(rowByRow.members[0].spectrum.irradiance.buffer).not.toBe(rowByRow.members[1].spectrum.irradiance.buffer);
   });
 
+  test('any written values (fixed, exponent, long, zero) read the same both ways', () => {
+    const cell = fc.oneof(
+      fc.double({ min: 0, max: 1e4, noNaN: true }).map((v) => String(v)),
+      fc.tuple(fc.double({ min: 0, max: 10, noNaN: true }), fc.integer({ min: 0, max: 20 })).map(([v, d]) => v.toFixed(d)),
+      fc.tuple(fc.double({ min: 0, max: 10, noNaN: true }), fc.integer({ min: 1, max: 17 })).map(([v, p]) => v.toPrecision(p)),
+      fc.double({ min: 0, max: 1, noNaN: true }).map((v) => v.toExponential(3)),
+      fc.constantFrom('0', '0.0', '00012', '1.', '.5', '+2'),
+    );
+    fc.assert(
+      fc.property(fc.array(fc.tuple(cell, cell), { minLength: 30, maxLength: 30 }), (pairs) => {
+        const p = write('prop.csv', ['# units: nm,W/m2/nm', 'wavelength_nm,A,B', ...pairs.map(([u, v], i) => `${300 + 10 * i},${u},${v}`), ''].join('\n'));
+        const a = loadEnsemble(p, { defaultTempK: 300 });
+        const b = loadEnsemble(p, { defaultTempK: 300, streaming: false });
+        for (const k of [0, 1]) expect(Array.from(a.members[k].spectrum.irradiance)).toEqual(Array.from(b.members[k].spectrum.irradiance));
+      }),
+      { numRuns: 150 },
+    );
+  });
+
   test('members with the same rows share one wavelength array; the values are views into one table', () => {
     const e = loadEnsemble(write('share.csv', cases[1][2]), { defaultTempK: 300 });
     expect(e.members[0].spectrum.wavelengthNm).toBe(e.members[1].spectrum.wavelengthNm);
