@@ -48,8 +48,8 @@ type Handler = (a: Record<string, unknown>) => Promise<void>;
 /**
  * yargs lays out and caches a command's whole help text every time it runs
  * the command's handler, shown or not. Unless help was asked for, every
- * option is hidden from that layout (it still parses and validates), so help
- * text is built only when it is shown.
+ * option is hidden from that layout (it still parses and validates) and the
+ * descriptions are left out, so help text is built only when it is shown.
  */
 const HELP_SHOWN = process.argv.some((a) => a === '--help' || a === '-h');
 
@@ -63,7 +63,7 @@ function hideFromHelpLayout(y: Argv): Argv {
 
 /** Register a command; yargs' inferred option types are not needed past this point. */
 function command(cli: Argv, name: string, describe: string, builder: (y: Argv) => Argv, handler: Handler): Argv {
-  return cli.command(name, describe, ((y: Argv) => hideFromHelpLayout(builder(y))) as never, handler as never);
+  return cli.command(name, HELP_SHOWN ? describe : '', ((y: Argv) => hideFromHelpLayout(builder(y))) as never, handler as never);
 }
 
 async function run(argv: string[]): Promise<void> {
@@ -73,7 +73,7 @@ async function run(argv: string[]): Promise<void> {
   };
   let cli: Argv = yargs(argv)
     .scriptName('gapstack')
-    .usage('$0 <command> [options]\n\nDetailed-balance design of multijunction solar-cell stacks. Results are theoretical limits.');
+    .usage(HELP_SHOWN ? '$0 <command> [options]\n\nDetailed-balance design of multijunction solar-cell stacks. Results are theoretical limits.' : '$0');
   cli = command(
       cli,
       'evaluate',
