@@ -68,18 +68,48 @@ function axisTables(obj: StepObjective, axis: Float64Array): AxisTables {
   };
 }
 
+/** Largest pair table built (spectra × cells × (axis + 1) × axis entries). */
+const MAX_PAIR_TABLE = 4e6;
+
+/**
+ * Independent wiring: the power [W/m²] of cell `c` with its gap at axis index
+ * gi under a cell whose gap is at axis index `top` (top = axis length: nothing
+ * above), per spectrum, at p[k][(c·(g+1) + top)·g + gi]. Every leaf and every
+ * bound of an independent enumeration is a sum of these, so they are solved
+ * once per pair instead of once per leaf (the same calls, so the same values).
+ */
+function pairPowers(t: AxisTables, ranges: [number, number][], ere: number[]): Float64Array[] | undefined {
+  const n = ranges.length;
+  const g = t.qn[0]?.length ?? 0;
+  if (t.qn.length * n * (g + 1) * g > MAX_PAIR_TABLE) return undefined;
+  return t.qn.map((qn, k) => {
+    const j0 = t.j0[k];
+    const p = new Float64Array(n * (g + 1) * g).fill(NaN);
+    for (let c = 0; c < n; c++) {
+      const [lo, hi] = ranges[c];
+      for (let top = 0; top <= g; top++) {
+        const qTop = top === g ? 0 : qn[top];
+        const row = (c * (g + 1) + top) * g;
+        for (let gi = Math.min(hi, top - 1); gi >= lo; gi--) p[row + gi] = singlePowerWm2(qn[gi] - qTop, j0[gi] / ere[c], t.vt[k]);
+      }
+    }
+    return p;
+  });
+}
+
 /**
  * Independent wiring: u[m·(g+1) + top] = best power [W/m²] of the last m cells
  * when the first of them receives photons from axis gap `top` downwards
  * (top = axis length: the top of the stack). This dynamic programme makes the
  * independent bound exact for one spectrum.
  */
-function independentTails(t: AxisTables, ranges: [number, number][], ere: number[]): Float64Array[] {
+function independentTails(t: AxisTables, ranges: [number, number][], ere: number[], pairs: Float64Array[] | undefined): Float64Array[] {
   const n = ranges.length;
   const g = t.qn[0]?.length ?? 0;
   const stride = g + 1;
   return t.qn.map((qn, k) => {
     const j0 = t.j0[k];
+    const pk = pairs?.[k];
     const u = new Float64Array((n + 1) * stride);
     for (let m = 1; m <= n; m++) {
       const cell = n - m;
@@ -90,7 +120,7 @@ function independentTails(t: AxisTables, ranges: [number, number][], ere: number
         for (let gi = Math.min(hi, top - 1); gi >= lo; gi--) {
           const rest = m === 1 ? 0 : u[(m - 1) * stride + gi];
           if (rest === -Infinity) continue;
-          const pw = singlePowerWm2(qn[gi] - qTop, j0[gi] / ere[cell], t.vt[k]) + rest;
+          const pw = (pk ? pk[(cell * stride + top) * g + gi] : singlePowerWm2(qn[gi] - qTop, j0[gi] / ere[cell], t.vt[k])) + rest;
           if (pw > bestP) bestP = pw;
         }
         u[m * stride + top] = bestP;
@@ -118,7 +148,9 @@ class StepWalk {
   private readonly vocSum: Float64Array;
   private readonly powerSum: Float64Array;
   private readonly tail: Float64Array[];
+  private readonly pairs: Float64Array[] | undefined;
   private readonly stride: number;
+  private readonly axisLength: number;
   private readonly series: boolean;
   readonly canPrune: boolean;
   private readonly topA: number | 'free';
@@ -152,8 +184,10 @@ class StepWalk {
     this.ere = obj.options.ere;
     this.pin = obj.incidentPowerWm2;
     this.lowestIndex = ranges[this.n - 1][0];
-    this.stride = (t.qn[0]?.length ?? 0) + 1;
-    this.tail = !this.series && this.canPrune ? independentTails(t, ranges, this.ere) : [];
+    this.axisLength = t.qn[0]?.length ?? 0;
+    this.stride = this.axisLength + 1;
+    this.pairs = !this.series && this.canPrune ? pairPowers(t, ranges, this.ere) : undefined;
+    this.tail = !this.series && this.canPrune ? independentTails(t, ranges, this.ere, this.pairs) : [];
   }
 
   private threshold(): number {
@@ -188,8 +222,14 @@ class StepWalk {
     const n = this.n;
     const b = this.idx[n - 1];
     let p = 0;
+    const top = n > 1 ? this.idx[n - 2] : this.axisLength;
+    const at = ((n - 1) * this.stride + top) * this.axisLength + b;
     for (let k = 0; k < this.ns; k++) {
       const above = n > 1 ? this.powerSum[k * (n + 1) + n - 1] : 0;
+      if (this.pairs) {
+        p += weights[k] * (above + this.pairs[k][at]);
+        continue;
+      }
       const band = qn[k][b] - (n > 1 ? qn[k][this.idx[n - 2]] : 0);
       p += weights[k] * (above + singlePowerWm2(band, j0[k][b] / this.ere[n - 1], vt[k]));
     }
@@ -284,7 +324,9 @@ class StepWalk {
       const voc = band > 0 ? vt[k] * Math.log1p(band / j0i) : 0;
       this.minJ[here] = depth === 0 ? band : Math.min(this.minJ[prev], band);
       this.vocSum[here] = (depth === 0 ? 0 : this.vocSum[prev]) + voc;
-      this.powerSum[here] = (depth === 0 ? 0 : this.powerSum[prev]) + (this.series ? 0 : singlePowerWm2(band, j0i, vt[k]));
+      const top = depth === 0 ? this.axisLength : this.idx[depth - 1];
+      const pw = this.series ? 0 : this.pairs ? this.pairs[k][(depth * this.stride + top) * this.axisLength + gi] : singlePowerWm2(band, j0i, vt[k]);
+      this.powerSum[here] = (depth === 0 ? 0 : this.powerSum[prev]) + pw;
     }
   }
 
