@@ -130,7 +130,12 @@ if (existsSync(example)) {
 }
 
 rmSync(work, { recursive: true, force: true });
-const targeted = rows.filter((r) => r.met !== null);
+
+// Many sites (their own module): per-site cost and peak memory of a streamed batch.
 log();
-log(`${targeted.filter((r) => r.met).length} of ${targeted.length} targets met.`);
-if (json) console.log(JSON.stringify({ node: process.version, cores: availableParallelism(), load_average: loadavg(), rows }, null, 2));
+const siteRows = (await import('./sites.js')).benchSites(log) as Record<string, unknown>[];
+
+const targeted = [...rows, ...siteRows].filter((r) => r.met === true || r.met === false);
+log();
+log(`${targeted.filter((r) => r.met).length} of ${targeted.length} targets met (load average now ${loadavg().map((x) => x.toFixed(2)).join(' ')}).`);
+if (json) console.log(JSON.stringify({ node: process.version, cores: availableParallelism(), load_average: loadavg(), rows, site_rows: siteRows }, null, 2));

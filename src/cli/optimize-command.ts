@@ -3,15 +3,16 @@ import type { Spectrum } from '../light/spectrum.js';
 import { UserError } from '../errors.js';
 import { availableParallelism } from 'node:os';
 import { runDesignSearchParallel, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
-import type { StackSpec } from '../stack/model.js';
+import { stackWithGaps, type StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
-import { am15g } from '../light/sources.js';
+import { compareAnswers, questionUnderReference } from '../report/ensemble-compare.js';
 import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '../report/assumptions.js';
 import { fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
+import { toMaCm2 } from '../physics/constants.js';
 
 /** --threads: most worker threads the enumeration may use (default: the machine's cores, at most 8); the size of the work decides how many it does use. */
 export function threadsFromArgs(value: unknown): number {
@@ -78,7 +79,8 @@ export function optimizeJson(spec: StackSpec, spectra: { label: string; spectrum
         open_low: t.openLow,
         open_high: t.openHigh,
       })),
-      convention: 'each interval moves one gap with the others held at the optimum; open_* means the interval reaches the allowed range there',
+      composition_intervals: d.compositionTolerance.map((c) => ({ subcell: c.subcell + 1, family: c.family, variable: c.variable, x: round(c.x, 6), low_x: round(c.lowX, 6), high_x: round(c.highX, 6), clipped: c.clipped })),
+      convention: 'each interval moves one gap with the others held at the optimum; open_* means the interval reaches the allowed range there; composition_intervals read bound subcells\' gap intervals in composition on the optimum\'s branch',
     },
     unconstrained: d.unconstrained ? basin(d.unconstrained.best) : null,
     warnings: d.warnings,
@@ -125,21 +127,19 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
   if (a.ensemble !== undefined) {
-    const reference = await runDesignSearchParallel({ ...question, spectra: [{ spectrum: am15g(), weight: 1, tempK: spec.tempK }] }, threads);
-    const refGaps = reference.result.best.gapsEv;
-    const yieldOfReference = d.objective.value(refGaps);
+    const c = compareAnswers(d, await runDesignSearchParallel(questionUnderReference(question), threads));
     comparison = {
-      am15g_best: { gaps_ev: refGaps.map((g) => round(g, 7)), efficiency: round(reference.result.best.value, 10) },
-      am15g_design_yield_efficiency: round(yieldOfReference, 10),
-      ensemble_best_yield_efficiency: round(d.result.best.value, 10),
-      loss_rel: round(1 - yieldOfReference / d.result.best.value, 8),
-      gap_shift_ev: d.result.best.gapsEv.map((g, i) => round(g - refGaps[i], 6)),
+      am15g_best: { gaps_ev: c.referenceOptimal.gapsEv.map((g) => round(g, 7)), efficiency: round(c.referenceOptimal.referenceEfficiency, 10) },
+      am15g_design_yield_efficiency: round(c.referenceOptimal.yieldEfficiency, 10),
+      ensemble_best_yield_efficiency: round(c.ensembleOptimal.yieldEfficiency, 10),
+      loss_rel: round(c.lossRel, 8),
+      gap_shift_ev: c.shiftEv.map((x) => round(x, 6)),
     };
   }
   if (a.json) return JSON.stringify({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
   const r = d.result;
   const first = members[0].spectrum;
-  const bestSpec = { ...spec, subcells: spec.subcells.map((c, i) => ({ ...c, gapEv: r.best.gapsEv[i] })) };
+  const bestSpec = stackWithGaps(spec, r.best.gapsEv);
   const detail = members.length === 1 && d.topAbsorptance === undefined ? evaluateStack(bestSpec, first) : null;
   const lines = [
     `Best ${d.objective.label}: ${pct(r.best.value, 3)}  wiring ${spec.wiring.label}, ${cells} subcell(s)`,
@@ -152,7 +152,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       '',
       table(
         ['cell', 'gap [eV]', 'Jph [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]'],
-        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), fix(c.jphAm2 / 10, 2), fix(c.vocV, 4), fix(c.ff, 4), fix(c.jOpAm2 / 10, 2), fix(c.vOpV, 4)]),
+        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), fix(toMaCm2(c.jphAm2), 2), fix(c.vocV, 4), fix(c.ff, 4), fix(toMaCm2(c.jOpAm2), 2), fix(c.vOpV, 4)]),
       ),
     );
   }
@@ -167,6 +167,9 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       r.tolerance.intervals.map((t) => [String(t.subcell + 1), fix(t.gapEv, 4), `${t.openLow ? '≤' : ''}${fix(t.lowEv, 4)}`, `${t.openHigh ? '≥' : ''}${fix(t.highEv, 4)}`]),
     ),
   );
+  for (const c of d.compositionTolerance) {
+    lines.push(`  subcell ${c.subcell + 1} in composition (${c.variable}): x = ${c.lowX.toFixed(3)}–${c.highX.toFixed(3)} around ${c.x.toFixed(3)}${c.clipped ? ' (an end reaches the family’s composition range)' : ''}`);
+  }
   if (r.basins.length > 0) {
     lines.push('', 'Runner-up basins:');
     lines.push(table(['gaps [eV]', d.objective.label], r.basins.slice(0, 5).map((b) => [gapsText(b.gapsEv), pct(b.value, 3)])));

@@ -10,6 +10,7 @@
 import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import { singlePowerWm2, type StepObjective } from '../stack/step-objective.js';
 import { CandidateKeeper, type Candidate } from './candidates.js';
+import { lastIndexNotPast } from '../numerics/sorted.js';
 
 export type { Candidate } from './candidates.js';
 
@@ -262,15 +263,7 @@ class StepWalk {
     const q = this.t.qn[k];
     const lowest = this.lowestIndex;
     if (below - 1 < lowest || q[lowest] < target) return -1;
-    let lo = lowest;
-    let hi = below - 1;
-    if (q[hi] >= target) return hi;
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >> 1;
-      if (q[mid] >= target) lo = mid;
-      else hi = mid;
-    }
-    return lo;
+    return lastIndexNotPast(q, target, lowest, below - 1, true);
   }
 
   /** Upper bound [-] on the value of any completion of the first `depth` cells, all spectra. */
@@ -363,7 +356,14 @@ class StepWalk {
   }
 }
 
-/** Enumerate a StepObjective on an axis. */
+/**
+ * Enumerate a StepObjective on an axis, in named steps: tables along the axis
+ * (photon currents and J0 per spectrum), the bound tables (independent tails
+ * and pair powers, the spectrum's steepest photon current), then a depth-first
+ * placement that extends partial sums along the path, cuts subtrees whose
+ * bound cannot reach the threshold, and offers every solved leaf to the
+ * candidate list (kept within the margin at linear cost, see candidates.ts).
+ */
 export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): EnumerationResult {
   const { axis, ranges } = opts;
   const keeper = new CandidateKeeper(opts.margin, opts.initialBest ?? 0);
