@@ -99,7 +99,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     caution: CAUTION,
   };
   if (a.json) return JSON.stringify(out ? summary : mapJson(m, meta), null, 2);
-  if (!out) return mapToCsvBytes(m, free).toString('utf8').trimEnd();
+  if (!out) return new TextDecoder().decode(mapToCsvBytes(m, free)).trimEnd();
   return [
     `Wrote ${points} points to ${out} (${seconds.toFixed(3)} s).`,
     `Best on the map: ${(m.best.value * 100).toFixed(3)} % at subcell ${xCell + 1} = ${m.best.x.toFixed(4)} eV, subcell ${yCell + 1} = ${m.best.y.toFixed(4)} eV${m.profile ? ' (other gaps maximised per point)' : ''}.`,

@@ -212,7 +212,7 @@ function writeFixed8(buf: Buffer, pos: number, v: number): number {
 }
 
 /** mapToCsv as bytes, for writing large maps: the same bytes, without a string per cell. */
-export function mapToCsvBytes(m: GapMap, freeCells: number[] = []): Buffer {
+export function mapToCsvBytes(m: GapMap, freeCells: number[] = []): Uint8Array {
   const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
   const preamble = Buffer.from(
     `# gapstack map: detailed-balance efficiency [-] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions\n${head.join(',')}`,
