@@ -37,7 +37,7 @@ function ensembleAware(lines: string[], members: { label: string; tempK: number;
   if (members.length === 1) return lines;
   const temps = members.map((m) => m.tempK);
   return [
-    `ensemble of ${members.length} spectra (${members[0].label} … ${members[members.length - 1].label}); yield-weighted efficiency = Σ w·P_max / Σ w·P_in, each spectrum solved on its own`,
+    `ensemble of ${members.length} spectra (${members[0].label} … ${members[members.length - 1].label}); yield-weighted efficiency = Σ Δt·P_max / Σ Δt·P_in for hours, Σ s·η / Σ s for energy shares, each spectrum solved on its own`,
     `cell temperatures ${Math.min(...temps)}–${Math.max(...temps)} K as the ensemble gives them`,
     ...lines.filter((l) => !l.startsWith('spectrum:') && !l.startsWith('cell temperature:')),
   ];

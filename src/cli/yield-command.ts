@@ -1,6 +1,7 @@
 /**
  * `gapstack yield`: one stack re-solved under every spectrum of an ensemble,
- * the yield-weighted efficiency Σ w·P_max / Σ w·P_in, and what the ensemble
+ * the yield-weighted efficiency (Σ Δt·P_max / Σ Δt·P_in for hours, Σ s·η / Σ s
+ * for energy shares, docs/PHYSICS.md §10), and what the ensemble
  * holds (docs/PHYSICS.md §8).
  */
 import { UserError } from '../errors.js';
