@@ -11,9 +11,14 @@
  * undefined, and the caller's row-by-row reader reads the file again and
  * reports the problem with its usual file:line message, so both paths accept
  * exactly the same files with the same numbers.
+ *
+ * The file is opened and read through the safe reader's steps (a regular file
+ * only, its size checked before and while reading, failures as one line
+ * naming the file), so the fast path refuses what readUserFile refuses.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
+import { closeSync } from 'node:fs';
+import { checkGrowth, openUserFile, readUserChunk, type ReadUserFileOptions } from '../io/read-user-file.js';
 
 /** Cells that stand for "no value here" (compared lower-case), as in the row-by-row reader. */
 const MISSING = new Set(['', 'nan', 'na', 'n/a', '-', 'null']);
@@ -122,24 +127,27 @@ function isMissing(buf: Uint8Array, a: number, b: number): boolean {
 /**
  * Read a column-wise wide table, or undefined when the file is not the plain
  * well-formed case (see the module comment). `isMetaTitle` tells the weight
- * and temperature rows that may follow the header.
+ * and temperature rows that may follow the header. A file that is not a
+ * regular file, is larger than `limits.maxBytes` (before or while reading) or
+ * cannot be opened or read throws the safe reader's UserError naming it.
  */
-export function readWideColumns(file: string, isMetaTitle: (firstCell: string) => boolean): WideColumns | undefined {
-  const fd = openSync(file, 'r');
+export function readWideColumns(file: string, isMetaTitle: (firstCell: string) => boolean, limits: ReadUserFileOptions): WideColumns | undefined {
+  const { fd, size } = openUserFile(file, limits);
   try {
-    const size = fstatSync(fd).size;
-    let chunk = Buffer.allocUnsafe(Math.min(CHUNK_BYTES, Math.max(1, size)));
-    // Pass 1: count lines (so the value matrix is allocated once) and hash the bytes.
-    const hash = createHash('sha256');
+    // At least 64 KiB: a file may hold more than its reported size (which is 0 for /proc-like files).
+    let chunk = Buffer.allocUnsafe(Math.min(CHUNK_BYTES, Math.max(1 << 16, size + 1)));
+    // Pass 1: count lines (so the value matrix is allocated once), reading to the end as the file is now.
     let lineCount = 1;
-    for (let pos = 0; pos < size; ) {
-      const n = readSync(fd, chunk, 0, chunk.length, pos);
+    for (let pos = 0; ; ) {
+      const n = readUserChunk(file, limits.what, fd, chunk, 0, chunk.length, pos);
       if (n <= 0) break;
-      const view = chunk.subarray(0, n);
-      hash.update(view);
-      for (let i = view.indexOf(LF); i >= 0; i = view.indexOf(LF, i + 1)) lineCount++;
       pos += n;
+      checkGrowth(file, limits, pos);
+      const view = chunk.subarray(0, n);
+      for (let i = view.indexOf(LF); i >= 0; i = view.indexOf(LF, i + 1)) lineCount++;
     }
+    // Pass 2 parses and hashes the same bytes; a file that gained lines in between is left to the row-by-row reader.
+    const hash = createHash('sha256');
     // Pass 2: parse.
     const preamble: { line: number; text: string }[] = [];
     let delimiter = -1; // byte, or 0 for runs of spaces and tabs
@@ -248,6 +256,7 @@ export function readWideColumns(file: string, isMetaTitle: (firstCell: string) =
             return false;
           }
           if (!inData) startData();
+          if (r >= cap) return false;
           if (!(x0 > 0) || !Number.isFinite(x0) || (r > 0 && !(x0 > abscissa[r - 1]))) return false;
           x = x0;
         } else {
@@ -280,15 +289,17 @@ export function readWideColumns(file: string, isMetaTitle: (firstCell: string) =
 
     // Lines are handled where they lie in the buffer; an unfinished line moves to its start.
     let held = 0;
-    for (let pos = 0; pos < size && !failed; ) {
+    for (let pos = 0; !failed; ) {
       if (held === chunk.length) {
         const bigger = Buffer.allocUnsafe(2 * chunk.length);
         chunk.copy(bigger, 0, 0, held);
         chunk = bigger;
       }
-      const n = readSync(fd, chunk, held, chunk.length - held, pos);
+      const n = readUserChunk(file, limits.what, fd, chunk, held, chunk.length - held, pos);
       if (n <= 0) break;
       pos += n;
+      checkGrowth(file, limits, pos);
+      hash.update(chunk.subarray(held, held + n));
       const end = held + n;
       let start = 0;
       for (let i = chunk.indexOf(LF, held); i >= 0 && i < end; i = chunk.indexOf(LF, i + 1)) {

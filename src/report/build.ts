@@ -10,7 +10,7 @@ import Handlebars from 'handlebars';
 import type { Design } from '../design/index.js';
 import { mapToCsv } from '../search/map.js';
 import { stackOptics } from '../stack/optics.js';
-import { computeReport, type MapOutcome, type ReportData, type WiringOutcome } from './compute.js';
+import { computeReport, type MapOutcome, type StageReporter, type ReportData, type WiringOutcome } from './compute.js';
 import { mapChartSvg } from './charts/map-chart.js';
 import { spectrumChartData, spectrumChartSvg } from './charts/spectrum-chart.js';
 import { jvChartSvg } from './charts/jv-chart.js';
@@ -18,6 +18,7 @@ import { sensitivityChartSvg } from './charts/sensitivity-chart.js';
 import { compareChartSvg, compareColourRange } from './charts/compare-chart.js';
 import { apeChartSvg } from './charts/ape-chart.js';
 import type { ComparedMap, EnsembleComparison, WiringComparison } from './ensemble-compare.js';
+import { coverageWarnings } from '../light/coverage.js';
 import {
   answerRows,
   assumptionList,
@@ -355,9 +356,21 @@ function comparisonSection(data: ReportData, charts: Chart[]): Record<string, un
   };
 }
 
+/**
+ * A single spectrum that stops short of the lowest optimum gap's absorption
+ * edge (docs/PHYSICS.md §11); an ensemble says so in its own summary.
+ */
+function lightCoverageWarnings(data: ReportData): string[] {
+  const light = data.design.light;
+  if (light.kind !== 'spectrum' || data.outcomes.length === 0) return [];
+  const lowest = Math.min(...data.outcomes.flatMap((o) => o.search.result.best.gapsEv));
+  return coverageWarnings(light.spectrum, lowest, 'list a spectrum in the design that reaches it');
+}
+
 function summaryJson(data: ReportData, version: string, generated: string): Record<string, unknown> {
   const d = data.design;
   return {
+    light_warnings: lightCoverageWarnings(data),
     name: d.name,
     tool: `gapstack ${version}`,
     design_sha256: d.sha256,
@@ -398,8 +411,8 @@ function pageTemplate(): HandlebarsTemplateDelegate {
 }
 
 /** Build the report of a design: compute, draw, format. */
-export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
-  const data = computeReport(design);
+export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter }): BuiltReport {
+  const data = computeReport(design, opts.stage);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
   const charts: Chart[] = [];
@@ -445,7 +458,7 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     };
   });
   const comparison = comparisonSection(data, charts);
-  const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
+  const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...lightCoverageWarnings(data), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
   const html = pageTemplate()({
     version,
     title: design.name,

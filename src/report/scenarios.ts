@@ -9,6 +9,7 @@ import type { ScenarioSet } from '../design/index.js';
 import { buildReport, type BuiltReport, type Chart } from './build.js';
 import { CAUTION } from './assumptions.js';
 import { pc, wiringTitle } from './view.js';
+import type { StageReporter } from './compute.js';
 
 export interface ScenarioRow {
   scenario: string;
@@ -49,7 +50,7 @@ function scopedBody(html: string, prefix: string): string {
 }
 
 /** The combined page, its charts (names prefixed per scenario) and a JSON summary. */
-export function buildScenarioReport(set: ScenarioSet, opts: { date: Date }): { html: string; charts: Chart[]; summary: Record<string, unknown>; built: BuiltReport[] } {
+export function buildScenarioReport(set: ScenarioSet, opts: { date: Date; stage?: StageReporter }): { html: string; charts: Chart[]; summary: Record<string, unknown>; built: BuiltReport[] } {
   const built = set.scenarios.map((d) => buildReport(d, opts));
   const rows = scenarioRows(set, built);
   const best = rows.reduce((a, b) => (b.efficiency > a.efficiency ? b : a), rows[0]);

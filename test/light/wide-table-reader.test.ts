@@ -1,10 +1,13 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
-import { loadEnsemble, type Ensemble } from '../../src/light/ensemble.js';
-import { parseDecimal } from '../../src/light/wide-table-reader.js';
+import { UserError } from '../../src/errors.js';
+import { assertNotAnInput, forgetInputs } from '../../src/io/inputs.js';
+import { loadEnsemble, MAX_ENSEMBLE_FILE_BYTES, type Ensemble } from '../../src/light/ensemble.js';
+import { parseDecimal, readWideColumns } from '../../src/light/wide-table-reader.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'gapstack-wide-'));
 const write = (name: string, text: string) => {
@@ -95,5 +98,60 @@ describe('the streaming wide-table reader gives exactly what the row-by-row read
     const p = write('bad.csv', ['# units: nm,W/m2/nm', 'wavelength_nm,A,B', ...body].join('\n'));
     expect(() => loadEnsemble(p, { defaultTempK: 300 })).toThrow(message);
     expect(() => loadEnsemble(p, { defaultTempK: 300 })).toThrow(/bad\.csv:\d+/);
+  });
+});
+
+describe('the streaming reader reads user files as the safe reader does (regular files only, size before and while reading, errors naming the file)', () => {
+  const wl = Array.from({ length: 30 }, (_, i) => 300 + 25 * i);
+  const table = ['# units: nm,W/m2/nm', 'wavelength_nm,A,B', ...wl.map((l, i) => `${l},${1 + i / 10},${2 + i / 10}`)].join('\n');
+  const meta = () => false;
+
+  test('a file above the limit is refused before reading, naming the file', () => {
+    const p = write('big.csv', table);
+    expect(() => readWideColumns(p, meta, { what: 'ensemble file', maxBytes: 100 })).toThrow(UserError);
+    expect(() => readWideColumns(p, meta, { what: 'ensemble file', maxBytes: 100 })).toThrow(/big\.csv: .*ensemble file above 100 bytes is refused/);
+  });
+
+  test.skipIf(!existsSync('/proc/self/status'))('a file that reports size 0 but holds more than the limit is refused while reading', () => {
+    expect(() => readWideColumns('/proc/self/status', meta, { what: 'ensemble file', maxBytes: 10 })).toThrow(/\/proc\/self\/status: grew past 10 bytes while being read/);
+  });
+
+  test('a folder, a FIFO and a missing file are one-line user errors naming the path', () => {
+    const limits = { what: 'ensemble file', maxBytes: MAX_ENSEMBLE_FILE_BYTES };
+    const folder = join(dir, 'a-folder.csv');
+    mkdirSync(folder, { recursive: true });
+    expect(() => readWideColumns(folder, meta, limits)).toThrow(/a-folder\.csv: is a folder/);
+    const missing = join(dir, 'missing.csv');
+    expect(() => readWideColumns(missing, meta, limits)).toThrow(/missing\.csv: cannot open ensemble file \(ENOENT: no such file\)/);
+    const fifo = join(dir, 'pipe.csv');
+    if (spawnSync('mkfifo', [fifo]).status === 0) {
+      // Opened without waiting for a writer and refused: the test would hang otherwise.
+      expect(() => readWideColumns(fifo, meta, limits)).toThrow(/pipe\.csv: is not a regular file/);
+      expect(() => loadEnsemble(fifo, { defaultTempK: 300 })).toThrow(/pipe\.csv: is not a regular file/);
+    }
+  });
+
+  test('permission denied (the test-only injection) is a user error naming the file, from loadEnsemble too', () => {
+    const p = write('locked-wide.csv', table);
+    const before = process.env.GAPSTACK_FAULT_INJECTION;
+    process.env.GAPSTACK_FAULT_INJECTION = 'eacces:locked-wide.csv';
+    try {
+      expect(() => readWideColumns(p, meta, { what: 'ensemble file', maxBytes: MAX_ENSEMBLE_FILE_BYTES })).toThrow(/locked-wide\.csv: cannot open ensemble file \(EACCES: permission denied\)/);
+      expect(() => loadEnsemble(p, { defaultTempK: 300 })).toThrow(UserError);
+      expect(() => loadEnsemble(p, { defaultTempK: 300 })).toThrow(/locked-wide\.csv: cannot open ensemble file \(EACCES: permission denied\)/);
+    } finally {
+      if (before === undefined) delete process.env.GAPSTACK_FAULT_INJECTION;
+      else process.env.GAPSTACK_FAULT_INJECTION = before;
+    }
+  });
+
+  test('a table read by the streaming path is an input of the run: no output may replace it', () => {
+    const p = write('input-wide.csv', table);
+    forgetInputs();
+    const e = loadEnsemble(p, { defaultTempK: 300 });
+    // The streaming path read it (members are views into one value table).
+    expect(e.members[0].spectrum.irradiance.buffer).toBe(e.members[1].spectrum.irradiance.buffer);
+    expect(() => assertNotAnInput(p, '--out')).toThrow(/--out .*input-wide\.csv is an input of this run/);
+    forgetInputs();
   });
 });

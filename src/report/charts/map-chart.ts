@@ -8,6 +8,7 @@
 import type { MapOutcome } from '../compute.js';
 import { buildSvg, num, svgText } from '../svg.js';
 import { drawAxes } from './frame.js';
+import { drawCompositionAxes } from './composition-axis.js';
 import { clippedPlot, drawColourBar, drawMapLayers, drawMapLegend, drawOptimumLabel, filledGrid, MAP_COLOURS, MAP_SWATCHES, mapPlot, markLegendItems, optimumGroup, type MapLegendItem } from './map-layers.js';
 
 export const MAP_WIDTH = 680;
@@ -96,6 +97,7 @@ export function mapChartSvg(inp: MapChartInput): string {
       // Axes and frame.
       g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1);
       drawAxes(g, { x: xs, y: ys, w, h, xTicks: 8, yTicks: 8, xLabel: inp.xLabel, yLabel: inp.yLabel });
+      drawCompositionAxes(g, o.compositionAxes, xs, ys, w);
       drawColourBar(g, w + 22, 0, h, lo, hi);
       // Legend.
       const items: MapLegendItem[] = [
