@@ -146,9 +146,8 @@ export function readWideColumns(file: string, isMetaTitle: (firstCell: string) =
       const view = chunk.subarray(0, n);
       for (let i = view.indexOf(LF); i >= 0; i = view.indexOf(LF, i + 1)) lineCount++;
     }
-    // Pass 2 parses and hashes the same bytes; a file that gained lines in between is left to the row-by-row reader.
+    // Pass 2: parse, and hash the same bytes; a file that gained lines in between is left to the row-by-row reader.
     const hash = createHash('sha256');
-    // Pass 2: parse.
     const preamble: { line: number; text: string }[] = [];
     let delimiter = -1; // byte, or 0 for runs of spaces and tabs
     let columns = -1;
