@@ -381,6 +381,7 @@ describe('files the user cannot read: exit 2 naming the file (as an unprivileged
   const memberManifest = open('m2/manifest.csv', '# weight_unit: hours\nfile,weight\na.tsv,1\nb.tsv,2\n');
   open('m2/a.tsv', table);
   const member = locked('m2/b.tsv', table);
+  const wide = locked('w1/year.csv', `wavelength_nm,A,B\n${Array.from({ length: 40 }, (_, i) => `${300 + 100 * i},1,2`).join('\n')}\n`);
   const design = locked('d1/design.yaml', QUICK_DESIGN());
   const referencing = open('d2/design.yaml', QUICK_DESIGN('light.csv'));
   const referenced = locked('d2/light.csv', GOOD_TABLE);
@@ -392,6 +393,7 @@ describe('files the user cannot read: exit 2 naming the file (as an unprivileged
     ['a spectrum (evaluate)', ['evaluate', '--gaps', '1.3', '--spectrum', spectrum], spectrum],
     ['a manifest', ['yield', '--gaps', '1.73,1.12', '--ensemble', manifest], manifest],
     ['an ensemble member', ['yield', '--gaps', '1.73,1.12', '--ensemble', memberManifest], member],
+    ['a wide table (the streaming reader)', ['yield', '--gaps', '1.73,1.12', '--ensemble', wide], wide],
     ['a design', ['report', design, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], design],
     ['a file a design names', ['report', referencing, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], referenced],
     ['a measured curve a design names', ['report', filmDesign, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], filmCurve],
