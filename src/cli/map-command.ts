@@ -2,7 +2,7 @@
 import { UserError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { buildObjective } from '../stack/objectives.js';
-import { computeMap, mapToCsv, uniformAxis, type GapMap } from '../search/map.js';
+import { computeMap, mapToCsvBytes, uniformAxis, type GapMap } from '../search/map.js';
 import { subcellBounds } from '../search/optimize.js';
 import { constraintBounds } from '../search/design-search.js';
 import { CAUTION, describeCoupling } from '../report/assumptions.js';
@@ -104,7 +104,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   // The lowest gap the map uses: its axes' low ends, fixed gaps, and the span where other subcells are maximised.
   const lowestGapEv = Math.min(x0, y0, ...fixed.filter((g): g is number => g !== undefined), ...(free.length > 0 ? [spanFromArgs(a.span)[0]] : []));
   const warnings = members.length === 1 ? coverageWarnings(members[0].spectrum, lowestGapEv, CLI_EXTEND_HINT) : [];
-  const csv = () => withCsvWarnings(mapToCsv(m, free), warnings);
+  const csv = () => withCsvWarnings(mapToCsvBytes(m, free), warnings);
   if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, { ...meta, warnings })) : csv(), '--out');
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {
@@ -117,7 +117,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     caution: CAUTION,
   };
   if (a.json) return finiteJson(out ? summary : mapJson(m, { ...meta, warnings }), null, 2);
-  if (!out) return csv().trimEnd();
+  if (!out) return new TextDecoder().decode(csv()).trimEnd();
   return [
     `Wrote ${points} points to ${out} (${seconds.toFixed(3)} s).`,
     `Best on the map: ${(m.best.value * 100).toFixed(3)} % at subcell ${xCell + 1} = ${m.best.x.toFixed(4)} eV, subcell ${yCell + 1} = ${m.best.y.toFixed(4)} eV${m.profile ? ' (other gaps maximised per point)' : ''}.`,
@@ -126,9 +126,10 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   ].join('\n');
 }
 
-/** Warnings as `# Warning:` comment lines after the CSV's first comment line. */
-function withCsvWarnings(csv: string, warnings: string[]): string {
+/** Warnings as `# Warning:` comment lines after the CSV's first comment line (bytes, as mapToCsvBytes writes them). */
+function withCsvWarnings(csv: Uint8Array, warnings: string[]): Uint8Array {
   if (warnings.length === 0) return csv;
-  const cut = csv.indexOf('\n') + 1;
-  return `${csv.slice(0, cut)}${warnings.map((w) => `# Warning: ${w}\n`).join('')}${csv.slice(cut)}`;
+  const cut = csv.indexOf(10) + 1;
+  const lines = Buffer.from(warnings.map((w) => `# Warning: ${w}\n`).join(''), 'utf8');
+  return Buffer.concat([csv.subarray(0, cut), lines, csv.subarray(cut)]);
 }
