@@ -280,7 +280,29 @@ export async function run(rawArgv: string[]): Promise<void> {
               .option('out', { alias: 'o', type: 'string', describe: 'file name for <out>.svg and <out>.png', demandOption: true }),
           (async (a: Record<string, unknown>) => print(await (await import('./sites-command.js')).sitesMapCommand(a as never))) as never,
         )
-        .demandCommand(1, 'name a sites subcommand; see gapstack sites --help'),
+        .command(
+          '$0 <design> <weather..>',
+          'answer the design\'s question at every weather file (this task\'s shard of them): one row per site, streamed and resumable',
+          (r: Argv) =>
+            r
+              .positional('design', { type: 'string', describe: 'design file: subcells, wirings, temperature (its own light is replaced by each site\'s)' })
+              .positional('weather', { type: 'string', array: true, describe: 'weather files (EPW, TMY3 CSV) or folders of them' })
+              .option('out', { type: 'string', describe: 'folder for part-K-of-N.csv and .jsonl', demandOption: true })
+              .option('shard', { type: 'string', describe: 'this task\'s share K/N (K from 1); default: from SLURM_ARRAY_TASK_* or JOB_COMPLETION_INDEX, else all' })
+              .option('shard-count', { type: 'string', describe: 'number of shards where the scheduler does not say it (Kubernetes: spec.completions)' })
+              .option('tilt', { type: 'string', describe: 'module plane tilt from horizontal [°], or "latitude" (each site\'s own)', demandOption: true })
+              .option('azimuth', { type: 'string', describe: 'direction the plane faces, east of north [°] (180 = south), or "equator"', demandOption: true })
+              .option('albedo', { type: 'string', describe: 'ground albedo, overriding the files\' (default 0.2 where a file has none)' })
+              .option('tracking', { type: 'string', describe: 'none | single-axis (default none)' })
+              .option('max-rotation', { type: 'string', describe: 'single-axis tracker limit [°] (default 60)' })
+              .option('aod500', { type: 'string', describe: 'aerosol optical depth at 500 nm, overriding the files\'' })
+              .option('water-cm', { type: 'string', describe: 'precipitable water [cm], overriding the files\' and the dew-point estimate' })
+              .option('ozone-atm-cm', { type: 'string', describe: 'ozone column [atm-cm] (default 0.3)' })
+              .option('faiman', { type: 'string', describe: 'Faiman cell-temperature coefficients "U0,U1"' })
+              .option('accept-large', { type: 'boolean', default: false, describe: 'run even when the size check (stacks × hours of a year) estimates hours of work per site' })
+              .option('json', { type: 'boolean', default: false }),
+          (async (a: Record<string, unknown>) => print(await (await import('./sites-command.js')).sitesWeatherCommand(a as never))) as never,
+        ),
     async () => {},
   );
   cli = cli

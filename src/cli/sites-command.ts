@@ -12,6 +12,10 @@ import { listWeatherFiles, runSites, type SitesRunSummary } from '../sites/run.j
 import { resolveShard, shardLabel, type ShardSource } from '../sites/shard.js';
 import { toolVersion } from '../io/version.js';
 import { startProgress } from './progress.js';
+import { parsePlane, planeKey } from '../sites/plane.js';
+import { defaultStepEv } from '../search/optimize.js';
+import { siteOptionsFromArgs, type WeatherArgs } from './weather-options.js';
+import { checkWorkSize, searchStacks } from './work-size.js';
 
 export interface SitesArgs {
   design: string;
@@ -91,6 +95,39 @@ export async function sitesCommand(a: SitesArgs, lightOf: SiteLightSource, light
     bar?.stop();
   }
   return describeRun(summary, source, Boolean(a.json));
+}
+
+export interface SitesWeatherArgs extends SitesArgs, Omit<WeatherArgs, 'weather'> {
+  acceptLarge?: boolean;
+}
+
+/** The most hourly spectra one site's year can give (a leap year of daylight and night). */
+const HOURS_IN_A_LEAP_YEAR = 8784;
+
+/** `gapstack sites DESIGN WEATHER… --tilt --azimuth`: each site's light is its weather file's hourly year on that plane. */
+export async function sitesWeatherCommand(a: SitesWeatherArgs): Promise<string> {
+  if (a.tilt === undefined || a.azimuth === undefined) throw new UserError('sites needs --tilt <° | latitude> and --azimuth <° east of north | equator>');
+  const plane = parsePlane(String(a.tilt), String(a.azimuth));
+  // The engine's own option parser for everything but the plane, which may differ per site here.
+  const { tiltDeg: _t, azimuthDeg: _a, ...model } = siteOptionsFromArgs({ ...a, tilt: '0', azimuth: '0' });
+  // The size check once per batch: the design's search grid times the most hours a year can hold, per wiring.
+  const design = await loadDesign(a.design);
+  const openCells = design.subcells.filter((c) => c.constraint.kind !== 'fixed').length;
+  const stacks = searchStacks(design.subcells.map((c) => c.constraint), design.spanEv, design.searchStepEv ?? defaultStepEv(openCells));
+  checkWorkSize('batch (per site)', stacks * design.wirings.length, HOURS_IN_A_LEAP_YEAR + 1, Boolean(a.acceptLarge));
+  const { weatherSiteLight } = await import('../sites/weather-light.js');
+  // Every option that changes a number enters the question's hash, so parts of different planes or models never merge.
+  const hashed: Record<string, string | number | boolean | null> = {
+    plane: planeKey(plane),
+    tracking: model.tracking,
+    max_rotation_deg: model.maxRotationDeg ?? null,
+    albedo: model.albedo ?? null,
+    aod500: model.aod500 ?? null,
+    water_cm: model.waterCm ?? null,
+    ozone_atm_cm: model.ozoneAtmCm ?? null,
+    faiman: model.faiman ? `${model.faiman.u0},${model.faiman.u1}` : null,
+  };
+  return sitesCommand(a, weatherSiteLight(plane, model), hashed);
 }
 
 /** Merge the parts of every shard into one file, byte-identical to an unsharded run's part. */

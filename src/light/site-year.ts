@@ -228,7 +228,8 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
     const cs = spectrl2(
       {
         zenithDeg: sun.apparentZenithDeg,
-        airMass: airMassKastenYoung(sun.apparentZenithDeg),
+        // Kasten–Young's fit dips to 0.9997 with the sun overhead (tropics); SPECTRL2 takes air mass from 1.
+        airMass: Math.max(1, airMassKastenYoung(sun.apparentZenithDeg)),
         pressurePa: pressureHpa * 100,
         waterCm: Math.min(waterCm, 10),
         ozoneAtmCm: ozone,

@@ -6,7 +6,9 @@
  * agrees on who does what without talking to the others.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, openSync, readSync } from 'node:fs';
+import { closeSync } from 'node:fs';
+import { checkGrowth, openUserFile, readUserChunk } from '../io/read-user-file.js';
+import { MAX_WEATHER_FILE_BYTES } from '../light/weather/common.js';
 import { UserError } from '../errors.js';
 
 /** One share of the work: `index` in 0..count-1. Written for people as `index+1/count`. */
@@ -134,14 +136,15 @@ export function siteKeyOfBytes(bytes: Uint8Array): string {
 export function siteKeyOfFile(path: string): string {
   const hash = createHash('sha256');
   const buf = Buffer.alloc(1 << 16);
-  let fd: number;
+  const opts = { what: 'weather file', maxBytes: MAX_WEATHER_FILE_BYTES };
+  const { fd } = openUserFile(path, opts);
   try {
-    fd = openSync(path, 'r');
-  } catch (err) {
-    throw new UserError(`${path}: cannot read the weather file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  try {
-    for (let n = readSync(fd, buf, 0, buf.length, null); n > 0; n = readSync(fd, buf, 0, buf.length, null)) hash.update(buf.subarray(0, n));
+    let total = 0;
+    for (let n = readUserChunk(path, opts.what, fd, buf, 0, buf.length, null); n > 0; n = readUserChunk(path, opts.what, fd, buf, 0, buf.length, null)) {
+      total += n;
+      checkGrowth(path, opts, total);
+      hash.update(buf.subarray(0, n));
+    }
   } finally {
     closeSync(fd);
   }

@@ -1,24 +1,15 @@
 /** Shared pieces of the weather readers: file reading, numbers with missing-value codes, time stamps. */
-import { readFileSync, statSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { UserError, fileError } from '../../errors.js';
 import { sha256Hex } from '../spectrum.js';
+import { readUserFile } from '../../io/read-user-file.js';
 
 /** Largest weather file read [bytes] (an hourly year is about 1–2 MB). */
 export const MAX_WEATHER_FILE_BYTES = 64 * 2 ** 20;
 
 export function readWeatherBytes(path: string): { text: string; sha256: string } {
-  let size: number;
-  try {
-    const st = statSync(path);
-    if (!st.isFile()) throw fileError(path, undefined, 'is not a regular file (expected a weather file, EPW or TMY3 CSV)');
-    size = st.size;
-  } catch (err) {
-    if (err instanceof UserError) throw err;
-    throw new UserError(`${path}: cannot open the weather file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  if (size > MAX_WEATHER_FILE_BYTES) throw fileError(path, undefined, `is ${(size / 2 ** 20).toFixed(0)} MiB; weather files above ${MAX_WEATHER_FILE_BYTES / 2 ** 20} MiB are refused`);
-  const bytes = readFileSync(path);
+  // The project's safe reader: a regular file only, bounded before and while reading, every failure naming the file.
+  const bytes = readUserFile(path, { what: 'weather file', maxBytes: MAX_WEATHER_FILE_BYTES });
   if (bytes.includes(0)) throw fileError(path, undefined, 'contains binary data (NUL bytes); expected a text weather file');
   return { text: bytes.toString('utf8').replace(/^\uFEFF/, ''), sha256: sha256Hex(bytes) };
 }

@@ -1,5 +1,7 @@
 /** Weather files: EPW or NSRDB TMY3 CSV, told apart by their first line. */
-import { closeSync, openSync, readSync } from 'node:fs';
+import { closeSync } from 'node:fs';
+import { openUserFile, readUserChunk } from '../../io/read-user-file.js';
+import { MAX_WEATHER_FILE_BYTES } from './common.js';
 import { UserError } from '../../errors.js';
 import { readEpw } from './epw.js';
 import { readTmy3 } from './tmy3.js';
@@ -12,14 +14,13 @@ export { readTmy3 } from './tmy3.js';
 /** Read a weather file, EPW (first line LOCATION,…) or TMY3 CSV (site line, then a Date (MM/DD/YYYY) header). */
 export function readWeatherFile(path: string): WeatherFile {
   let start: string;
+  const { fd } = openUserFile(path, { what: 'weather file', maxBytes: MAX_WEATHER_FILE_BYTES });
   try {
-    const fd = openSync(path, 'r');
     const buf = Buffer.alloc(4096);
-    const n = readSync(fd, buf, 0, buf.length, 0);
-    closeSync(fd);
+    const n = readUserChunk(path, 'weather file', fd, buf, 0, buf.length, 0);
     start = buf.subarray(0, n).toString('utf8');
-  } catch (err) {
-    throw new UserError(`${path}: cannot open the weather file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+  } finally {
+    closeSync(fd);
   }
   const text = start.replace(/^\uFEFF/, '');
   if (/^LOCATION,/i.test(text)) return readEpw(path);
