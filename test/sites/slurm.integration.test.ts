@@ -6,13 +6,10 @@
  * cannot run Slurm (not root, no apt-get, daemons refuse to start).
  */
 import { spawnSync } from 'node:child_process';
-import { copyFileSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { copyFileSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { sitesCommand } from '../../src/cli/sites-command.js';
-import { loadEnsemble } from '../../src/light/ensemble.js';
-import type { SiteLightSource } from '../../src/sites/question.js';
 import { ROOT, runCli } from '../helpers/cli.js';
 import { startSlurm } from '../helpers/slurm.js';
 
@@ -24,30 +21,24 @@ afterAll(() => {
   rmSync(work, { recursive: true, force: true });
 });
 
-const MANIFEST = join(ROOT, 'examples/ensemble-demo/manifest.yaml');
-// The per-site light is the demo ensemble in this test (see test/fixtures/slurm/demo-sites.mjs).
-const members = loadEnsemble(MANIFEST, { defaultTempK: 300 }).members;
-const demoLight: SiteLightSource = async (path) => {
-  const loc = readFileSync(path, 'utf8').split('\n', 1)[0]!.split(',');
-  return { name: loc[1]!, latDeg: Number(loc[6]), lonDeg: Number(loc[7]), spectra: members };
-};
+// The shipped example question; each site's light is its weather file's hourly year on the plane the job script names.
+const DESIGN = join(ROOT, 'examples/sites/two-terminal.yaml');
+const PLANE = ['--tilt', 'latitude', '--azimuth', 'equator'];
 
 describe.skipIf(typeof cluster === 'string')('Slurm job array', () => {
-  it('the example sbatch array over invented sites, merged, equals the unsharded run byte for byte', async () => {
+  it('the example sbatch array of `gapstack sites` over invented weather files, merged, equals the unsharded run byte for byte', () => {
     if (typeof cluster === 'string') return;
     const sites = join(work, 'sites');
     mkdirSync(sites);
     for (const s of ['saltreach', 'skarholm', 'orvale', 'verdance']) copyFileSync(join(ROOT, 'examples/sites', `${s}.epw`), join(sites, `${s}.epw`));
-    const design = join(work, 'design.yaml');
-    writeFileSync(design, ['name: invented 2T fixed-bottom question', `ensemble: ${JSON.stringify(MANIFEST)}`, 'temperature: 300', 'subcells:', '  - label: top', '    range: [1.5, 1.9]', '  - label: bottom', '    gap: 1.12', 'wirings: [series]', ''].join('\n'));
-
-    await sitesCommand({ design, weather: [sites], out: join(work, 'whole') }, demoLight);
+    const whole = runCli(['sites', DESIGN, sites, ...PLANE, '--out', join(work, 'whole')]);
+    expect(whole.code, whole.stderr).toBe(0);
 
     const out = join(work, 'array');
     const sb = spawnSync('sbatch', ['--array=0-2', '--wait', `--chdir=${ROOT}`, `--output=${join(work, 'task-%a.log')}`, join(ROOT, 'examples/slurm/sites-array.sbatch')], {
       encoding: 'utf8',
       timeout: 600_000,
-      env: { ...cluster.env, DESIGN: design, SITES: sites, OUT: out, GAPSTACK: `${process.execPath} ${join(ROOT, 'test/fixtures/slurm/demo-sites.mjs')}` },
+      env: { ...cluster.env, DESIGN, SITES: sites, OUT: out, TILT: 'latitude', AZIMUTH: 'equator', GAPSTACK: `${process.execPath} ${join(ROOT, 'bin/gapstack.js')}` },
     });
     const logs = readdirSync(work).filter((f) => f.startsWith('task-')).map((f) => readFileSync(join(work, f), 'utf8')).join('\n');
     expect(sb.status, `${sb.stdout}${sb.stderr}\n${logs}`).toBe(0);
