@@ -1,6 +1,9 @@
 /**
  * One measured batch for the sites benchmark, in its own process so its peak
- * memory is its own: `node dist/bench/sites-child.js DESIGN SITES_DIR OUT`.
+ * memory is its own: `node dist/bench/sites-child.js DESIGN SITES_DIR OUT [weather|demo]`.
+ * `weather` (the default): each site's light is its weather file's hourly year
+ * at latitude tilt facing the equator, as `gapstack sites` runs it; `demo`: the
+ * 16-spectrum demo ensemble at every site (the batch machinery alone).
  * Prints {"sites", "seconds", "max_rss_mib"} as JSON.
  */
 import { closeSync, openSync, readSync } from 'node:fs';
@@ -11,14 +14,16 @@ import { loadEnsemble } from '../light/ensemble.js';
 import { siteQuestion, type SiteLightSource } from '../sites/question.js';
 import { listWeatherFiles, runSites } from '../sites/run.js';
 import { WHOLE } from '../sites/shard.js';
+import { parsePlane } from '../sites/plane.js';
+import { weatherSiteLight } from '../sites/weather-light.js';
 
-const [design, sites, out] = process.argv.slice(2);
-if (!design || !sites || !out) throw new Error('usage: sites-child.js DESIGN SITES_DIR OUT');
+const [design, sites, out, mode = 'weather'] = process.argv.slice(2);
+if (!design || !sites || !out || (mode !== 'weather' && mode !== 'demo')) throw new Error('usage: sites-child.js DESIGN SITES_DIR OUT [weather|demo]');
 
 // Each site's light: the demo ensemble (16 weighted spectra), with the site's name and place from its weather file.
 const manifest = fileURLToPath(new URL('../../examples/ensemble-demo/manifest.yaml', import.meta.url));
 const members = loadEnsemble(manifest, { defaultTempK: 300 }).members;
-const light: SiteLightSource = async (path) => {
+const demoLight: SiteLightSource = async (path) => {
   const fd = openSync(path, 'r');
   const head = Buffer.alloc(512);
   const n = readSync(fd, head, 0, head.length, 0);
@@ -26,6 +31,8 @@ const light: SiteLightSource = async (path) => {
   const loc = head.subarray(0, n).toString('utf8').split('\n', 1)[0]!.split(',');
   return { name: loc[1]!, latDeg: Number(loc[6]), lonDeg: Number(loc[7]), spectra: members };
 };
+
+const light: SiteLightSource = mode === 'demo' ? demoLight : weatherSiteLight(parsePlane('latitude', 'equator'), { tracking: 'none' });
 
 const t0 = performance.now();
 const summary = await runSites({ files: listWeatherFiles([sites]), outDir: out, shard: WHOLE, question: siteQuestion(await loadDesign(design), light), version: toolVersion() });
