@@ -16,6 +16,7 @@ import { spectrumChartData, spectrumChartSvg } from './charts/spectrum-chart.js'
 import { jvChartSvg } from './charts/jv-chart.js';
 import { sensitivityChartSvg } from './charts/sensitivity-chart.js';
 import { compareChartSvg, compareColourRange } from './charts/compare-chart.js';
+import { sharedColourDomain, type ColourDomain } from './charts/map-layers.js';
 import { apeChartSvg } from './charts/ape-chart.js';
 import type { ComparedMap, EnsembleComparison, WiringComparison } from './ensemble-compare.js';
 import {
@@ -80,7 +81,7 @@ function gapAxisTitle(design: Design, i: number): string {
   return [...full].length <= AXIS_TITLE_CHARS ? full : `gap of subcell ${i + 1} [eV]`;
 }
 
-function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome): { chart: Chart; grid: string; id: string; gridId: string } {
+function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome, domain: ColourDomain): { chart: Chart; grid: string; id: string; gridId: string } {
   const d = data.design;
   const id = `map-${o.wiring.slug}-${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
   const gridId = `${id}-grid`;
@@ -93,6 +94,7 @@ function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome): { chart: C
     xLabel: gapAxisTitle(d, m.pair.xCell),
     yLabel: gapAxisTitle(d, m.pair.yCell),
     loss: d.loss,
+    domain,
   });
   const nx = mm.x.length;
   const ny = mm.y.length;
@@ -206,7 +208,7 @@ function wiringComparisonJson(w: WiringComparison): Record<string, unknown> {
   };
 }
 
-function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparison, cm: ComparedMap): { chart: Chart; caption: string; heading: string } {
+function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparison, cm: ComparedMap, range: ColourDomain): { chart: Chart; caption: string; heading: string } {
   const d = data.design;
   const m = cm.ensemble;
   const { xCell, yCell } = m.pair;
@@ -220,6 +222,7 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
     yLabel: gapAxisTitle(d, yCell),
     marks: m.marks,
     loss: d.loss,
+    domain: range,
     panels: [
       {
         light: 'am1.5g',
@@ -243,7 +246,6 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
       },
     ],
   });
-  const range = compareColourRange([cm.reference, m.map]);
   const mm = m.map;
   const nx = mm.x.length;
   const profHead = m.profiled.flatMap((k) => [`gap${k + 1}_ev_profile_am15g`, `gap${k + 1}_ev_profile_ensemble`]);
@@ -281,7 +283,7 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
   };
   const shift = w.shiftEv.map((s) => `${(s * 1000).toFixed(1)}`).join(' / ');
   const caption =
-    `Left: efficiency under AM1.5G; right: yield-weighted efficiency over ${c.name}; gaps of subcells ${xCell + 1} (x) and ${yCell + 1} (y) on a ${fx(m.stepEv * 1000, 0)} meV grid, one colour scale (${fx(range.lo, 1)}–${fx(range.hi, 1)} %) for both. ` +
+    `Left: efficiency under AM1.5G; right: yield-weighted efficiency over ${c.name}; gaps of subcells ${xCell + 1} (x) and ${yCell + 1} (y) on a ${fx(m.stepEv * 1000, 0)} meV grid, ${colourScaleWords(range, c.wirings.length > 1 ? `both panels of every wiring's comparison of this pair (${c.wirings.map((x) => wiringTitle(x.outcome.wiring.key).split(' (')[0].toLowerCase()).join(', ')})` : 'both panels')}. ` +
     `Each panel's filled marker is its own optimum (AM1.5G ${pc(cm.referenceOptimum.value)} at ${fx(cm.referenceOptimum.x, 3)} / ${fx(cm.referenceOptimum.y, 3)} eV; ensemble ${pc(m.optimum.value)} at ${fx(m.optimum.x, 3)} / ${fx(m.optimum.y, 3)} eV), the open ring the other panel's, valued under this panel's light; the optimum moves by ${shift} meV. ` +
     `Dashed white outlines enclose gaps within ${fx(d.loss * 100, 1)} % (relative) of each panel's own best.${m.profiled.length > 0 ? ` Subcells ${m.profiled.map((k) => k + 1).join(', ')} are re-optimised at every point under each light.` : ''}`;
   return { chart: { name: id, svg, csv: `${rows.join('\n')}\n`, json }, caption, heading: `Subcells ${xCell + 1} and ${yCell + 1}` };
@@ -331,9 +333,11 @@ function comparisonSection(data: ReportData, charts: Chart[]): Record<string, un
   if (!c) return null;
   const d = data.design;
   const ape = apeChart(c);
+  // One colour scale per gap pair over every wiring's two panels.
+  const ranges = (c.wirings[0]?.maps ?? []).map((_, j) => compareColourRange(c.wirings.flatMap((w) => (w.maps[j] ? [w.maps[j].reference, w.maps[j].ensemble.map] : []))));
   const wirings = c.wirings.map((w) => {
-    const maps = w.maps.map((cm) => {
-      const x = compareChart(data, c, w, cm);
+    const maps = w.maps.map((cm, j) => {
+      const x = compareChart(data, c, w, cm, ranges[j]);
       charts.push(x.chart);
       return { id: x.chart.name, svg: x.chart.svg, caption: x.caption, heading: x.heading };
     });
@@ -397,15 +401,27 @@ function pageTemplate(): HandlebarsTemplateDelegate {
   return template;
 }
 
+/** The caption's words for a colour scale: its range, who shares it, and the under-range colour. */
+export function colourScaleWords(d: ColourDomain, sharedBy: string): string {
+  return `one colour scale, ${fx(d.lo, 1)}–${fx(d.hi, 1)} %, for ${sharedBy}; mid grey marks efficiencies below ${fx(d.lo, 1)} %`;
+}
+
 /** Build the report of a design: compute, draw, format. */
 export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
   const data = computeReport(design);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
   const charts: Chart[] = [];
+  // One colour scale per gap pair, shared by every wiring's map of it.
+  const pairCount = Math.max(0, ...data.outcomes.map((o) => o.maps.length));
+  const domains = Array.from({ length: pairCount }, (_, j) => sharedColourDomain(data.outcomes.flatMap((o) => (o.maps[j] ? [o.maps[j].map] : []))));
+  const sharing = (j: number) => {
+    const keys = data.outcomes.filter((o) => o.maps[j]).map((o) => wiringTitle(o.wiring.key).split(' (')[0].toLowerCase());
+    return keys.length > 1 ? `the maps of this pair for every wiring (${keys.join(', ')})` : 'this map';
+  };
   const maps = data.outcomes.flatMap((o) =>
-    o.maps.map((m) => {
-      const c = mapChart(data, o, m);
+    o.maps.map((m, j) => {
+      const c = mapChart(data, o, m, domains[j]);
       charts.push(c.chart);
       const profile = m.profiled.length > 0 ? ` Subcells ${m.profiled.map((k) => k + 1).join(', ')} are re-optimised at every point (a profile map).` : '';
       const matching = m.matching ? ' The orange dashed curve is where the two mapped subcells generate equal photocurrent (series current matching).' : '';
@@ -416,9 +432,9 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
         gridJson: c.grid,
         heading: `${wiringTitle(o.wiring.key)}: subcells ${m.pair.xCell + 1} and ${m.pair.yCell + 1}`,
         caption:
-          `${o.search.objective.label[0].toUpperCase()}${o.search.objective.label.slice(1)} over the gaps of subcells ${m.pair.xCell + 1} (x) and ${m.pair.yCell + 1} (y), ${fx(m.stepEv * 1000, 0)} meV grid, colour on a perceptually uniform scale with labelled isolines.` +
+          `${o.search.objective.label[0].toUpperCase()}${o.search.objective.label.slice(1)} over the gaps of subcells ${m.pair.xCell + 1} (x) and ${m.pair.yCell + 1} (y), ${fx(m.stepEv * 1000, 0)} meV grid, colour on a perceptually uniform scale with labelled isolines; ${colourScaleWords(domains[j], sharing(j))}.` +
           ` The marker is the recommended optimum (${pc(m.optimum.value)} at ${fx(m.optimum.x, 3)} / ${fx(m.optimum.y, 3)} eV); the white dashed outline encloses gaps within ${fx(design.loss * 100, 1)} % (relative) of it.${matching}` +
-          ` Shaded bands are practical windows of bound material families, solid lines fixed absorbers; grey marks gaps out of order.${profile}`,
+          ` Dashed outlines with hatched edges are practical windows of bound material families (colours inside are not altered), solid lines fixed absorbers; light grey marks gaps out of order.${profile}`,
       };
     }),
   );

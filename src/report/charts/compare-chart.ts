@@ -10,7 +10,25 @@ import type { MapMark } from '../compute.js';
 import type { GapMap } from '../../search/map.js';
 import { buildSvg, num, svgText, type Sel } from '../svg.js';
 import { drawAxes } from './frame.js';
-import { clippedPlot, drawColourBar, drawMapLayers, drawMapLegend, drawOptimumLabel, filledGrid, MAP_COLOURS, MAP_SWATCHES, mapPlot, markLegendItems, optimumGroup, ringArea, unorderedRegion, type MapLegendItem } from './map-layers.js';
+import {
+  clippedPlot,
+  drawColourBar,
+  drawMapLayers,
+  drawMapLegend,
+  drawOptimumLabel,
+  filledGrid,
+  MAP_COLOURS,
+  MAP_SWATCHES,
+  mapBoard,
+  mapPlot,
+  markLegendItems,
+  optimumGroup,
+  ringArea,
+  sharedColourDomain,
+  unorderedRegion,
+  type ColourDomain,
+  type MapLegendItem,
+} from './map-layers.js';
 
 export const COMPARE_WIDTH = 900;
 const PLOT_H = 330;
@@ -43,26 +61,18 @@ export interface CompareChartInput {
   panels: [ComparePanel, ComparePanel];
   marks: MapMark[];
   loss: number;
+  /** Colour domain [%] shared with every map this chart is compared with; both panels' own range when absent. */
+  domain?: ColourDomain;
 }
 
-/** The shared colour range [%] of two maps: up to the higher maximum, at most COMPARE_SPAN_PCT below it. */
-export function compareColourRange(maps: GapMap[]): { lo: number; hi: number } {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const m of maps) {
-    for (const v of m.values) {
-      if (Number.isNaN(v)) continue;
-      lo = Math.min(lo, v * 100);
-      hi = Math.max(hi, v * 100);
-    }
-  }
-  return { lo: Math.max(lo, hi - COMPARE_SPAN_PCT), hi };
+/** The shared colour range [%] of maps compared side by side: up to the highest maximum, at most COMPARE_SPAN_PCT below it. */
+export function compareColourRange(maps: GapMap[]): ColourDomain {
+  return sharedColourDomain(maps, COMPARE_SPAN_PCT);
 }
 
-function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, range: { lo: number; hi: number }, showYLabel: boolean): void {
+function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, range: ColourDomain, showYLabel: boolean): void {
   const pl = mapPlot(p.map, PLOT_W, PLOT_H);
   const { w, h, xs, ys } = pl;
-  const { lo, hi } = range;
   const { grid } = filledGrid(p.map.values, pl.nx, pl.ny, 100);
   const optX = xs(p.optimum.x);
   const optY = ys(p.optimum.y);
@@ -72,17 +82,23 @@ function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, 
   g.attr('class', 'gs-compare-panel').attr('data-light', p.light);
   g.append('text').attr('class', 'gs-panel-title').attr('x', 0).attr('y', -12).attr('font-size', 13).attr('font-weight', 'bold').text(svgText(p.title));
   const plot = clippedPlot(g, g, `${id}-clip`, pl);
+  const board = mapBoard(pl, [
+    { x: optX, y: optY, r: 8 },
+    { x: othX, y: othY, r: 9 },
+  ]);
+  const opt = optimumGroup(g, id, p.optimum);
+  drawOptimumLabel(opt, board, optX, optY, `${num(p.optimum.value * 100, 2)} % at ${num(p.optimum.x, 3)} / ${num(p.optimum.y, 3)} eV`);
   drawMapLayers(plot, pl, {
+    id,
+    defs: g,
     grid,
-    lo,
-    hi,
+    domain: range,
     marks: inp.marks,
     // Labels of horizontal lines go to the side away from the optima.
     markSide: (optX + othX) / 2 > w / 2 ? 'left' : 'right',
-    // Isolines at the same levels in both panels, labelled away from the markers and the optimum's label.
-    keepouts: [
+    board,
+    away: [
       [optX, optY],
-      [optX + 70, optY + 18],
       [othX, othY],
     ],
     threshold: p.threshold,
@@ -94,15 +110,14 @@ function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, 
   }
   other.append('circle').attr('cx', num(othX)).attr('cy', num(othY)).attr('r', 6.5).attr('fill', 'none').attr('stroke', '#000000').attr('stroke-width', 3.2);
   other.append('circle').attr('cx', num(othX)).attr('cy', num(othY)).attr('r', 6.5).attr('fill', 'none').attr('stroke', '#ffffff').attr('stroke-width', 1.6);
-  const opt = optimumGroup(g, id, p.optimum);
+  g.node()?.appendChild(opt.node() as Element);
   opt.append('circle').attr('cx', num(optX)).attr('cy', num(optY)).attr('r', 3.4).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.2);
-  drawOptimumLabel(opt, pl, optX, optY, `${num(p.optimum.value * 100, 2)} % at ${num(p.optimum.x, 3)} / ${num(p.optimum.y, 3)} eV`);
   g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333');
   drawAxes(g, { x: xs, y: ys, w, h, xTicks: 6, yTicks: 7, xLabel: inp.xLabel, yLabel: showYLabel ? inp.yLabel : undefined });
 }
 
 export function compareChartSvg(inp: CompareChartInput): string {
-  const range = compareColourRange(inp.panels.map((p) => p.map));
+  const range = inp.domain ?? compareColourRange(inp.panels.map((p) => p.map));
   return buildSvg(COMPARE_WIDTH, COMPARE_HEIGHT, { id: inp.id, class: 'gs-chart gs-compare', 'data-colour-lo': num(range.lo, 4), 'data-colour-hi': num(range.hi, 4), role: 'img' }, (svg) => {
     svg.append('title').text(svgText(`${inp.panels[0].title} and ${inp.panels[1].title}, ${inp.wiringLabel}: ${inp.xLabel} against ${inp.yLabel}, one colour scale`));
     inp.panels.forEach((p, k) => {
