@@ -5,8 +5,7 @@
  * finds the maximum power with a generic golden-section maximiser. It is
  * correct, and slow on purpose; nothing in the product calls it.
  */
-import { BOLTZMANN_EV_K, ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
-import { BLACKBODY_PREFACTOR_EV } from '../junction/radiative.js';
+import { BLACKBODY_PREFACTOR_EV, BOLTZMANN_EV_K, ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import type { Spectrum } from '../light/spectrum.js';
 
 /** q·∫ φ_λ dλ up to the gap wavelength by the trapezoid rule on the native grid [A/m²]. */

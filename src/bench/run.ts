@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { am15g } from '../light/sources.js';
-import { StepObjective } from '../search/step-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 import { computeMap, uniformAxis } from '../search/map.js';
 import { bandEdgeEnergiesEv, searchGaps } from '../search/optimize.js';
 import { plainSeriesEfficiency } from './baseline.js';

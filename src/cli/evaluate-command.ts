@@ -1,6 +1,6 @@
 /** `gapstack evaluate`: one stack, one spectrum, every number with its unit. */
 import { evaluateStack, stackWarnings, type StackResult } from '../stack/evaluate.js';
-import { maximiseScan } from '../stack/electrical.js';
+import { maximiseScan } from '../numerics/golden.js';
 import { UserError } from '../errors.js';
 import { toMaCm2 } from '../physics/constants.js';
 import type { StackSpec } from '../stack/model.js';

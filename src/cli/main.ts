@@ -11,7 +11,7 @@ const EXIT_INTERNAL = 1;
 
 function lightOptions<T>(y: Argv<T>) {
   return y
-    .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt, the default), blackbody:<K>, or a table file' })
+    .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt, the default), am1.5d (direct + circumsolar), am0 (extraterrestrial), blackbody:<K>, or a table file' })
     .option('suns', { type: 'string', describe: 'concentration [suns], a number or "max" (full concentration ≈ 46 240)' })
     .option('irradiance', { type: 'string', describe: 'rescale the spectrum to this irradiance [W/m²]' })
     .option('units', { type: 'string', describe: 'units of a headerless file: "<nm|um|eV>,<W/m2/nm|W/m2/um|W/m2/eV|photons/m2/s/nm|…>"' });

@@ -1,7 +1,7 @@
 /** `gapstack map`: efficiency over two gaps, as CSV or JSON for reports and slides. */
 import { UserError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
-import { buildObjective } from '../search/objectives.js';
+import { buildObjective } from '../stack/objectives.js';
 import { computeMap, mapToCsv, uniformAxis, type GapMap } from '../search/map.js';
 import { subcellBounds } from '../search/optimize.js';
 import { constraintBounds } from '../search/design-search.js';

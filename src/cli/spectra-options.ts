@@ -1,5 +1,5 @@
 /** The light a search or yield uses: one spectrum, or a weighted ensemble. */
-import type { LabelledSpectrum } from '../search/step-objective.js';
+import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
 import { spectrumFromArgs, type LightArgs } from './options.js';
 import { UserError } from '../errors.js';
 import { parseUnitDeclaration } from '../light/table-file.js';

@@ -55,7 +55,7 @@ function at<T>(src: Located, path: FieldPath, fn: () => T, fields?: Record<strin
   }
 }
 
-const isBuiltinLight = (s: string) => /^(am1\.?5g|blackbody:|bb:)/i.test(s.trim());
+const isBuiltinLight = (s: string) => /^(am1\.?5[gd]$|am0$|blackbody:|bb:)/i.test(s.trim());
 
 function relativeTo(src: Located, p: string): string {
   return isAbsolute(p) ? p : resolve(dirname(src.path), p);

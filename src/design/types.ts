@@ -5,7 +5,7 @@
 import type { EnsembleSummary } from '../light/ensemble.js';
 import type { Spectrum } from '../light/spectrum.js';
 import type { SubcellConstraint } from '../search/design-search.js';
-import type { LabelledSpectrum } from '../search/step-objective.js';
+import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
 import type { StackSpec, Wiring } from '../stack/model.js';
 
 export interface SpectrumEntry {

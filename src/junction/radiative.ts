@@ -3,10 +3,7 @@
  * Phys. 32 (1961) 510): the dark current is the blackbody photon flux the cell
  * emits through its front surface into air (solid angle π) at cell temperature.
  */
-import { BOLTZMANN_EV_K, ELEMENTARY_CHARGE_C, LIGHT_SPEED_M_S, PLANCK_J_S } from '../physics/constants.js';
-
-/** 2π/(h³c²) with energies in eV: photons m⁻² s⁻¹ per eV³. */
-export const BLACKBODY_PREFACTOR_EV = (2 * Math.PI * ELEMENTARY_CHARGE_C ** 3) / (PLANCK_J_S ** 3 * LIGHT_SPEED_M_S ** 2);
+import { BLACKBODY_PREFACTOR_EV, BOLTZMANN_EV_K, ELEMENTARY_CHARGE_C } from '../physics/constants.js';
 
 /**
  * Bose–Einstein integral ∫_{E}^{∞} u²/(e^{u/kT} − 1) du [eV³] for a lower

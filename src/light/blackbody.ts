@@ -4,8 +4,7 @@
  * P_in = f·σ·T_s⁴ exactly; the table exists so that the sun travels through
  * the program in the same form as any measured spectrum.
  */
-import { BOLTZMANN_EV_K, DILUTION_ONE_SUN, ELEMENTARY_CHARGE_C, HC_EV_NM, STEFAN_BOLTZMANN } from '../physics/constants.js';
-import { BLACKBODY_PREFACTOR_EV } from '../junction/radiative.js';
+import { BLACKBODY_PREFACTOR_EV, BOLTZMANN_EV_K, DILUTION_ONE_SUN, ELEMENTARY_CHARGE_C, HC_EV_NM, STEFAN_BOLTZMANN } from '../physics/constants.js';
 import { UserError } from '../errors.js';
 import { makeSpectrum, sha256OfTable, type Spectrum } from './spectrum.js';
 

@@ -30,7 +30,7 @@ import { basename, dirname, extname, isAbsolute, join, resolve } from 'node:path
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode } from 'yaml';
 import { UserError, fileError } from '../errors.js';
 import { HC_EV_NM } from '../physics/constants.js';
-import type { LabelledSpectrum } from '../search/step-objective.js';
+import type { LabelledSpectrum } from './weighted-spectrum.js';
 import { DEFAULT_APE_WINDOW_NM, averagePhotonEnergyEv, makeSpectrum, sha256Hex, sha256OfTable, type Spectrum } from './spectrum.js';
 import {
   abscissaUnitOf,

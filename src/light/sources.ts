@@ -1,5 +1,5 @@
 /**
- * Resolving what the user names as light: the built-in AM1.5G, a blackbody
+ * Resolving what the user names as light: the built-in AM1.5G, AM1.5D or AM0, a blackbody
  * sun, or a file; then concentration or rescale to a target irradiance.
  */
 import { readFileSync } from 'node:fs';
@@ -15,18 +15,43 @@ export function builtinSpectrumPath(fileName: string): string {
   return fileURLToPath(new URL(`../../spectra/${fileName}`, import.meta.url));
 }
 
-let am15gCache: Spectrum | undefined;
+const builtinCache = new Map<string, Spectrum>();
+
+/** A shipped ASTM G173-03 column, read once and cached. */
+function builtinSpectrum(file: string, name: string, source: string): Spectrum {
+  let s = builtinCache.get(file);
+  if (!s) {
+    const path = builtinSpectrumPath(file);
+    const bytes = readFileSync(path);
+    s = { ...spectrumFromText(path, bytes.toString('utf8'), undefined, sha256Hex(bytes)), name, source };
+    builtinCache.set(file, s);
+  }
+  return s;
+}
 
 /** ASTM G173-03 global tilt (AM1.5G) as shipped in spectra/am1.5g.tsv; P_in = 1000.37 W/m². */
 export function am15g(): Spectrum {
-  if (!am15gCache) {
-    const path = builtinSpectrumPath('am1.5g.tsv');
-    const bytes = readFileSync(path);
-    const s = spectrumFromText(path, bytes.toString('utf8'), undefined, sha256Hex(bytes));
-    am15gCache = { ...s, name: 'AM1.5G (ASTM G173-03 global tilt)', source: 'ASTM G173-03 global tilt, spectra/am1.5g.tsv' };
-  }
-  return am15gCache;
+  return builtinSpectrum('am1.5g.tsv', 'AM1.5G (ASTM G173-03 global tilt)', 'ASTM G173-03 global tilt, spectra/am1.5g.tsv');
 }
+
+/** ASTM G173-03 direct normal + circumsolar (AM1.5D) as shipped in spectra/am1.5d.tsv; P_in = 900.14 W/m². */
+export function am15d(): Spectrum {
+  return builtinSpectrum('am1.5d.tsv', 'AM1.5D (ASTM G173-03 direct + circumsolar)', 'ASTM G173-03 direct normal + circumsolar, spectra/am1.5d.tsv');
+}
+
+/** ASTM G173-03 extraterrestrial (AM0) as shipped in spectra/am0.tsv; P_in = 1347.93 W/m² over 280–4000 nm. */
+export function am0(): Spectrum {
+  return builtinSpectrum('am0.tsv', 'AM0 (ASTM G173-03 extraterrestrial)', 'ASTM G173-03 extraterrestrial, spectra/am0.tsv');
+}
+
+/** Short names of the built-in standard spectra, lower case. */
+export const BUILTIN_SPECTRUM_NAMES: Readonly<Record<string, () => Spectrum>> = {
+  'am1.5g': am15g,
+  am15g: am15g,
+  'am1.5d': am15d,
+  am15d: am15d,
+  am0: am0,
+};
 
 export interface LightOptions {
   /** Concentration [suns], a number ≥ 1e-6, or 'max' for full concentration (≈ 46 240). */
@@ -49,7 +74,7 @@ export function parseSuns(value: unknown): number | 'max' | undefined {
 }
 
 /**
- * Resolve a spectrum name: "am1.5g", "blackbody:<K>" or a file path, then
+ * Resolve a spectrum name: "am1.5g", "am1.5d", "am0", "blackbody:<K>" or a file path, then
  * apply concentration (--suns) or a target irradiance. For a blackbody the
  * concentration sets the dilution f = C·(R_sun/D)²; for a table it scales it.
  */
@@ -61,8 +86,9 @@ export function resolveSpectrum(name: string, opts: LightOptions = {}): Spectrum
   }
   const key = name.trim().toLowerCase();
   let s: Spectrum;
-  if (key === 'am1.5g' || key === 'am15g') {
-    s = am15g();
+  const builtin = BUILTIN_SPECTRUM_NAMES[key];
+  if (builtin) {
+    s = builtin();
   } else if (key.startsWith('blackbody:') || key.startsWith('bb:')) {
     const t = Number(key.slice(key.indexOf(':') + 1).replace(/k$/, ''));
     if (!Number.isFinite(t)) throw new UserError(`"${name}": blackbody temperature must be a number of kelvin, e.g. blackbody:5778`);

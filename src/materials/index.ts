@@ -19,3 +19,4 @@ export {
   parseUserFamily,
 } from './alloy.js';
 export { III_V_BOWING_EV, III_V_GAMMA, III_V_X, getFamily, listFamilies } from './families.js';
+export { gapAtReference } from './reference-gap.js';

@@ -25,3 +25,19 @@ export function goldenSectionMax(f: (x: number) => number, lo: number, hi: numbe
   }
   return 0.5 * (lo + hi);
 }
+
+/** Golden-section maximum of a function on [a, b] after a coarse scan; returns the argument. */
+export function maximiseScan(f: (x: number) => number, a: number, b: number, scan = 48, tol = 1e-12): number {
+  let best = a;
+  let bestF = -Infinity;
+  for (let k = 0; k <= scan; k++) {
+    const x = a + ((b - a) * k) / scan;
+    const fx = f(x);
+    if (fx > bestF) {
+      bestF = fx;
+      best = x;
+    }
+  }
+  const h = (b - a) / scan;
+  return goldenSectionMax(f, Math.max(a, best - h), Math.min(b, best + h), tol * Math.max(1, Math.abs(b)));
+}

@@ -20,6 +20,12 @@ export const HC_EV_NM = (PLANCK_J_S * LIGHT_SPEED_M_S) / ELEMENTARY_CHARGE_C * 1
 export const HC_J_NM = PLANCK_J_S * LIGHT_SPEED_M_S * 1e9;
 /** Boltzmann constant [eV/K]. */
 export const BOLTZMANN_EV_K = BOLTZMANN_J_K / ELEMENTARY_CHARGE_C;
+/**
+ * Blackbody photon-flux prefactor 2π/(h³c²) with energies in eV: photons
+ * m⁻² s⁻¹ per eV³ (Planck's law integrated over a hemisphere; used for both
+ * the sun and the cell's own emission).
+ */
+export const BLACKBODY_PREFACTOR_EV = (2 * Math.PI * ELEMENTARY_CHARGE_C ** 3) / (PLANCK_J_S ** 3 * LIGHT_SPEED_M_S ** 2);
 
 /** IAU 2015 nominal solar radius [m]. */
 export const SUN_RADIUS_M = 6.957e8;

@@ -8,14 +8,17 @@ import type { Design, DesignMapPair, DesignWiring } from '../design/index.js';
 import { constraintRangeEv, MAX_MAP_AXIS_POINTS } from '../design/index.js';
 import { UserError } from '../errors.js';
 import { HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
-import { computeMap, uniformAxis, type GapMap } from '../search/map.js';
+import { computeMap, uniformAxis } from '../search/map.js';
 import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
-import { StepObjective } from '../search/step-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 import { evaluateStack, type StackResult } from '../stack/evaluate.js';
 import type { StackSpec } from '../stack/model.js';
 import { stackOptics } from '../stack/optics.js';
 import { currentAtVoltageAm2, voltageAtCurrentV } from '../junction/diode.js';
 import { compareWithReference, type EnsembleComparison } from './ensemble-compare.js';
+import type { JvCurve, JvOutcome, MapMark, MapOutcome, SensitivitySlice, WiringOutcome } from './outcomes.js';
+
+export type { JvCurve, JvOutcome, MapMark, MapOutcome, SensitivitySlice, WiringOutcome } from './outcomes.js';
 
 /** Sensitivity slices reach this far either side of the optimum [eV]. */
 export const SENSITIVITY_HALF_WIDTH_EV = 0.15;
@@ -23,70 +26,6 @@ export const SENSITIVITY_HALF_WIDTH_EV = 0.15;
 export const SENSITIVITY_STEP_EV = 0.0025;
 /** Points per J–V curve. */
 export const JV_POINTS = 121;
-
-export interface MapMark {
-  axis: 'x' | 'y';
-  subcell: number;
-  kind: 'window' | 'range' | 'fixed';
-  loEv: number;
-  hiEv: number;
-  label: string;
-}
-
-export interface MapOutcome {
-  pair: DesignMapPair;
-  map: GapMap;
-  stepEv: number;
-  /** Marker: the wiring's recommended gaps on the mapped pair [eV]. */
-  optimum: { x: number; y: number; value: number };
-  /** η threshold of the tolerance region, (1 − loss)·best [-]. */
-  threshold: number;
-  /** J_gen(x cell) − J_gen(y cell) per pixel [A/m²] (series wiring only), NaN where not ordered. */
-  matching: Float64Array | null;
-  marks: MapMark[];
-  /** Subcells maximised per pixel (0-based). */
-  profiled: number[];
-  warnings: string[];
-}
-
-export interface SensitivitySlice {
-  subcell: number;
-  fixed: boolean;
-  gapEv: number;
-  /** Gap offsets [eV] and η [-] (null where the gaps would not descend). */
-  deltaEv: number[];
-  efficiency: (number | null)[];
-}
-
-export interface JvCurve {
-  label: string;
-  /** Voltage [V], current density [A/m²]. */
-  voltageV: number[];
-  currentAm2: number[];
-}
-
-export interface JvOutcome {
-  subcells: JvCurve[];
-  /** Terminal curve of a series stack. */
-  stack: JvCurve | null;
-  /** Operating point of each subcell in the stack. */
-  operating: { vV: number; jAm2: number }[];
-  /** Maximum power point of the stack's terminals (series). */
-  stackMpp: { vV: number; jAm2: number } | null;
-}
-
-export interface WiringOutcome {
-  wiring: DesignWiring;
-  search: DesignSearchResult;
-  bestSpec: StackSpec;
-  /** The stack at its optimum under the reference spectrum at its cell temperature. */
-  detail: StackResult;
-  /** Terminal FF of a series stack, P_max / (V_oc·J_sc). */
-  stackFf: number | null;
-  sensitivity: SensitivitySlice[];
-  jv: JvOutcome;
-  maps: MapOutcome[];
-}
 
 export interface ReportData {
   design: Design;

@@ -14,7 +14,7 @@ import { computeMap, type GapMap } from '../search/map.js';
 import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
 import type { StackSpec } from '../stack/model.js';
 import { stackOptics } from '../stack/optics.js';
-import type { MapOutcome, WiringOutcome } from './compute.js';
+import type { MapOutcome, WiringOutcome } from './outcomes.js';
 
 /** One design point valued under both lights. */
 export interface ComparedPoint {

@@ -6,11 +6,12 @@
  */
 import type { StackSpec } from '../stack/model.js';
 import { UserError } from '../errors.js';
-import { describeGap, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
-import { REFERENCE_TEMPERATURE_K } from '../materials/index.js';
-import { buildObjective } from './objectives.js';
+import { describeGap, gapAtReference, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
+import { buildObjective } from '../stack/objectives.js';
 import { bandEdgeEnergiesEv, searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
-import { StepObjective, type WeightedSpectrum, type GapObjective } from './step-objective.js';
+import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
+import type { GapObjective } from '../stack/gap-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 
 /** How one subcell may vary. */
 export type SubcellConstraint =
@@ -52,11 +53,6 @@ export interface DesignSearchResult {
   warnings: string[];
   /** The unconstrained optimum when a material window bound the search. */
   unconstrained?: SearchResult;
-}
-
-/** Gap at the operating temperature → gap at the family's reference temperature (linear dE_g/dT). */
-export function gapAtReference(family: AbsorberFamily, gapEv: number, tempK: number): number {
-  return gapEv - family.dEgDtEvPerK * (tempK - REFERENCE_TEMPERATURE_K);
 }
 
 /** Range or fixed gap [eV] at the operating temperature that a constraint allows. */

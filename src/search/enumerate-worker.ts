@@ -1,6 +1,6 @@
 /** Worker entry: one share of a step-objective enumeration (see pool.ts). */
 import { enumerateStep, type EnumerationResult } from './enumerate.js';
-import { StepObjective } from './step-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 import type { EnumerationTask } from './pool.js';
 
 export default function enumerateShare(task: EnumerationTask): EnumerationResult {

@@ -8,9 +8,7 @@
  * with all remaining photons.
  */
 import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
-import { photonsAboveEv } from '../light/spectrum.js';
-import { j0RadStepAm2 } from '../junction/radiative.js';
-import { singlePowerWm2, type StepObjective } from './step-objective.js';
+import { singlePowerWm2, type StepObjective } from '../stack/step-objective.js';
 
 export interface Candidate {
   /** Gaps [eV], top first. */
@@ -49,12 +47,9 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   const spectra = obj.spectra;
   const ns = spectra.length;
   const g = axis.length;
-  const qn: Float64Array[] = [];
-  const j0: Float64Array[] = [];
-  for (const ws of spectra) {
-    qn.push(Float64Array.from(axis, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(ws.spectrum, e)));
-    j0.push(Float64Array.from(axis, (e) => j0RadStepAm2(e, ws.tempK)));
-  }
+  const tables = obj.axisTables(axis);
+  const qn = tables.map((t) => t.qnAm2);
+  const j0 = tables.map((t) => t.j0RadAm2);
   const vt = spectra.map((s) => thermalVoltageV(s.tempK));
   const weights = spectra.map((s) => s.weight);
   const pin = obj.incidentPowerWm2;

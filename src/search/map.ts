@@ -3,13 +3,11 @@
  * fixed or maximised over (a profile map). The two-cell step case runs from
  * tables along each axis: one series solve per pixel, nothing else.
  */
-import { ELEMENTARY_CHARGE_C } from '../physics/constants.js';
-import { photonsAboveEv } from '../light/spectrum.js';
-import { j0RadStepAm2 } from '../junction/radiative.js';
 import { UserError } from '../errors.js';
-import { StepObjective, type GapObjective } from './step-objective.js';
+import type { GapObjective } from '../stack/gap-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 import { nelderMeadMax } from './refine.js';
-import { maximiseScan } from '../stack/electrical.js';
+import { maximiseScan } from '../numerics/golden.js';
 
 export interface MapRequest {
   /** Axis values [eV] of the upper mapped subcell. */
@@ -68,12 +66,9 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   if (fast) {
     const so = obj as StepObjective;
     const spectra = so.spectra;
-    const tables = spectra.map((s) => ({
-      qx: Float64Array.from(x, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(s.spectrum, e)),
-      qy: Float64Array.from(y, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(s.spectrum, e)),
-      jx: Float64Array.from(x, (e) => j0RadStepAm2(e, s.tempK)),
-      jy: Float64Array.from(y, (e) => j0RadStepAm2(e, s.tempK)),
-    }));
+    const onX = so.axisTables(x);
+    const onY = so.axisTables(y);
+    const tables = onX.map((tx, k) => ({ qx: tx.qnAm2, qy: onY[k].qnAm2, jx: tx.j0RadAm2, jy: onY[k].j0RadAm2 }));
     const qn = new Float64Array(2);
     const j0 = new Float64Array(2);
     const a = so.options.topAbsorptance as number;

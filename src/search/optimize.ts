@@ -9,7 +9,8 @@ import { UserError } from '../errors.js';
 import { bandEdgeEnergiesEv, gapAxis } from './axis.js';
 import { enumerateGeneric, enumerateStep, type Candidate, type EnumerationResult } from './enumerate.js';
 import { compassMax, nelderMeadMax, type Box } from './refine.js';
-import { StepObjective, type GapObjective } from './step-objective.js';
+import type { GapObjective } from '../stack/gap-objective.js';
+import { StepObjective } from '../stack/step-objective.js';
 
 export interface SearchProblem {
   cells: number;

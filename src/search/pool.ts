@@ -7,7 +7,7 @@
 import { fileURLToPath } from 'node:url';
 import { Piscina } from 'piscina';
 import type { EnumerationResult } from './enumerate.js';
-import type { StepObjectiveOptions } from './step-objective.js';
+import type { StepObjectiveOptions } from '../stack/step-objective.js';
 
 export interface EnumerationTask {
   objective: StepObjectiveOptions;

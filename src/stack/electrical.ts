@@ -10,7 +10,7 @@
  * and the group maximum is the root of dP/dJ by safeguarded Newton.
  */
 
-import { goldenSectionMax } from '../numerics/golden.js';
+import { maximiseScan } from '../numerics/golden.js';
 import { voltageAtCurrentV } from '../junction/diode.js';
 
 /** Electrical inputs of a stack, top first. */
@@ -251,22 +251,6 @@ function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: n
   for (const i of group) currents[i] = j;
   cascadePhotocurrents(el, currents, jph);
   return j;
-}
-
-/** Golden-section maximum of a function on [a, b] after a coarse scan; returns the argument. */
-export function maximiseScan(f: (x: number) => number, a: number, b: number, scan = 48, tol = 1e-12): number {
-  let best = a;
-  let bestF = -Infinity;
-  for (let k = 0; k <= scan; k++) {
-    const x = a + ((b - a) * k) / scan;
-    const fx = f(x);
-    if (fx > bestF) {
-      bestF = fx;
-      best = x;
-    }
-  }
-  const h = (b - a) / scan;
-  return goldenSectionMax(f, Math.max(a, best - h), Math.min(b, best + h), tol * Math.max(1, Math.abs(b)));
 }
 
 /**

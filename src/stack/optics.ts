@@ -10,9 +10,9 @@
  * bins are exact integrals of the same cumulative table and of the
  * Bose–Einstein kernel.
  */
-import { ELEMENTARY_CHARGE_C } from '../physics/constants.js';
 import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';
-import { boseEinsteinTailEv3, BLACKBODY_PREFACTOR_EV, j0RadStepAm2 } from '../junction/radiative.js';
+import { BLACKBODY_PREFACTOR_EV, ELEMENTARY_CHARGE_C } from '../physics/constants.js';
+import { boseEinsteinTailEv3, j0RadStepAm2 } from '../junction/radiative.js';
 import type { AbsorptanceModel, AlphaModel, SpectralValue, StackSpec } from './model.js';
 
 export interface StackOptics {

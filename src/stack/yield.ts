@@ -3,7 +3,7 @@
  * spectrum is solved in full, so a series stack re-matches its current each time.
  */
 import { UserError } from '../errors.js';
-import type { WeightedSpectrum } from '../search/step-objective.js';
+import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import { evaluateStack, type StackResult } from './evaluate.js';
 import type { StackSpec } from './model.js';
 

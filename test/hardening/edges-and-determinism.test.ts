@@ -48,7 +48,7 @@ describe('worker threads', () => {
     // Workers load compiled JavaScript, so this test drives the build in dist/ (npm test builds it first).
     const dist = '../../dist/';
     const { searchGaps, searchGapsParallel, bandEdgeEnergiesEv } = await import(`${dist}search/optimize.js`);
-    const { StepObjective } = await import(`${dist}search/step-objective.js`);
+    const { StepObjective } = await import(`${dist}stack/step-objective.js`);
     const { am15g: load } = await import(`${dist}light/sources.js`);
     const s = load();
     const obj = new StepObjective({ cells: 3, wiring: 'series', ere: [1, 1, 1], topAbsorptance: 1, spectra: [{ spectrum: s, weight: 1, tempK: 300 }] });

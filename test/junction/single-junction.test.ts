@@ -8,7 +8,7 @@ import { maxPowerPoint, currentAtVoltageAm2, voltageAtCurrentV, vocV } from '../
 import { lambertW0 } from '../../src/junction/lambert-w.js';
 import { thermalVoltageV, BOLTZMANN_EV_K } from '../../src/physics/constants.js';
 import type { Spectrum } from '../../src/light/spectrum.js';
-import { maximiseScan } from '../../src/stack/electrical.js';
+import { maximiseScan } from '../../src/numerics/golden.js';
 
 const single = (gap: number, s: Spectrum, over = {}) => evaluateStack(idealStack([gap], seriesWiring(1), over), s);
 

@@ -13,7 +13,7 @@ import { yieldForStack } from '../../src/stack/yield.js';
 import { am15g } from '../../src/light/sources.js';
 import { averagePhotonEnergyEv, makeSpectrum, photonsAboveEv, type Spectrum } from '../../src/light/spectrum.js';
 import { readSpectrumFile } from '../../src/light/table-file.js';
-import { buildObjective } from '../../src/search/objectives.js';
+import { buildObjective } from '../../src/stack/objectives.js';
 import { evaluateStack } from '../../src/stack/evaluate.js';
 import { idealStack, independentWiring, seriesWiring, type Wiring } from '../../src/stack/model.js';
 import { ROOT } from '../helpers/cli.js';

@@ -1,32 +1,26 @@
 /**
- * The example report in a real headless Chromium (Debian's chromium package,
- * /usr/bin/chromium, driven by playwright-core): no console errors, no
+ * The example report in a real headless Chromium (system `chromium` on PATH,
+ * else the one the @sparticuz/chromium npm package carries; see
+ * test/helpers/chromium.ts; driven by playwright-core): no console errors, no
  * network, contour paths on the maps, the optimum marker drawn where the
  * reported optimum is, a working hover readout, A4 printing; a screenshot
  * lands in test/.artifacts/.
  */
-import { existsSync, mkdirSync, mkdtempSync, readFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { reportCommand } from '../../src/cli/report-command.js';
+import { BROWSER_TIMEOUT_MS, launchChromium } from '../helpers/chromium.js';
 
 const ROOT = new URL('../..', import.meta.url).pathname;
 const EXAMPLE = join(ROOT, 'examples/perovskite-silicon.yaml');
 const ARTIFACTS = join(ROOT, 'test/.artifacts');
-const CHROMIUM = process.env.GAPSTACK_CHROMIUM ?? '/usr/bin/chromium';
 
 /** Open a report file in a fresh headless Chromium, collecting console problems (and requests, if asked). */
 async function openReport(file: string, problems: string[], requests?: string[]): Promise<{ ctx: BrowserContext; page: Page }> {
-  if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: install Debian's chromium package (apt-get install -y chromium)`);
-  const ctx = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'gapstack-chromium-')), {
-    executablePath: CHROMIUM,
-    headless: true,
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    viewport: { width: 1100, height: 900 },
-  });
+  const { ctx } = await launchChromium();
   const page = await ctx.newPage();
   page.on('console', (m) => {
     if (m.type() === 'error' || m.type() === 'warning') problems.push(`console ${m.type()}: ${m.text()}`);
@@ -49,17 +43,17 @@ describe('the example report in headless Chromium', () => {
     const out = join(ARTIFACTS, 'example-report.html');
     summary = JSON.parse(await reportCommand({ design: EXAMPLE, output: out, json: true }));
     ({ ctx, page } = await openReport(out, problems, requests));
-  }, 60_000);
+  }, BROWSER_TIMEOUT_MS);
 
   afterAll(async () => {
     await ctx?.close();
-  });
+  }, BROWSER_TIMEOUT_MS);
 
   test('loads with no console errors and fetches nothing but itself', async () => {
     await page.waitForTimeout(100);
     expect(problems).toEqual([]);
     expect(requests).toEqual([page.url()]);
-  });
+  }, BROWSER_TIMEOUT_MS);
 
   test('every map has contour paths, isolines and the tolerance outline; the series map has the matching locus', async () => {
     for (const id of ['map-series-1-2', 'map-independent-1-2']) {
@@ -74,7 +68,7 @@ describe('the example report in headless Chromium', () => {
       expect(counts.opt).toBe(1);
       expect(counts.match).toBe(id.includes('series') ? 1 : 0);
     }
-  });
+  }, BROWSER_TIMEOUT_MS);
 
   test('the optimum marker sits at the reported optimum: data attributes and its drawn position through the axes', async () => {
     for (const w of summary.wirings) {
@@ -112,7 +106,7 @@ describe('the example report in headless Chromium', () => {
       expect(Math.abs(drawnX - w.gaps_ev[0])).toBeLessThan(1.5 * pixelEv);
       expect(Math.abs(drawnY - w.gaps_ev[1])).toBeLessThan(1.5 * ((m.ymax - m.ymin) / m.height));
     }
-  });
+  }, BROWSER_TIMEOUT_MS);
 
   test('hovering the map reads out the efficiency at the pointer', async () => {
     const map = page.locator('#map-series-1-2');
@@ -136,7 +130,7 @@ describe('the example report in headless Chromium', () => {
     expect(grid.v[iy * grid.nx + ix].toFixed(2)).toBe(m[3]);
     expect(await page.locator('#map-series-1-2 .gs-hover').getAttribute('visibility')).toBe('visible');
     expect(problems).toEqual([]);
-  });
+  }, BROWSER_TIMEOUT_MS);
 
   test('prints on A4 over several pages; a screenshot is saved', async () => {
     const pdf = await page.pdf({ format: 'A4', printBackground: true });
@@ -147,7 +141,7 @@ describe('the example report in headless Chromium', () => {
     await page.screenshot({ path: shot, fullPage: true });
     await page.locator('#figure-map-series-1-2').screenshot({ path: join(ARTIFACTS, 'example-map-series.png') });
     expect(readFileSync(shot).subarray(1, 4).toString('latin1')).toBe('PNG');
-  });
+  }, BROWSER_TIMEOUT_MS);
 });
 
 describe('the synthetic-year report in headless Chromium', () => {
@@ -160,11 +154,11 @@ describe('the synthetic-year report in headless Chromium', () => {
     const out = join(ARTIFACTS, 'year-report.html');
     await reportCommand({ design: join(ROOT, 'examples/perovskite-silicon-year.yaml'), output: out });
     ({ ctx, page } = await openReport(out, problems));
-  }, 60_000);
+  }, BROWSER_TIMEOUT_MS);
 
   afterAll(async () => {
     await ctx?.close();
-  });
+  }, BROWSER_TIMEOUT_MS);
 
   test('the comparison section draws two side-by-side panels per wiring and the APE bars, with no console errors', async () => {
     for (const id of ['compare-series-1-2', 'compare-independent-1-2']) {
@@ -190,5 +184,5 @@ describe('the synthetic-year report in headless Chromium', () => {
     expect(bars.every((w) => w > 5)).toBe(true);
     await page.locator('#versus-am15g').screenshot({ path: join(ARTIFACTS, 'year-versus-am15g.png') });
     expect(problems).toEqual([]);
-  });
+  }, BROWSER_TIMEOUT_MS);
 });

@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { am15g } from '../../src/light/sources.js';
-import { StepObjective } from '../../src/search/step-objective.js';
+import { StepObjective } from '../../src/stack/step-objective.js';
 import { bandEdgeEnergiesEv, searchGaps, type SearchProblem } from '../../src/search/optimize.js';
 import { compassMax, nelderMeadMax } from '../../src/search/refine.js';
 import { gapAxis } from '../../src/search/axis.js';

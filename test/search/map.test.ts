@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { am15g } from '../../src/light/sources.js';
-import { StepObjective } from '../../src/search/step-objective.js';
-import { GenericObjective, buildObjective, stepObjectiveApplies } from '../../src/search/objectives.js';
+import { StepObjective } from '../../src/stack/step-objective.js';
+import { GenericObjective, buildObjective, stepObjectiveApplies } from '../../src/stack/objectives.js';
 import { computeMap, mapToCsv, uniformAxis } from '../../src/search/map.js';
 import { evaluateStack } from '../../src/stack/evaluate.js';
 import { idealStack, seriesWiring, independentWiring } from '../../src/stack/model.js';

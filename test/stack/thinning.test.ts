@@ -12,7 +12,7 @@ import { describe, expect, test } from 'vitest';
 import { am15g } from '../../src/light/sources.js';
 import { evaluateStack } from '../../src/stack/evaluate.js';
 import { idealStack, seriesWiring } from '../../src/stack/model.js';
-import { StepObjective } from '../../src/search/step-objective.js';
+import { StepObjective } from '../../src/stack/step-objective.js';
 
 const spectrum = am15g();
 const ref = JSON.parse(readFileSync(new URL('../fixtures/reference/reference.json', import.meta.url), 'utf8')) as {

@@ -4,9 +4,11 @@
  * optics, coupling or wiring) with the gaps substituted into a template.
  * Both score a weighted set of spectra as Σ w·P_max / Σ w·P_in.
  */
-import type { StackSpec } from '../stack/model.js';
-import { evaluateStack } from '../stack/evaluate.js';
-import { StepObjective, type GapObjective, type WeightedSpectrum } from './step-objective.js';
+import type { StackSpec } from './model.js';
+import { evaluateStack } from './evaluate.js';
+import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
+import type { GapObjective } from './gap-objective.js';
+import { StepObjective } from './step-objective.js';
 
 /** Any stack: gaps substituted into a template and evaluated in full per spectrum. */
 export class GenericObjective implements GapObjective {

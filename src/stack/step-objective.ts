@@ -1,5 +1,5 @@
 /**
- * The search's hot path: efficiency of ideal-step stacks (constant
+ * The search's hot path, stack physics for ideal steps: efficiency of ideal-step stacks (constant
  * absorptance, no coupling) under one spectrum or a weighted set, in closed
  * form from the cumulative photon tables, with no allocation per call.
  *
@@ -10,25 +10,14 @@
  * Yield over spectra k: Σ w_k·P_k / Σ w_k·P_in,k (docs/PHYSICS.md §8).
  */
 import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
-import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';
+import { photonsAboveEv } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
 import { lambertW0OfExp } from '../junction/lambert-w.js';
 import { goldenSectionMax } from '../numerics/golden.js';
+import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
+import type { GapObjective } from './gap-objective.js';
 
 export type FastWiring = 'series' | 'independent';
-
-export interface WeightedSpectrum {
-  spectrum: Spectrum;
-  /** Weight (hours or energy share) [-]. */
-  weight: number;
-  /** Cell temperature under this spectrum [K]. */
-  tempK: number;
-}
-
-/** A weighted spectrum with the name people see. */
-export interface LabelledSpectrum extends WeightedSpectrum {
-  label: string;
-}
 
 export interface StepObjectiveOptions {
   cells: number;
@@ -98,15 +87,6 @@ export function singlePowerWm2(jph: number, j0: number, vt: number): number {
   return v * (jph - j0 * Math.expm1(w - 1));
 }
 
-/** A stack objective over gaps (top first, [eV]); higher is better. */
-export interface GapObjective {
-  readonly cells: number;
-  /** Efficiency (or yield-weighted efficiency) [-] at continuous gaps [eV]. */
-  value(gapsEv: ArrayLike<number>): number;
-  /** Describe what is maximised, for reports. */
-  readonly label: string;
-}
-
 /** Fast objective for step stacks without coupling. */
 export class StepObjective implements GapObjective {
   readonly cells: number;
@@ -152,6 +132,19 @@ export class StepObjective implements GapObjective {
     let p = 0;
     for (let i = 0; i < n; i++) p += singlePowerWm2(jph[i], j0[i], vt);
     return p;
+  }
+
+  /**
+   * Tables over an axis of gaps [eV], one per spectrum, for searches that
+   * evaluate many stacks on the same axis through `powerFromTables`:
+   * q·N(E) [A/m²] (photons above E, docs/PHYSICS.md §2) and the radiative J0
+   * of an ideal step at E [A/m²] (Shockley & Queisser 1961).
+   */
+  axisTables(axisEv: ArrayLike<number>): { qnAm2: Float64Array; j0RadAm2: Float64Array }[] {
+    return this.opts.spectra.map((ws) => ({
+      qnAm2: Float64Array.from(axisEv, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(ws.spectrum, e)),
+      j0RadAm2: Float64Array.from(axisEv, (e) => j0RadStepAm2(e, ws.tempK)),
+    }));
   }
 
   private readonly qnScratch = new Float64Array(6);
