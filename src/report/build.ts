@@ -24,6 +24,8 @@ import {
   assumptionList,
   CAUTION,
   comparisonIntro,
+  edgeNotes,
+  edgeSentence,
   ensembleIdentity,
   fx,
   generatedLine,
@@ -34,6 +36,7 @@ import {
   questionText,
   shiftTable,
   subcellTable,
+  threeTerminalTwin,
   verdict,
   wiringPatternText,
   wiringTitle,
@@ -335,13 +338,14 @@ function comparisonSection(data: ReportData, charts: Chart[]): Record<string, un
   const ape = apeChart(c);
   // One colour scale per gap pair over every wiring's two panels.
   const ranges = (c.wirings[0]?.maps ?? []).map((_, j) => compareColourRange(c.wirings.flatMap((w) => (w.maps[j] ? [w.maps[j].reference, w.maps[j].ensemble.map] : []))));
-  const wirings = c.wirings.map((w) => {
+  const twin = threeTerminalTwin(data.outcomes);
+  const wirings = c.wirings.filter((w) => !twin || w.outcome !== twin.three).map((w) => {
     const maps = w.maps.map((cm, j) => {
       const x = compareChart(data, c, w, cm, ranges[j]);
       charts.push(x.chart);
       return { id: x.chart.name, svg: x.chart.svg, caption: x.caption, heading: x.heading };
     });
-    return { slug: w.outcome.wiring.slug, title: wiringTitle(w.outcome.wiring.key), maps, table: shiftTable(d, w), loss: lossText(w) };
+    return { slug: w.outcome.wiring.slug, title: wiringTitle(w.outcome.wiring.key), maps, table: shiftTable(d, w), loss: lossText(d, w) };
   });
   charts.push(ape);
   const s = c.summary;
@@ -419,7 +423,10 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     const keys = data.outcomes.filter((o) => o.maps[j]).map((o) => wiringTitle(o.wiring.key).split(' (')[0].toLowerCase());
     return keys.length > 1 ? `the maps of this pair for every wiring (${keys.join(', ')})` : 'this map';
   };
-  const maps = data.outcomes.flatMap((o) =>
+  // 3T with independent loads equal to 4T is said once (in the verdict), not drawn twice.
+  const twin = threeTerminalTwin(data.outcomes);
+  const shown = data.outcomes.filter((o) => !twin || o !== twin.three);
+  const maps = shown.flatMap((o) =>
     o.maps.map((m, j) => {
       const c = mapChart(data, o, m, domains[j]);
       charts.push(c.chart);
@@ -438,12 +445,14 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
       };
     }),
   );
-  const details = data.outcomes.map((o) => {
+  const details = shown.map((o) => {
     const c = detailCharts(data, o);
     charts.push(c.spectrum, c.jv, c.sensitivity);
     const res = o.search.result;
     const notes = [...o.search.warnings, ...o.maps.flatMap((m) => m.warnings)];
-    if (o.search.unconstrained) notes.push(`Without the material windows the best is ${pc(o.search.unconstrained.best.value)} at ${o.search.unconstrained.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV.`);
+    const edge = edgeSentence(design, o);
+    if (edge) notes.push(edge);
+    else if (o.search.unconstrained) notes.push(`Without the material windows the best is ${pc(o.search.unconstrained.best.value)} at ${o.search.unconstrained.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV.`);
     if (o.bestSpec.coupling.model !== 'none') notes.push('J–V curves use the photocurrents at the operating point, luminescent coupling included.');
     return {
       slug: o.wiring.slug,
@@ -457,7 +466,7 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
       jvSvg: c.jv.svg,
       jvCaption: `Each subcell's J–V curve at its photocurrent in the stack${o.jv.stack ? ', the series terminal curve (voltages added at a common current) and its maximum power point' : ''}; dots are the subcells' operating points.`,
       sensitivitySvg: c.sensitivity.svg,
-      sensitivityCaption: `One gap moved at a time, the others held at the optimum (${res.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV); the dotted line is the tolerance threshold ${pc(res.tolerance.threshold)}.`,
+      sensitivityCaption: `One gap moved at a time, the others held at the optimum (${res.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV); the dotted line is the tolerance threshold ${pc(res.tolerance.threshold)}.${o.sensitivity.some((x) => x.windowEv) ? " Offsets outside a subcell's practical window (or allowed range) are tinted in its colour and its curve is faded there: those gaps are not on offer." : ''}`,
     };
   });
   const comparison = comparisonSection(data, charts);
@@ -468,6 +477,7 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     question: questionText(design),
     description: design.description.trim(),
     verdict: verdict(data),
+    edgeNotes: edgeNotes(data),
     columns: data.outcomes.map((o) => ({ key: o.wiring.key, title: wiringTitle(o.wiring.key) })),
     rows: answerRows(data),
     warnings,

@@ -130,7 +130,14 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
   return { pair, map, stepEv: step, optimum, threshold: best.value * (1 - design.loss), matching, marks, profiled, warnings };
 }
 
-function sensitivity(d: DesignSearchResult, bounds: [number, number][]): SensitivitySlice[] {
+/** The practical window or allowed range [eV] of subcell i, when its constraint has one (not free, not fixed). */
+function sliceWindow(design: Design, i: number): [number, number] | undefined {
+  const c = design.subcells[i].constraint;
+  if (c.kind === 'range' || (c.kind === 'material' && c.family.kind !== 'fixed')) return constraintRangeEv(c, design.tempK, design.spanEv);
+  return undefined;
+}
+
+function sensitivity(design: Design, d: DesignSearchResult, bounds: [number, number][]): SensitivitySlice[] {
   const best = d.result.best.gapsEv;
   const count = Math.round((2 * SENSITIVITY_HALF_WIDTH_EV) / SENSITIVITY_STEP_EV);
   return best.map((g0, i) => {
@@ -144,7 +151,7 @@ function sensitivity(d: DesignSearchResult, bounds: [number, number][]): Sensiti
       const ordered = g[i] > 0.2 && (i === 0 || g[i] < g[i - 1]) && (i === g.length - 1 || g[i] > g[i + 1]);
       efficiency.push(ordered ? d.objective.value(g) : null);
     }
-    return { subcell: i, fixed: bounds[i][0] === bounds[i][1], gapEv: g0, deltaEv, efficiency };
+    return { subcell: i, fixed: bounds[i][0] === bounds[i][1], gapEv: g0, deltaEv, efficiency, windowEv: sliceWindow(design, i) };
   });
 }
 
@@ -214,7 +221,7 @@ export function computeReport(design: Design): ReportData {
       bestSpec,
       detail,
       stackFf,
-      sensitivity: sensitivity(d, d.result.bounds),
+      sensitivity: sensitivity(design, d, d.result.bounds),
       jv: jvCurves(design, stackAt(w.template, d.result.best.gapsEv, ref.tempK), detail),
       maps: design.pairs.map((p) => mapFor(design, w, d, p, optimaAll)),
     };

@@ -18,7 +18,9 @@ import {
   drawOptimumLabel,
   filledGrid,
   MAP_COLOURS,
+  MAP_LEGEND_ROW,
   MAP_SWATCHES,
+  mapLegendRows,
   mapBoard,
   mapPlot,
   markLegendItems,
@@ -118,7 +120,18 @@ function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, 
 
 export function compareChartSvg(inp: CompareChartInput): string {
   const range = inp.domain ?? compareColourRange(inp.panels.map((p) => p.map));
-  return buildSvg(COMPARE_WIDTH, COMPARE_HEIGHT, { id: inp.id, class: 'gs-chart gs-compare', 'data-colour-lo': num(range.lo, 4), 'data-colour-hi': num(range.hi, 4), role: 'img' }, (svg) => {
+  // Legend under both panels (its rows set the chart's height).
+  const items: MapLegendItem[] = [
+    { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 4).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.2), text: "the panel's own optimum" },
+    { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 5.5).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1.6), text: "the other panel's optimum" },
+    { draw: MAP_SWATCHES.tolerance, text: `tolerance: ≥ (1 − ${num(inp.loss * 100, 1)} %)·own best` },
+    ...markLegendItems(inp.marks),
+  ];
+  const m0 = inp.panels[0].map;
+  if (ringArea(unorderedRegion(m0.x[0], m0.x[m0.x.length - 1], m0.y[0], m0.y[m0.y.length - 1])) > 1e-6) items.push({ draw: MAP_SWATCHES.unordered, text: 'gaps out of order' });
+  const legendSpan = 2 * PLOT_W + M.between + 60;
+  const height = COMPARE_HEIGHT + MAP_LEGEND_ROW * Math.max(0, mapLegendRows(items, legendSpan) - 2);
+  return buildSvg(COMPARE_WIDTH, height, { id: inp.id, class: 'gs-chart gs-compare', 'data-colour-lo': num(range.lo, 4), 'data-colour-hi': num(range.hi, 4), role: 'img' }, (svg) => {
     svg.append('title').text(svgText(`${inp.panels[0].title} and ${inp.panels[1].title}, ${inp.wiringLabel}: ${inp.xLabel} against ${inp.yLabel}, one colour scale`));
     inp.panels.forEach((p, k) => {
       const g = svg.append('g').attr('transform', `translate(${M.left + k * (PLOT_W + M.between)},${M.top})`);
@@ -126,15 +139,6 @@ export function compareChartSvg(inp: CompareChartInput): string {
     });
     // One colour bar for both panels.
     drawColourBar(svg, M.left + 2 * PLOT_W + M.between + 20, M.top, PLOT_H, range.lo, range.hi);
-    // Legend under both panels.
-    const items: MapLegendItem[] = [
-      { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 4).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.2), text: "the panel's own optimum" },
-      { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 5.5).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1.6), text: "the other panel's optimum" },
-      { draw: MAP_SWATCHES.tolerance, text: `tolerance: ≥ (1 − ${num(inp.loss * 100, 1)} %)·own best` },
-      ...markLegendItems(inp.marks),
-    ];
-    const m0 = inp.panels[0].map;
-    if (ringArea(unorderedRegion(m0.x[0], m0.x[m0.x.length - 1], m0.y[0], m0.y[m0.y.length - 1])) > 1e-6) items.push({ draw: MAP_SWATCHES.unordered, text: 'gaps out of order' });
-    drawMapLegend(svg.append('g').attr('class', 'gs-legend').attr('transform', `translate(${M.left},${M.top + PLOT_H + 64})`), items, 2 * PLOT_W + M.between + 60);
+    drawMapLegend(svg.append('g').attr('class', 'gs-legend').attr('transform', `translate(${M.left},${M.top + PLOT_H + 64})`), items, legendSpan);
   });
 }

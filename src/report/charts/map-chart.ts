@@ -18,7 +18,9 @@ import {
   filledGrid,
   haloText,
   MAP_COLOURS,
+  MAP_LEGEND_ROW,
   MAP_SWATCHES,
+  mapLegendRows,
   mapBoard,
   mapPlot,
   markLegendItems,
@@ -52,8 +54,18 @@ export function mapChartSvg(inp: MapChartInput): string {
   const o = inp.outcome;
   const m = o.map;
   const width = inp.size?.width ?? MAP_WIDTH;
-  const height = inp.size?.height ?? MAP_HEIGHT;
-  const p = mapPlot(m, width - M.left - M.right, height - M.top - M.bottom);
+  // Legend entries (their rows set the chart's height).
+  const items: MapLegendItem[] = [
+    { draw: (s) => s.append('circle').attr('cx', 8).attr('cy', 0).attr('r', 5).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.5), text: 'recommended optimum' },
+    { draw: MAP_SWATCHES.tolerance, text: `tolerance: ≥ (1 − ${num(inp.loss * 100, 1)} %)·best` },
+  ];
+  if (o.matching) items.push({ draw: (s) => s.append('path').attr('d', 'M0,0H18').attr('stroke', MAP_COLOURS.matching).attr('stroke-width', 2).attr('stroke-dasharray', '9,4'), text: 'current matched (J_gen equal)' });
+  items.push(...markLegendItems(o.marks));
+  const legendSpan = width - M.left - 18;
+  // The layout leaves room for two legend rows; each further row adds to the chart's height, not to the plot's.
+  const extraRows = Math.max(0, mapLegendRows(items, legendSpan) - 2);
+  const height = (inp.size?.height ?? MAP_HEIGHT) + MAP_LEGEND_ROW * extraRows;
+  const p = mapPlot(m, width - M.left - M.right, height - M.top - M.bottom - MAP_LEGEND_ROW * extraRows);
   const { w, h, xs, ys } = p;
   const { grid } = filledGrid(m.values, p.nx, p.ny, 100);
   const domain = inp.domain ?? sharedColourDomain([m]);
@@ -129,14 +141,7 @@ export function mapChartSvg(inp: MapChartInput): string {
       g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1);
       drawAxes(g, { x: xs, y: ys, w, h, xTicks: 8, yTicks: 8, xLabel: inp.xLabel, yLabel: inp.yLabel });
       drawColourBar(g, w + 22, 0, h, lo, hi);
-      // Legend.
-      const items: MapLegendItem[] = [
-        { draw: (s) => s.append('circle').attr('cx', 8).attr('cy', 0).attr('r', 5).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.5), text: 'recommended optimum' },
-        { draw: MAP_SWATCHES.tolerance, text: `tolerance: ≥ (1 − ${num(inp.loss * 100, 1)} %)·best` },
-      ];
-      if (o.matching) items.push({ draw: (s) => s.append('path').attr('d', 'M0,0H18').attr('stroke', MAP_COLOURS.matching).attr('stroke-width', 2).attr('stroke-dasharray', '9,4'), text: 'current matched (J_gen equal)' });
-      items.push(...markLegendItems(o.marks));
-      drawMapLegend(g.append('g').attr('class', 'gs-legend').attr('transform', `translate(0,${h + 58})`), items, w + 100);
+      drawMapLegend(g.append('g').attr('class', 'gs-legend').attr('transform', `translate(0,${h + 58})`), items, legendSpan);
       // Hover readout (the page's script fills it; inert in a standalone file).
       const hover = g.append('g').attr('class', 'gs-hover').attr('visibility', 'hidden').attr('pointer-events', 'none');
       hover.append('line').attr('class', 'gs-hover-x').attr('y1', 0).attr('y2', h).attr('stroke', '#ffffff').attr('stroke-width', 0.8);

@@ -552,19 +552,37 @@ export function markLegendItems(marks: MapMark[]): MapLegendItem[] {
   return items;
 }
 
-/** Legend entries in rows, wrapped within `span` px. */
-export function drawMapLegend(lg: Sel, items: MapLegendItem[], span: number): void {
+/** Height of one map legend row [px]. */
+export const MAP_LEGEND_ROW = 18;
+
+/** Where each legend entry goes when wrapped within `span` px: its offset and row. */
+function legendLayout(items: MapLegendItem[], span: number): { x: number; row: number }[] {
   let lx = 0;
-  let ly = 0;
-  for (const it of items) {
+  let row = 0;
+  return items.map((it) => {
     const width = 40 + textWidthPx(it.text, { size: 11 });
     if (lx > 0 && lx + width > span) {
       lx = 0;
-      ly += 18;
+      row++;
     }
-    const item = lg.append('g').attr('transform', `translate(${num(lx, 1)},${ly})`);
+    const at = { x: lx, row };
+    lx += width;
+    return at;
+  });
+}
+
+/** Rows a map legend takes within `span` px. */
+export function mapLegendRows(items: MapLegendItem[], span: number): number {
+  const l = legendLayout(items, span);
+  return l.length === 0 ? 0 : l[l.length - 1].row + 1;
+}
+
+/** Legend entries in rows, wrapped within `span` px. */
+export function drawMapLegend(lg: Sel, items: MapLegendItem[], span: number): void {
+  const at = legendLayout(items, span);
+  items.forEach((it, k) => {
+    const item = lg.append('g').attr('transform', `translate(${num(at[k].x, 1)},${at[k].row * MAP_LEGEND_ROW})`);
     it.draw(item);
     item.append('text').attr('x', 24).attr('y', 4).attr('font-size', 11).text(it.text);
-    lx += width;
-  }
+  });
 }
