@@ -7,7 +7,7 @@ import type { StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import { am15g } from '../light/sources.js';
 import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '../report/assumptions.js';
-import { fix, pct, round, table } from './format.js';
+import { eng, fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
@@ -138,8 +138,13 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   if (a.json) return JSON.stringify({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
   const r = d.result;
   const first = members[0].spectrum;
-  const bestSpec = { ...spec, subcells: spec.subcells.map((c, i) => ({ ...c, gapEv: r.best.gapsEv[i] })) };
-  const detail = members.length === 1 && d.topAbsorptance === undefined ? evaluateStack(bestSpec, first) : null;
+  // The optimum as a stack, the free top absorptance included, so its per-cell table is printed too.
+  const top = d.topAbsorptance;
+  const bestSpec = {
+    ...spec,
+    subcells: spec.subcells.map((c, i) => ({ ...c, gapEv: r.best.gapsEv[i], ...(i === 0 && top !== undefined ? { absorptance: { kind: 'step' as const, value: top } } : {}) })),
+  };
+  const detail = members.length === 1 ? evaluateStack(bestSpec, first) : null;
   const lines = [
     `Best ${d.objective.label}: ${pct(r.best.value, 3)}  wiring ${spec.wiring.label}, ${cells} subcell(s)`,
     `Gaps [eV], top first: ${gapsText(r.best.gapsEv)}${d.topAbsorptance !== undefined ? `   top absorptance ${d.topAbsorptance.toFixed(3)}` : ''}`,
@@ -151,7 +156,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       '',
       table(
         ['cell', 'gap [eV]', 'Jph [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]'],
-        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), fix(c.jphAm2 / 10, 2), fix(c.vocV, 4), fix(c.ff, 4), fix(c.jOpAm2 / 10, 2), fix(c.vOpV, 4)]),
+        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), eng(c.jphAm2 / 10, 2), fix(c.vocV, 4), fix(c.ff, 4), eng(c.jOpAm2 / 10, 2), fix(c.vOpV, 4)]),
       ),
     );
   }

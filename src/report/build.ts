@@ -8,8 +8,9 @@ import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import Handlebars from 'handlebars';
 import type { Design } from '../design/index.js';
+import { HC_EV_NM } from '../physics/constants.js';
 import { mapToCsv } from '../search/map.js';
-import { stackOptics } from '../stack/optics.js';
+import { toolVersion } from './version.js';
 import { computeReport, type MapOutcome, type ReportData, type WiringOutcome } from './compute.js';
 import { mapChartSvg } from './charts/map-chart.js';
 import { spectrumChartData, spectrumChartSvg } from './charts/spectrum-chart.js';
@@ -43,12 +44,7 @@ import {
 } from './view.js';
 
 export const TEMPLATE_PATH = fileURLToPath(new URL('../../templates/report.hbs', import.meta.url));
-const PACKAGE_JSON = fileURLToPath(new URL('../../package.json', import.meta.url));
-
-/** The tool's version from package.json. */
-export function toolVersion(): string {
-  return (JSON.parse(readFileSync(PACKAGE_JSON, 'utf8')) as { version: string }).version;
-}
+export { toolVersion } from './version.js';
 
 /** One chart: its SVG and the data drawn, for the figures folder. */
 export interface Chart {
@@ -57,6 +53,33 @@ export interface Chart {
   svg: string;
   csv: string;
   json: Record<string, unknown>;
+  /** What the data files say about themselves (figureFiles puts it first in the CSV and JSON). */
+  meta: FigureMeta;
+}
+
+/** The header of every figure data file: tool, wiring, light with its SHA-256, temperature, units, caution. */
+export interface FigureMeta {
+  tool: string;
+  wiring: string | null;
+  light: { kind: 'spectrum' | 'ensemble'; name: string; sha256: string; irradiance_w_m2?: number; spectra?: number };
+  temperature_k: number | { min: number; max: number; gaps_held_at: number };
+  units: Record<string, string>;
+  caution: string;
+}
+
+/** The metadata block of one chart's data files. */
+export function figureMeta(data: ReportData, wiring: string | null, units: Record<string, string>): FigureMeta {
+  const d = data.design;
+  const l = d.light;
+  const temps = d.spectra.map((x) => x.tempK);
+  return {
+    tool: `gapstack ${toolVersion()}`,
+    wiring,
+    light: l.kind === 'spectrum' ? { kind: 'spectrum', name: l.spectrum.name, sha256: l.spectrum.sha256, irradiance_w_m2: r6(l.spectrum.pinWm2) } : { kind: 'ensemble', name: l.name, sha256: l.sha256, spectra: d.spectra.length },
+    temperature_k: l.kind === 'spectrum' ? d.tempK : { min: Math.min(...temps), max: Math.max(...temps), gaps_held_at: d.tempK },
+    units: { ...units, note: 'efficiencies named *_percent are in %; any other efficiency field is a fraction (0–1)' },
+    caution: CAUTION,
+  };
 }
 
 export interface BuiltReport {
@@ -69,6 +92,8 @@ export interface BuiltReport {
 
 const r6 = (x: number) => Number(x.toFixed(6));
 const r8 = (x: number) => Number(x.toPrecision(8));
+/** An efficiency [-] in percent, to 1e-6 pp. */
+const p6 = (x: number) => Number((x * 100).toFixed(6));
 
 function subcellLabel(design: Design, i: number): string {
   const s = design.subcells[i];
@@ -109,19 +134,21 @@ function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome, domain: Col
     y_subcell: m.pair.yCell + 1,
     x_ev: Array.from(mm.x),
     y_ev: Array.from(mm.y),
-    efficiency: Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN(mm.values[iy * nx + ix]) ? null : r8(mm.values[iy * nx + ix])))),
-    layout: 'efficiency[iy][ix] is the value at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
+    efficiency_percent: Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN(mm.values[iy * nx + ix]) ? null : p6(mm.values[iy * nx + ix])))),
+    layout: 'efficiency_percent[iy][ix] is the value at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
     profile_subcells: m.profiled.map((c) => c + 1),
-    optimum: { x_ev: r6(m.optimum.x), y_ev: r6(m.optimum.y), efficiency: r8(m.optimum.value) },
-    map_maximum: { x_ev: mm.best.x, y_ev: mm.best.y, efficiency: r8(mm.best.value) },
-    tolerance_threshold: r8(m.threshold),
+    optimum: { x_ev: r6(m.optimum.x), y_ev: r6(m.optimum.y), efficiency_percent: p6(m.optimum.value) },
+    map_maximum: { x_ev: mm.best.x, y_ev: mm.best.y, efficiency_percent: p6(mm.best.value) },
+    tolerance_threshold_percent: p6(m.threshold),
+    colour_range_percent: { low: r6(domain.lo), high: r6(domain.hi), below_low: 'drawn in the under-range grey' },
     current_matching_ma_cm2: m.matching ? Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN((m.matching as Float64Array)[iy * nx + ix]) ? null : r6((m.matching as Float64Array)[iy * nx + ix] / 10)))) : null,
     current_matching_convention: m.matching ? 'J_gen of the upper mapped subcell minus J_gen of the lower [mA/cm²]; the locus is where it is zero' : null,
     marks: m.marks.map((k) => ({ axis: k.axis, subcell: k.subcell + 1, kind: k.kind, lo_ev: r6(k.loEv), hi_ev: r6(k.hiEv), label: k.label })),
     step_ev: m.stepEv,
     caution: CAUTION,
   };
-  return { chart: { name: id, svg, csv: mapToCsv(mm, m.profiled), json }, grid, id, gridId };
+  const meta = figureMeta(data, o.wiring.key, { gaps: 'eV', efficiency_percent: '%', current_matching_ma_cm2: 'mA/cm²' });
+  return { chart: { name: id, svg, csv: mapToCsv(mm, m.profiled), json, meta }, grid, id, gridId };
 }
 
 function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv: Chart; sensitivity: Chart } {
@@ -130,8 +157,8 @@ function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv
   const slug = o.wiring.slug;
   const ref = d.reference;
   const gaps = o.search.result.best.gapsEv;
-  const optics = stackOptics({ ...o.bestSpec, tempK: ref.tempK }, ref.spectrum);
-  const jgen = Array.from(optics.jgenAm2);
+  // The engine's own evaluation at the optimum (reference spectrum, its cell temperature) carries each subcell's J_gen.
+  const jgen = o.detail.subcells.map((c) => c.jgenAm2);
   const sd = spectrumChartData({ spectrum: ref.spectrum, gapsEv: gaps });
   const spectrum: Chart = {
     name: `spectrum-${slug}`,
@@ -142,7 +169,7 @@ function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv
       spectrum: ref.spectrum.name,
       sha256: ref.spectrum.sha256,
       gaps_ev: gaps.map(r6),
-      band_edges_nm: gaps.map((g) => r6(1239.841984 / g)),
+      band_edges_nm: gaps.map((g) => r6(HC_EV_NM / g)),
       jgen_ma_cm2: jgen.map((j) => r6(j / 10)),
       subcell_convention: 'subcell 0 means not absorbed by any subcell (step absorbers)',
       wavelength_nm: sd.wavelengthNm,
@@ -150,6 +177,7 @@ function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv
       subcell: sd.subcell,
       caution: CAUTION,
     },
+    meta: figureMeta(data, o.wiring.key, { wavelength_nm: 'nm', irradiance_w_m2_nm: 'W m⁻² nm⁻¹', jgen_ma_cm2: 'mA/cm²' }),
   };
   const jvRows: string[] = ['curve,voltage_v,current_ma_cm2'];
   const curves = o.jv.stack ? [...o.jv.subcells, o.jv.stack] : o.jv.subcells;
@@ -166,10 +194,17 @@ function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv
       spectrum: ref.spectrum.name,
       caution: CAUTION,
     },
+    meta: figureMeta(data, o.wiring.key, { voltage_v: 'V', current_ma_cm2: 'mA/cm²' }),
   };
   const res = o.search.result;
-  const sensRows = ['subcell,delta_ev,gap_ev,efficiency'];
-  for (const s of o.sensitivity) s.deltaEv.forEach((dl, k) => sensRows.push(`${s.subcell + 1},${dl},${r6(s.gapEv + dl)},${s.efficiency[k] === null ? '' : r8(s.efficiency[k] as number)}`));
+  const sensRows = ['subcell,delta_ev,gap_ev,efficiency_percent,inside_window'];
+  for (const s of o.sensitivity) {
+    s.deltaEv.forEach((dl, k) => {
+      const g = r6(s.gapEv + dl);
+      const inside = s.windowEv ? String(g >= s.windowEv[0] - 1e-9 && g <= s.windowEv[1] + 1e-9) : '';
+      sensRows.push(`${s.subcell + 1},${dl},${g},${s.efficiency[k] === null ? '' : p6(s.efficiency[k] as number)},${inside}`);
+    });
+  }
   const sensitivity: Chart = {
     name: `sensitivity-${slug}`,
     svg: sensitivityChartSvg({ id: `sensitivity-${slug}`, slices: o.sensitivity, labels, best: res.best.value, threshold: res.tolerance.threshold, loss: d.loss, objective: o.search.objective.label }),
@@ -177,18 +212,26 @@ function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv
     json: {
       wiring: o.wiring.key,
       objective: o.search.objective.label,
-      best: r8(res.best.value),
-      threshold: r8(res.tolerance.threshold),
-      slices: o.sensitivity.map((s) => ({ subcell: s.subcell + 1, fixed_in_design: s.fixed, gap_ev: r6(s.gapEv), delta_ev: s.deltaEv, efficiency: s.efficiency.map((v) => (v === null ? null : r8(v))) })),
-      convention: 'one gap moved, the others held at the optimum; null where the gaps would not descend',
+      best_percent: p6(res.best.value),
+      threshold_percent: p6(res.tolerance.threshold),
+      slices: o.sensitivity.map((s) => ({
+        subcell: s.subcell + 1,
+        fixed_in_design: s.fixed,
+        gap_ev: r6(s.gapEv),
+        window_ev: s.windowEv ? s.windowEv.map(r6) : null,
+        delta_ev: s.deltaEv,
+        efficiency_percent: s.efficiency.map((v) => (v === null ? null : p6(v))),
+      })),
+      convention: 'one gap moved, the others held at the optimum; null where the gaps would not descend; window_ev is the practical window or allowed range (null when free or fixed)',
       caution: CAUTION,
     },
+    meta: figureMeta(data, o.wiring.key, { delta_ev: 'eV', gap_ev: 'eV', efficiency_percent: '%' }),
   };
   return { spectrum, jv, sensitivity };
 }
 
-const grid2d = (m: { x: Float64Array; y: Float64Array; values: Float64Array }) =>
-  Array.from({ length: m.y.length }, (_, iy) => Array.from({ length: m.x.length }, (_, ix) => (Number.isNaN(m.values[iy * m.x.length + ix]) ? null : r8(m.values[iy * m.x.length + ix]))));
+const grid2dPercent = (m: { x: Float64Array; y: Float64Array; values: Float64Array }) =>
+  Array.from({ length: m.y.length }, (_, iy) => Array.from({ length: m.x.length }, (_, ix) => (Number.isNaN(m.values[iy * m.x.length + ix]) ? null : p6(m.values[iy * m.x.length + ix]))));
 
 function pointJson(p: WiringComparison['referenceOptimal']) {
   return { gaps_ev: p.gapsEv.map(r8), am15g_efficiency: r8(p.referenceEfficiency), yield_efficiency: r8(p.yieldEfficiency) };
@@ -253,8 +296,8 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
   const nx = mm.x.length;
   const profHead = m.profiled.flatMap((k) => [`gap${k + 1}_ev_profile_am15g`, `gap${k + 1}_ev_profile_ensemble`]);
   const rows = [
-    '# gapstack comparison map: detailed-balance efficiency under AM1.5G and yield-weighted efficiency over the ensemble [-] on the same gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
-    [`gap${xCell + 1}_ev`, `gap${yCell + 1}_ev`, ...profHead, 'efficiency_am15g', 'yield_efficiency'].join(','),
+    '# gapstack comparison map: detailed-balance efficiency under AM1.5G and yield-weighted efficiency over the ensemble [%] on the same gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
+    [`gap${xCell + 1}_ev`, `gap${yCell + 1}_ev`, ...profHead, 'efficiency_am15g_percent', 'yield_efficiency_percent'].join(','),
   ];
   for (let iy = 0; iy < mm.y.length; iy++) {
     for (let ix = 0; ix < nx; ix++) {
@@ -263,7 +306,7 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
       const v = mm.values[k];
       if (Number.isNaN(u) && Number.isNaN(v)) continue;
       const prof = m.profiled.flatMap((_, j) => [cm.reference.profileGaps[j][k].toFixed(5), mm.profileGaps[j][k].toFixed(5)]);
-      rows.push([mm.x[ix].toFixed(5), mm.y[iy].toFixed(5), ...prof, Number.isNaN(u) ? '' : u.toFixed(8), Number.isNaN(v) ? '' : v.toFixed(8)].join(','));
+      rows.push([mm.x[ix].toFixed(5), mm.y[iy].toFixed(5), ...prof, Number.isNaN(u) ? '' : (u * 100).toFixed(6), Number.isNaN(v) ? '' : (v * 100).toFixed(6)].join(','));
     }
   }
   const json = {
@@ -272,13 +315,13 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
     y_subcell: yCell + 1,
     x_ev: Array.from(mm.x),
     y_ev: Array.from(mm.y),
-    efficiency_am15g: grid2d(cm.reference),
-    yield_efficiency: grid2d(mm),
+    efficiency_am15g_percent: grid2dPercent(cm.reference),
+    yield_efficiency_percent: grid2dPercent(mm),
     layout: 'value[iy][ix] is at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
     profile_subcells: m.profiled.map((k) => k + 1),
     colour_range_percent: { low: r6(range.lo), high: r6(range.hi) },
-    am15g_tolerance_threshold: r8(cm.referenceThreshold),
-    yield_tolerance_threshold: r8(m.threshold),
+    am15g_tolerance_threshold_percent: p6(cm.referenceThreshold),
+    yield_tolerance_threshold_percent: p6(m.threshold),
     ensemble: c.name,
     reference_spectrum: c.referenceSpectrum.name,
     step_ev: m.stepEv,
@@ -289,10 +332,11 @@ function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparis
     `Left: efficiency under AM1.5G; right: yield-weighted efficiency over ${c.name}; gaps of subcells ${xCell + 1} (x) and ${yCell + 1} (y) on a ${fx(m.stepEv * 1000, 0)} meV grid, ${colourScaleWords(range, c.wirings.length > 1 ? `both panels of every wiring's comparison of this pair (${c.wirings.map((x) => wiringTitle(x.outcome.wiring.key).split(' (')[0].toLowerCase()).join(', ')})` : 'both panels')}. ` +
     `Each panel's filled marker is its own optimum (AM1.5G ${pc(cm.referenceOptimum.value)} at ${fx(cm.referenceOptimum.x, 3)} / ${fx(cm.referenceOptimum.y, 3)} eV; ensemble ${pc(m.optimum.value)} at ${fx(m.optimum.x, 3)} / ${fx(m.optimum.y, 3)} eV), the open ring the other panel's, valued under this panel's light; the optimum moves by ${shift} meV. ` +
     `Dashed white outlines enclose gaps within ${fx(d.loss * 100, 1)} % (relative) of each panel's own best.${m.profiled.length > 0 ? ` Subcells ${m.profiled.map((k) => k + 1).join(', ')} are re-optimised at every point under each light.` : ''}`;
-  return { chart: { name: id, svg, csv: `${rows.join('\n')}\n`, json }, caption, heading: `Subcells ${xCell + 1} and ${yCell + 1}` };
+  const meta = figureMeta(data, w.outcome.wiring.key, { gaps: 'eV', efficiency_am15g_percent: '%', yield_efficiency_percent: '%' });
+  return { chart: { name: id, svg, csv: `${rows.join('\n')}\n`, json, meta }, caption, heading: `Subcells ${xCell + 1} and ${yCell + 1}` };
 }
 
-function apeChart(c: EnsembleComparison): Chart {
+function apeChart(data: ReportData, c: EnsembleComparison): Chart {
   const s = c.summary;
   const h = s.ape.histogram;
   const svg = apeChartSvg({
@@ -327,6 +371,7 @@ function apeChart(c: EnsembleComparison): Chart {
       convention: 'each bin holds the summed weight of the members whose APE over window_nm falls in [low, high); the last bin is closed',
       caution: CAUTION,
     },
+    meta: figureMeta(data, null, { ape_ev: 'eV', weight: s.weightUnit, irradiance_w_m2: 'W/m²', cell_temperature_k: 'K' }),
   };
 }
 
@@ -335,7 +380,7 @@ function comparisonSection(data: ReportData, charts: Chart[]): Record<string, un
   const c = data.comparison;
   if (!c) return null;
   const d = data.design;
-  const ape = apeChart(c);
+  const ape = apeChart(data, c);
   // One colour scale per gap pair over every wiring's two panels.
   const ranges = (c.wirings[0]?.maps ?? []).map((_, j) => compareColourRange(c.wirings.flatMap((w) => (w.maps[j] ? [w.maps[j].reference, w.maps[j].ensemble.map] : []))));
   const twin = threeTerminalTwin(data.outcomes);

@@ -143,11 +143,12 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   return { x, y, xCell, yCell, values, profileGaps, profile: free.length > 0, best };
 }
 
-/** CSV text of a map: one row per pixel, gaps [eV] and efficiency [-]. */
-export function mapToCsv(m: GapMap, freeCells: number[] = []): string {
-  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
+/** CSV text of a map: one row per pixel, gaps [eV] and efficiency [%]; `header` lines (who, what light, which units) go first as # comments. */
+export function mapToCsv(m: GapMap, freeCells: number[] = [], header: string[] = []): string {
+  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency_percent'];
   const lines = [
-    '# gapstack map: detailed-balance efficiency [-] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
+    '# gapstack map: detailed-balance efficiency [%] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
+    ...header.map((h) => `# ${h}`),
     head.join(','),
   ];
   const nx = m.x.length;
@@ -156,7 +157,8 @@ export function mapToCsv(m: GapMap, freeCells: number[] = []): string {
       const v = m.values[iy * nx + ix];
       if (Number.isNaN(v)) continue;
       const extra = m.profileGaps.map((g) => g[iy * nx + ix].toFixed(5));
-      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, v.toFixed(8)].join(','));
+      // Percent to 1e-6 pp: far below any difference worth reading, and stable across platforms.
+      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, (v * 100).toFixed(6)].join(','));
     }
   }
   return `${lines.join('\n')}\n`;
