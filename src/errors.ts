@@ -14,3 +14,80 @@ export class UserError extends Error {
 export function fileError(file: string, line: number | undefined, message: string): UserError {
   return new UserError(line === undefined ? `${file}: ${message}` : `${file}:${line}: ${message}`);
 }
+
+/** A parameter named inside a message, so a shell can call it by its own name. */
+export interface ParameterRef {
+  readonly parameter: string;
+}
+
+/** Message text: plain pieces and parameter references, in reading order. */
+export type MessageParts = readonly (string | ParameterRef)[];
+
+/** A reference to a parameter inside `says` text. */
+export const ref = (parameter: string): ParameterRef => ({ parameter });
+
+/**
+ * Tagged template for messages that name parameters: interpolated
+ * `ref('stepEv')` values stay references, everything else becomes text.
+ * says`${ref('stepEv')} must be positive, got ${x}`
+ */
+export function says(strings: TemplateStringsArray, ...values: unknown[]): MessageParts {
+  const parts: (string | ParameterRef)[] = [];
+  strings.forEach((s, i) => {
+    if (s) parts.push(s);
+    if (i < values.length) {
+      const v = values[i];
+      parts.push(typeof v === 'object' && v !== null && 'parameter' in v ? (v as ParameterRef) : String(v));
+    }
+  });
+  return parts;
+}
+
+/**
+ * A value a library function cannot use. The message names parameters as the
+ * library does (`stepEv must be within 0.0001–0.2 eV, got 0.3`); a shell that
+ * calls them something else (a command-line flag, a design-file field)
+ * rebuilds it with `messageWith`. It is a UserError, so the command line
+ * still exits with code 2.
+ */
+export class ParameterError extends UserError {
+  /** The parameter at fault, as the library names it (e.g. `stepEv`, `fixedEv[1]`). */
+  readonly parameter: string;
+  /** What the parameter accepts, in words. */
+  readonly allowed: string;
+  /** The message with its parameter references still open. */
+  readonly parts: MessageParts;
+
+  constructor(parameter: string, allowed: string, parts: MessageParts) {
+    super(render(parts, (p) => p));
+    this.name = 'ParameterError';
+    this.parameter = parameter;
+    this.allowed = allowed;
+    this.parts = parts;
+  }
+
+  /**
+   * The message with each parameter renamed (`undefined` keeps the library
+   * name); `omitLeading` drops a reference that opens the message when it
+   * approves that parameter, for contexts that already say where the value
+   * came from.
+   */
+  messageWith(rename: (parameter: string) => string | undefined, opts: { omitLeading?: (parameter: string) => boolean } = {}): string {
+    let parts = this.parts;
+    const lead = parts[0];
+    if (opts.omitLeading && parts.length > 1 && typeof lead !== 'string' && opts.omitLeading(lead.parameter)) {
+      const next = parts[1];
+      parts = [typeof next === 'string' ? next.replace(/^\s+/, '') : next, ...parts.slice(2)];
+    }
+    return render(parts, (p) => rename(p) ?? p);
+  }
+}
+
+function render(parts: MessageParts, name: (parameter: string) => string): string {
+  return parts.map((p) => (typeof p === 'string' ? p : name(p.parameter))).join('');
+}
+
+/** A ParameterError located in a file: the message starts with `file:line:` as `fileError`'s do. */
+export function fileParameterError(file: string, line: number | undefined, parameter: string, allowed: string, parts: MessageParts): ParameterError {
+  return new ParameterError(parameter, allowed, [line === undefined ? `${file}: ` : `${file}:${line}: `, ...parts]);
+}

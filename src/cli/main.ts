@@ -5,6 +5,7 @@
 import yargs, { type Argv } from 'yargs';
 import { hideBin } from 'yargs/helpers';
 import { UserError } from '../errors.js';
+import { commandLineMessage } from './parameter-flags.js';
 
 const EXIT_USER = 2;
 const EXIT_INTERNAL = 1;
@@ -23,12 +24,21 @@ function stackOptions<T>(y: Argv<T>) {
     .option('temp', { type: 'string', describe: 'cell temperature [K] (default 300 K, the detailed-balance convention)' })
     .option('ere', { type: 'string', describe: 'external radiative efficiency (0, 1], one value or one per subcell' })
     .option('voc-loss', { type: 'string', describe: 'non-radiative Voc loss [V] instead of --ere, one value or one per subcell' })
-    .option('lc', { type: 'string', describe: 'luminescent coupling: η (one or one per interface), or radiative[:n] (default: isolated)' })
+    .option('lc', { type: 'string', describe: "luminescent coupling: η (one or one per interface), or radiative[:n] (default: isolated; radiative without n uses each upper film's index: --index, else its material's, else 3.5)" })
     .option('top-absorptance', { type: 'string', describe: 'constant absorptance of the top cell above its gap (0, 1], or "best" to thin it optimally' })
     .option('top-thickness', { type: 'string', describe: 'top-cell thickness [nm] with a direct-gap absorption edge' })
     .option('top-alpha0', { type: 'string', describe: 'top-cell α at 1 eV above the gap [cm⁻¹] (default 1.5e5, a typical direct-gap order of magnitude; set your film’s value)' })
     .option('top-urbach', { type: 'string', describe: 'top-cell Urbach energy [eV] (default 0.015)' })
-    .option('top-optics', { type: 'string', describe: 'top-cell light path: single | double | lambertian (default single)' })
+    .option('top-optics', { type: 'string', describe: 'top-cell light path: single (default); double or lambertian only for a single junction (a reflector behind an upper film would pass nothing down)' })
+    .option('thickness', { type: 'string', describe: 'film thickness [nm] per subcell, top first, "-" for an ideal step (e.g. 500,-): direct-gap edge α0·√(E−E_g) with an Urbach tail' })
+    .option('alpha0', { type: 'string', describe: 'α at 1 eV above the gap [cm⁻¹] per film (default 1.5e5; "-" keeps the default)' })
+    .option('urbach', { type: 'string', describe: 'Urbach energy [eV] per film (default 0.015; "-" keeps the default)' })
+    .option('alpha-file', { type: 'string', array: true, describe: 'absorption coefficient table of a film: i=FILE (header e.g. "energy_eV,alpha_cm-1"; repeatable)' })
+    .option('bottom-optics', { type: 'string', describe: 'light path of the bottom film: single (default) | double (rear mirror) | lambertian (index: --index, its material\'s, else 3.5)' })
+    .option('index', { type: 'string', describe: 'refractive index of each subcell\'s film, one or one per subcell, "-" for its material\'s (else 3.5)' })
+    .option('absorptance-file', { type: 'string', array: true, describe: 'measured absorptance of the isolated film: i=FILE (header e.g. "wavelength_nm,absorptance" or "…,absorptance_percent"; repeatable)' })
+    .option('eqe-file', { type: 'string', array: true, describe: 'EQE measured in the stack: i=FILE (header e.g. "wavelength_nm,eqe_percent"); J0 by reciprocity (repeatable)' })
+    .option('rs', { type: 'string', describe: 'series resistance [Ω·cm²], one or one per subcell, top first (default 0): V = V_diode − J·R_s' })
     .option('reflectance', { type: 'string', describe: 'front reflectance [0, 1) (default 0)' })
     .option('interlayer-t', { type: 'string', describe: 'transmittance of each interlayer (0, 1], one value or one per interface (default 1)' });
 }
@@ -154,6 +164,24 @@ async function run(argv: string[]): Promise<void> {
       );
     },
   );
+  cli = command(
+    cli,
+    'sites',
+    'one design question over many weather files, in shards a scheduler can run; merge the shards',
+    (y) =>
+      command(
+        y,
+        'merge <parts..>',
+        'combine the part files of every shard into the file one unsharded run writes (refuses parts of different questions)',
+        (m) =>
+          m
+            .positional('parts', { type: 'string', array: true, describe: 'part files of all shards (all .csv or all .jsonl)' })
+            .option('out', { alias: 'o', type: 'string', describe: 'merged file to write (atomically)', demandOption: true })
+            .option('json', { type: 'boolean', default: false }),
+        async (a) => print((await import('./sites-command.js')).sitesMergeCommand(a as never)),
+      ).demandCommand(1, 'name a sites subcommand; see gapstack sites --help'),
+    async () => {},
+  );
   cli = cli
     .demandCommand(1, 'name a command; see gapstack --help')
     .option('debug', { type: 'boolean', describe: 'print internal details on failure', default: false })
@@ -171,7 +199,7 @@ async function run(argv: string[]): Promise<void> {
     await cli.parseAsync();
   } catch (err) {
     if (err instanceof UserError || (err as Error)?.name === 'YError') {
-      process.stderr.write(`gapstack: ${(err as Error).message.split('\n')[0]}\n`);
+      process.stderr.write(`gapstack: ${commandLineMessage(err as Error)}\n`);
       process.exitCode = EXIT_USER;
       return;
     }

@@ -11,7 +11,7 @@ import { CAUTION, describeCoupling } from '../report/assumptions.js';
 import { round } from './format.js';
 import { startProgress } from './progress.js';
 import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
-import { cellsFromArgs, constraintsFromArgs, spanFromArgs, type ConstraintArgs } from './search-options.js';
+import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 
 export interface MapArgs extends StackArgs, ConstraintArgs, SpectraArgs {
@@ -60,8 +60,9 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   if (!(x0 > 0 && y0 > 0)) throw new UserError('--x and --y must be positive gaps in eV');
   const out = a.out;
   if (out !== undefined && !/\.(csv|json)$/i.test(out)) throw new UserError(`--out must end in .csv or .json, got "${out}"`);
-  const spec = stackFromArgs(Array.from({ length: cells }, (_, i) => 2.5 - 0.3 * i), a);
   const constraints = constraintsFromArgs(a, cells);
+  const spec = stackFromArgs(Array.from({ length: cells }, (_, i) => 2.5 - 0.3 * i), a, familyIndices(constraints));
+  requireMeasuredFixed(spec, constraints);
   const xCell = axes[0] - 1;
   const yCell = axes[1] - 1;
   for (const i of [xCell, yCell]) if (constraints[i].kind !== 'free') throw new UserError(`subcell ${i + 1} is mapped; it cannot also be fixed, ranged or bound`);

@@ -9,7 +9,7 @@ import { am15g } from '../light/sources.js';
 import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '../report/assumptions.js';
 import { eng, fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
-import { cellsFromArgs, constraintsFromArgs, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
+import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
 
@@ -101,8 +101,9 @@ export function optimizeJson(spec: StackSpec, spectra: { label: string; spectrum
 export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const cells = cellsFromArgs(a.cells);
   const placeholder = Array.from({ length: cells }, (_, i) => 2.5 - i * 0.3);
-  const spec = stackFromArgs(placeholder, a);
   const constraints = constraintsFromArgs(a, cells);
+  const spec = stackFromArgs(placeholder, a, familyIndices(constraints));
+  requireMeasuredFixed(spec, constraints);
   const members = await spectraFromArgs(a, spec.tempK);
   const question: DesignSearchRequest = {
     template: spec,

@@ -2,26 +2,8 @@
 import { UserError } from '../errors.js';
 import { getFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
-import { parseNumber, parseRange } from './options.js';
-
-function asList(value: unknown): string[] {
-  if (value === undefined) return [];
-  return (Array.isArray(value) ? value : [value]).flatMap((v) => String(v).split(/\s+/)).filter((v) => v !== '');
-}
-
-/** Parse "i=value" items (1-based subcell from the top). */
-export function parseIndexed(option: string, value: unknown, cells: number): Map<number, string> {
-  const out = new Map<number, string>();
-  for (const item of asList(value)) {
-    const m = /^(\d+)=(.+)$/.exec(item);
-    if (!m) throw new UserError(`--${option} takes "i=value" with i the subcell from the top (1 = top), got "${item}"`);
-    const i = Number(m[1]);
-    if (!(i >= 1 && i <= cells)) throw new UserError(`--${option} ${item}: subcell ${i} does not exist in a ${cells}-subcell stack`);
-    if (out.has(i - 1)) throw new UserError(`--${option} names subcell ${i} twice`);
-    out.set(i - 1, m[2]);
-  }
-  return out;
-}
+import type { StackSpec } from '../stack/model.js';
+import { parseIndexed, parseNumber, parseRange } from './options.js';
 
 export interface ConstraintArgs {
   fix?: unknown;
@@ -86,4 +68,19 @@ export function stepFromArgs(value: unknown): number | undefined {
   const s = parseNumber('step', value);
   if (!(s >= 1e-4 && s <= 0.2)) throw new UserError(`--step must be within 0.0001–0.2 eV, got ${s}`);
   return s;
+}
+
+/** Refractive index of each bound subcell's family [-], undefined where unbound. */
+export function familyIndices(constraints: SubcellConstraint[]): (number | undefined)[] {
+  return constraints.map((c) => (c.kind === 'material' ? c.family.refractiveIndex : undefined));
+}
+
+/** A measured curve fixes its subcell's absorption: a search may not move that gap. */
+export function requireMeasuredFixed(spec: StackSpec, constraints: SubcellConstraint[]): void {
+  spec.subcells.forEach((c, i) => {
+    const k = c.absorptance.kind;
+    if ((k === 'absorptance-table' || k === 'eqe-table') && constraints[i].kind !== 'fixed') {
+      throw new UserError(`subcell ${i + 1} has a measured ${k === 'eqe-table' ? 'EQE' : 'absorptance'}, which does not move with a gap: fix its gap with --fix ${i + 1}=<eV>`);
+    }
+  });
 }

@@ -6,7 +6,7 @@
  * names the field and its line.
  */
 import { dirname, isAbsolute, resolve } from 'node:path';
-import { UserError } from '../errors.js';
+import { ParameterError, UserError } from '../errors.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
@@ -15,6 +15,7 @@ import type { SubcellConstraint } from '../search/design-search.js';
 import type { Coupling, StackSpec, Wiring } from '../stack/model.js';
 import { parseWiring } from '../stack/wiring-text.js';
 import { designError, type DesignSource, type FieldPath } from './source.js';
+import { perInterface, subcellAbsorptance } from './films.js';
 import type { Design, DesignFile, DesignLight, DesignMapPair, DesignSubcell, DesignWiring, LabelledSpectrum, SpectrumEntry, SubcellEntry } from './types.js';
 
 /** Defaults a design file may leave out. */
@@ -32,25 +33,30 @@ export const MAX_MAP_AXIS_POINTS = 401;
 type Located = Pick<DesignSource, 'path' | 'lineOf'>;
 
 /** Re-raise a UserError from a lower layer as one located at a field of the design. */
-/** Command-line flags named in engine messages, and what a design file says instead. */
-const FLAG_FIELDS: Record<string, string> = {
-  '--units': 'spectrum.units',
-  '--suns': 'spectrum.suns',
-  '--irradiance': 'spectrum.irradiance',
-  '--step': 'map.step',
+/** Engine parameters named in engine messages, and what a design file says instead. */
+const PARAMETER_FIELDS: Record<string, string> = {
+  units: 'spectrum.units',
+  suns: 'spectrum.suns',
+  irradianceWm2: 'spectrum.irradiance',
+  stepEv: 'map.step',
 };
 
-/** An engine message reworded for a design file: flags become design fields (`fields` overrides the defaults). */
-function designWording(message: string, fields: Record<string, string> = {}): string {
-  const names = { ...FLAG_FIELDS, ...fields };
-  return message.replace(/^--[a-z-]+ /, '').replace(/--[a-z][a-z-]*/g, (flag) => names[flag] ?? flag);
+/**
+ * An engine message reworded for a design file: parameters become design
+ * fields (`fields` overrides the defaults), and a field that opens the message
+ * is dropped because the location already names it.
+ */
+function designWording(err: UserError, fields: Record<string, string> = {}): string {
+  if (!(err instanceof ParameterError)) return err.message;
+  const names: Record<string, string> = { ...PARAMETER_FIELDS, ...fields };
+  return err.messageWith((p) => names[p], { omitLeading: (p) => p in names });
 }
 
 function at<T>(src: Located, path: FieldPath, fn: () => T, fields?: Record<string, string>): T {
   try {
     return fn();
   } catch (err) {
-    if (err instanceof UserError) throw designError(src, path, designWording(err.message, fields));
+    if (err instanceof UserError) throw designError(src, path, designWording(err, fields));
     throw err;
   }
 }
@@ -71,7 +77,7 @@ async function resolveLight(src: Located, f: DesignFile, tempK: number, spanEv: 
     } catch {
       throw designError(src, ['ensemble'], 'spectral ensembles are not available in this build of gapstack; use spectrum instead');
     }
-    const e = at(src, ['ensemble'], () => mod.loadEnsemble(path, { defaultTempK: tempK }), { '--units': 'a "# units:" line in the ensemble file' });
+    const e = at(src, ['ensemble'], () => mod.loadEnsemble(path, { defaultTempK: tempK }), { units: 'a "# units:" line in the ensemble file' });
     const s = at(src, ['ensemble'], () => mod.ensembleSummary(e, undefined, { lowestGapEv: spanEv[0] }));
     const unit = s.weightUnit === 'hours' ? 'h' : '';
     const summaryLines = [
@@ -119,13 +125,13 @@ export function constraintRangeEv(c: SubcellConstraint, tempK: number, spanEv: [
 
 const KIND_KEYS = ['free', 'range', 'gap', 'material'] as const;
 
-function resolveSubcell(src: Located, e: SubcellEntry, i: number, tempK: number, userFamilies: readonly AbsorberFamily[]): DesignSubcell {
+function resolveSubcell(src: Located, e: SubcellEntry, i: number, n: number, tempK: number, userFamilies: readonly AbsorberFamily[]): DesignSubcell {
   const here: FieldPath = ['subcells', i];
   const kinds = KIND_KEYS.filter((k) => e[k] !== undefined);
   if (kinds.length > 1) throw designError(src, [...here, kinds[1]], `give one of free, range, gap or material, not ${kinds.join(' and ')}`, true);
   if (e.full_range !== undefined && e.material === undefined) throw designError(src, [...here, 'full_range'], 'full_range applies only to a subcell bound to a material', true);
   if (e.ere !== undefined && e.voc_loss !== undefined) throw designError(src, [...here, 'voc_loss'], 'give either ere or voc_loss, not both', true);
-  if (e.absorptance !== undefined && i !== 0) throw designError(src, [...here, 'absorptance'], 'a constant absorptance below 1 is offered for the top cell (subcells[0]) only', true);
+  if (e.absorptance !== undefined && i !== 0) throw designError(src, [...here, 'absorptance'], 'a constant absorptance below 1 (or best) is offered for the top cell (subcells[0]) only', true);
   let constraint: SubcellConstraint = { kind: 'free' };
   if (e.range) {
     const [lo, hi] = e.range;
@@ -139,7 +145,20 @@ function resolveSubcell(src: Located, e: SubcellEntry, i: number, tempK: number,
   }
   const ere = e.voc_loss !== undefined ? ereFromVocLoss(e.voc_loss, tempK) : e.ere ?? 1;
   const labelled = e.label !== undefined;
-  return { index: i + 1, label: e.label ?? `subcell ${i + 1}`, labelled, constraint, ere, vocLossV: e.voc_loss, absorptance: e.absorptance ?? 1 };
+  const refractiveIndex = e.refractive_index ?? (constraint.kind === 'material' ? constraint.family.refractiveIndex : undefined);
+  const model = subcellAbsorptance(src, e, i, n, refractiveIndex);
+  return {
+    index: i + 1,
+    label: e.label ?? `subcell ${i + 1}`,
+    labelled,
+    constraint,
+    ere,
+    vocLossV: e.voc_loss,
+    absorptance: typeof e.absorptance === 'number' ? e.absorptance : 1,
+    model,
+    rsOhmCm2: e.rs_ohm_cm2 ?? 0,
+    ...(refractiveIndex !== undefined ? { refractiveIndex } : {}),
+  };
 }
 
 /** The field that states a subcell's constraint, for messages. */
@@ -174,13 +193,14 @@ function checkFeasible(src: Located, f: DesignFile, cells: DesignSubcell[], temp
   }
 }
 
-function resolveCoupling(src: Located, lc: NonNullable<DesignFile['optics']>['lc'], n: number): Coupling {
-  const path: FieldPath = ['optics', 'lc'];
+function resolveCoupling(src: Located, lc: NonNullable<DesignFile['optics']>['lc'], n: number, path: FieldPath = ['optics', 'lc']): Coupling {
   if (lc === undefined || lc === 'none') return { model: 'none' };
   if (typeof lc === 'string') {
-    const idx = lc.includes(':') ? Number(lc.split(':')[1]) : 3.5;
-    if (!(idx >= 1 && idx <= 10)) throw designError(src, path, `radiative coupling needs a refractive index within 1–10, got ${idx}`);
     if (n < 2) throw designError(src, path, 'luminescent coupling needs at least 2 subcells');
+    // Without an index, each upper film couples with its own (refractive_index, its material's, else 3.5).
+    if (!lc.includes(':')) return { model: 'radiative' };
+    const idx = Number(lc.split(':')[1]);
+    if (!(idx >= 1 && idx <= 10)) throw designError(src, path, `radiative coupling needs a refractive index within 1–10, got ${idx}`);
     return { model: 'radiative', refractiveIndex: idx };
   }
   if (n < 2) throw designError(src, path, 'luminescent coupling needs at least 2 subcells');
@@ -191,8 +211,8 @@ function resolveCoupling(src: Located, lc: NonNullable<DesignFile['optics']>['lc
 
 const WIRING_ALIASES: Record<string, string> = { '2t': 'series', '4t': 'independent' };
 
-function resolveWiring(src: Located, text: string, k: number, n: number): Wiring {
-  return at(src, ['wirings', k], () => parseWiring(WIRING_ALIASES[text] ?? text, n, 'wiring'));
+function resolveWiringAt(src: Located, text: string, path: FieldPath, n: number): Wiring {
+  return at(src, path, () => parseWiring(WIRING_ALIASES[text] ?? text, n, 'wiring'));
 }
 
 function resolvePairs(src: Located, f: DesignFile, cells: DesignSubcell[], tempK: number, span: [number, number]): DesignMapPair[] {
@@ -244,30 +264,44 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
     if (ids.has(fam.id)) throw designError(src, ['materials', k, 'id'], `"${fam.id}" is defined twice`);
     ids.add(fam.id);
   });
-  const cells = f.subcells.map((e, i) => resolveSubcell(src, e, i, tempK, userFamilies));
+  const cells = f.subcells.map((e, i) => resolveSubcell(src, e, i, f.subcells.length, tempK, userFamilies));
   checkFeasible(src, f, cells, tempK, span);
   const n = cells.length;
   const o = f.optics ?? {};
   const reflectance = o.reflectance ?? 0;
-  const it = o.interlayer_transmittance;
-  const interlayer = it === undefined ? Array.from({ length: n - 1 }, () => 1) : typeof it === 'number' ? Array.from({ length: n - 1 }, () => it) : it;
-  if (interlayer.length !== n - 1) throw designError(src, ['optics', 'interlayer_transmittance'], n === 1 ? `a single subcell has no interface; leave it out, got ${interlayer.length} values` : n === 2 ? `takes one value (there is one interface), got ${interlayer.length}` : `takes one value or ${n - 1} (one per interface), got ${interlayer.length}`);
+  const interlayer = perInterface(src, ['optics', 'interlayer_transmittance'], o.interlayer_transmittance, n, 1);
   const coupling = resolveCoupling(src, o.lc, n);
-  const keys = (f.wirings ?? (n === 1 ? ['series'] : [...DESIGN_DEFAULTS.wirings])).map((w) => w.toLowerCase());
+  const entries = (f.wirings ?? (n === 1 ? ['series'] : [...DESIGN_DEFAULTS.wirings])).map((w) => (typeof w === 'string' ? { wiring: w } : w));
+  const bestTop = f.subcells[0]?.absorptance === 'best';
+  if (bestTop && n < 2) throw designError(src, ['subcells', 0, 'absorptance'], 'best thins the top cell of a stack of 2 or more subcells', true);
   const wirings: DesignWiring[] = [];
-  keys.forEach((text, k) => {
-    const wiring = resolveWiring(src, text, k, n);
+  entries.forEach((entry, k) => {
+    const text = entry.wiring.toLowerCase();
+    const wpath: FieldPath = typeof f.wirings?.[k] === 'object' ? ['wirings', k, 'wiring'] : ['wirings', k];
+    const wiring = resolveWiringAt(src, text, wpath, n);
     const key = WIRING_ALIASES[text] ?? text;
-    if (wirings.some((w) => w.key === key)) throw designError(src, ['wirings', k], `"${text}" is listed twice`);
+    if (wirings.some((w) => w.key === key)) throw designError(src, wpath, `"${text}" is listed twice`);
+    // Per-wiring overrides: transparent contacts multiply the interlayer transmittance; own coupling and resistance.
+    const contacts = perInterface(src, ['wirings', k, 'contact_transmittance'], entry.contact_transmittance, n, 1);
+    const rs = entry.rs_ohm_cm2 ?? cells.map((c) => c.rsOhmCm2);
+    if (rs.length !== n) throw designError(src, ['wirings', k, 'rs_ohm_cm2'], `takes one resistance per subcell (${n}), got ${rs.length}`);
+    const series = wiring.kind === 'groups' && wiring.groups.length === 1;
     const template: StackSpec = {
-      subcells: cells.map((c, i) => ({ gapEv: 2.5 - 0.3 * i, ere: c.ere, absorptance: { kind: 'step', value: c.absorptance } })),
+      subcells: cells.map((c, i) => ({
+        gapEv: 2.5 - 0.3 * i,
+        ere: c.ere,
+        absorptance: c.model,
+        ...(rs[i] > 0 ? { rsOhmCm2: rs[i] } : {}),
+        ...(c.refractiveIndex !== undefined ? { refractiveIndex: c.refractiveIndex } : {}),
+      })),
       tempK,
       frontReflectance: reflectance,
-      interlayerTransmittance: [...interlayer],
-      coupling,
+      interlayerTransmittance: interlayer.map((t, i) => t * contacts[i]),
+      coupling: entry.lc !== undefined ? resolveCoupling(src, entry.lc, n, ['wirings', k, 'lc']) : coupling,
       wiring,
     };
-    wirings.push({ key, slug: key.replace(/:/g, '-'), wiring, template });
+    // A thinned top cell helps only a series string (current matching); other wirings keep it fully absorbing.
+    wirings.push({ key, slug: key.replace(/:/g, '-'), wiring, template, freeTopAbsorptance: bestTop && series });
   });
   const { light, spectra } = await resolveLight(src, f, tempK, span);
   const reference = spectra.reduce((best, s) => (s.weight * s.spectrum.pinWm2 > best.weight * best.spectrum.pinWm2 ? s : best), spectra[0]);

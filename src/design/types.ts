@@ -6,7 +6,7 @@ import type { EnsembleSummary } from '../light/ensemble.js';
 import type { Spectrum } from '../light/spectrum.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
-import type { StackSpec, Wiring } from '../stack/model.js';
+import type { AbsorptanceModel, StackSpec, Wiring } from '../stack/model.js';
 
 export interface SpectrumEntry {
   source: string;
@@ -24,7 +24,32 @@ export interface SubcellEntry {
   full_range?: boolean;
   ere?: number;
   voc_loss?: number;
-  absorptance?: number;
+  /** Top cell: a constant absorptance above the gap, or "best" (the search thins it; series wirings). */
+  absorptance?: number | 'best';
+  /** A film: thickness [nm] with a direct edge (alpha0_per_cm, urbach_ev) or an α table (alpha_file). */
+  thickness_nm?: number;
+  alpha0_per_cm?: number;
+  urbach_ev?: number;
+  alpha_file?: string;
+  /** Light path of the film: single (default), double or lambertian (bottom subcell only). */
+  optics?: 'single' | 'double' | 'lambertian';
+  /** Refractive index of the film [-] (default: its material's, else 3.5). */
+  refractive_index?: number;
+  /** Measured absorptance of the isolated film, or EQE measured in the stack (table files). */
+  absorptance_file?: string;
+  eqe_file?: string;
+  /** Series resistance [Ω·cm²]. */
+  rs_ohm_cm2?: number;
+}
+
+/** A wiring with its own optics: what differs from the shared ones (e.g. 4T transparent contacts). */
+export interface WiringEntry {
+  wiring: string;
+  /** Extra transmittance between subcells (transparent contacts), one or one per interface. */
+  contact_transmittance?: number | number[];
+  lc?: 'none' | string | number | number[];
+  /** Series resistance per subcell [Ω·cm²] for this wiring, top first. */
+  rs_ohm_cm2?: number[];
 }
 
 export interface MapPairEntry {
@@ -46,7 +71,7 @@ export interface DesignFile {
     interlayer_transmittance?: number | number[];
     lc?: 'none' | string | number | number[];
   };
-  wirings?: string[];
+  wirings?: (string | WiringEntry)[];
   search?: { span?: [number, number]; step?: number };
   map?: { step?: number; pairs?: MapPairEntry[] };
   tolerance?: { loss?: number };
@@ -83,8 +108,14 @@ export interface DesignSubcell {
   ere: number;
   /** Non-radiative Voc loss as given [V], when the file gave voc_loss. */
   vocLossV?: number;
-  /** Constant absorptance above the gap (top cell only) [-]. */
+  /** Constant absorptance above the gap (top cell only) [-]; 1 when the search chooses it ("best"). */
   absorptance: number;
+  /** The subcell's absorptance model in every template (a film, measured data or a step). */
+  model: AbsorptanceModel;
+  /** Series resistance [Ω·cm²] (0 for none). */
+  rsOhmCm2: number;
+  /** Refractive index of the film, when given or known from the bound family [-]. */
+  refractiveIndex?: number;
 }
 
 export interface DesignWiring {
@@ -95,6 +126,8 @@ export interface DesignWiring {
   wiring: Wiring;
   /** Template stack (placeholder gaps) with this wiring. */
   template: StackSpec;
+  /** The search chooses the top cell's constant absorptance (absorptance: best). */
+  freeTopAbsorptance: boolean;
 }
 
 export interface DesignMapPair {

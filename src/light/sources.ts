@@ -5,7 +5,7 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { DILUTION_ONE_SUN, MAX_CONCENTRATION } from '../physics/constants.js';
-import { UserError } from '../errors.js';
+import { ParameterError, ref, says, UserError } from '../errors.js';
 import { blackbodySpectrum } from './blackbody.js';
 import { scaleSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
 import { readSpectrumFile, spectrumFromText, type TableUnits } from './table-file.js';
@@ -62,27 +62,29 @@ export interface LightOptions {
   units?: TableUnits;
 }
 
-/** Parse `--suns`: a positive number or "max". */
+const SUNS_ALLOWED = `a number from 1e-6 to ${MAX_CONCENTRATION.toFixed(0)} [suns], or "max"`;
+
+/** Read a concentration [suns]: a positive number (1e-6 up to full concentration) or "max". */
 export function parseSuns(value: unknown): number | 'max' | undefined {
   if (value === undefined) return undefined;
   if (value === 'max') return 'max';
   const x = typeof value === 'number' ? value : Number(value);
-  if (!Number.isFinite(x) || !(x > 0)) throw new UserError(`--suns must be a positive number or "max", got "${String(value)}"`);
-  if (x < 1e-6) throw new UserError(`--suns ${x} is below 1e-6 suns; the detailed-balance numbers mean little there`);
-  if (x > MAX_CONCENTRATION * (1 + 1e-9)) throw new UserError(`--suns ${x} exceeds full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`);
+  if (!Number.isFinite(x) || !(x > 0)) throw new ParameterError('suns', SUNS_ALLOWED, says`${ref('suns')} must be a positive number or "max", got "${String(value)}"`);
+  if (x < 1e-6) throw new ParameterError('suns', SUNS_ALLOWED, says`${ref('suns')} ${x} is below 1e-6 suns; the detailed-balance numbers mean little there`);
+  if (x > MAX_CONCENTRATION * (1 + 1e-9)) throw new ParameterError('suns', SUNS_ALLOWED, says`${ref('suns')} ${x} exceeds full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`);
   return x;
 }
 
 /**
  * Resolve a spectrum name: "am1.5g", "am1.5d", "am0", "blackbody:<K>" or a file path, then
- * apply concentration (--suns) or a target irradiance. For a blackbody the
+ * apply concentration (`suns`) or a target irradiance. For a blackbody the
  * concentration sets the dilution f = C·(R_sun/D)²; for a table it scales it.
  */
 export function resolveSpectrum(name: string, opts: LightOptions = {}): Spectrum {
-  if (opts.suns !== undefined && opts.irradianceWm2 !== undefined) throw new UserError('give either --suns or --irradiance, not both');
+  if (opts.suns !== undefined && opts.irradianceWm2 !== undefined) throw new ParameterError('irradianceWm2', 'either suns or irradianceWm2, not both', says`give either ${ref('suns')} or ${ref('irradianceWm2')}, not both`);
   const suns = opts.suns === 'max' ? MAX_CONCENTRATION : opts.suns;
   if (opts.irradianceWm2 !== undefined && !(opts.irradianceWm2 > 0 && Number.isFinite(opts.irradianceWm2))) {
-    throw new UserError(`--irradiance must be a positive number of W/m2, got ${opts.irradianceWm2}`);
+    throw new ParameterError('irradianceWm2', 'a positive irradiance [W/m²]', says`${ref('irradianceWm2')} must be a positive number of W/m2, got ${opts.irradianceWm2}`);
   }
   const key = name.trim().toLowerCase();
   let s: Spectrum;

@@ -7,7 +7,7 @@
 import { readFileSync, statSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { HC_EV_NM, HC_J_NM } from '../physics/constants.js';
-import { UserError, fileError } from '../errors.js';
+import { UserError, fileError, fileParameterError, ParameterError, ref, says } from '../errors.js';
 import { makeSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
 
 export type AbscissaUnit = 'nm' | 'um' | 'ev';
@@ -68,12 +68,14 @@ export function ordinateUnitOf(text: string): OrdinateUnit | undefined {
   return (photons ? `photons/m2/s/${perLabel}` : `W/m2/${perLabel}`) as OrdinateUnit;
 }
 
+const UNITS_ALLOWED = `"<abscissa>,<ordinate>" with ${UNIT_HELP}`;
+
 /** Parse a declaration like "nm,W/m2/nm" (abscissa, ordinate). */
 export function parseUnitDeclaration(decl: string): TableUnits {
   const parts = decl.split(',');
   const x = parts.length === 2 ? abscissaUnitOf(parts[0]) : undefined;
   const y = parts.length === 2 ? ordinateUnitOf(parts[1]) : undefined;
-  if (!x || !y) throw new UserError(`--units "${decl}" is not understood: give "<abscissa>,<ordinate>" with ${UNIT_HELP}, e.g. "nm,W/m2/nm"`);
+  if (!x || !y) throw new ParameterError('units', UNITS_ALLOWED, says`${ref('units')} "${decl}" is not understood: give "<abscissa>,<ordinate>" with ${UNIT_HELP}, e.g. "nm,W/m2/nm"`);
   return { x, y };
 }
 
@@ -169,17 +171,17 @@ export function spectrumFromText(file: string, text: string, declared?: TableUni
     const hx = abscissaUnitOf(first.cells[0]);
     const hy = ordinateUnitOf(first.cells[1]);
     if (declared && hx && hy && (hx !== declared.x || hy !== declared.y)) {
-      throw fileError(file, first.line, `header names ${hx}, ${hy} but --units declares ${declared.x}, ${declared.y}; drop --units or fix the header`);
+      throw fileParameterError(file, first.line, 'units', 'units that agree with the header', says`header names ${hx}, ${hy} but ${ref('units')} declares ${declared.x}, ${declared.y}; drop ${ref('units')} or fix the header`);
     }
     if (!declared) {
       const x = abscissaUnitOf(first.cells[0]);
       const y = ordinateUnitOf(first.cells[1]);
-      if (!x) throw fileError(file, first.line, `header column "${first.cells[0]}" names no abscissa unit (nm, um or eV); rename it or declare --units`);
-      if (!y) throw fileError(file, first.line, `header column "${first.cells[1]}" names no clear unit (${UNIT_HELP}); rename it or declare --units`);
+      if (!x) throw fileParameterError(file, first.line, 'units', UNITS_ALLOWED, says`header column "${first.cells[0]}" names no abscissa unit (nm, um or eV); rename it or declare ${ref('units')}`);
+      if (!y) throw fileParameterError(file, first.line, 'units', UNITS_ALLOWED, says`header column "${first.cells[1]}" names no clear unit (${UNIT_HELP}); rename it or declare ${ref('units')}`);
       units = { x, y };
     }
   }
-  if (!units) throw fileError(file, first.line, `no header names the units; add one (e.g. "wavelength_nm,irradiance_W_m2_nm") or declare --units`);
+  if (!units) throw fileParameterError(file, first.line, 'units', UNITS_ALLOWED, says`no header names the units; add one (e.g. "wavelength_nm,irradiance_W_m2_nm") or declare ${ref('units')}`);
   const n = rows.length - start;
   if (n < MIN_SPECTRUM_POINTS) throw fileError(file, undefined, `has ${n} data rows; at least ${MIN_SPECTRUM_POINTS} are needed`);
   const xs = new Float64Array(n);

@@ -83,13 +83,25 @@ function interpolatedSlope(a: BinaryGap, b: BinaryGap, x: number): number {
   return (1 - x) * a.slopeEvPerK(T0) + x * b.slopeEvPerK(T0);
 }
 
-/** AlGaAs Γ gap as a cubic in x_Al: EA + (EB−EA−C0)x + (C0−C1)x² + C1x³. */
-const ALGAAS_COEFFS_EV = [
-  GAAS_EV,
-  ALAS_EV - GAAS_EV - III_V_BOWING_EV.AlGaAsGammaC0,
-  III_V_BOWING_EV.AlGaAsGammaC0 - III_V_BOWING_EV.AlGaAsGammaC1,
-  III_V_BOWING_EV.AlGaAsGammaC1,
-] as const;
+/**
+ * Sn–Pb iodide perovskite: (1−x)E_Pb + x·E_Sn − x(1−x)(b0 + b1·x) with E_Pb = 1.55, E_Sn = 1.35,
+ * b0 = 0.55, b1 = 0.45 eV (see the family's sources), as ascending polynomial coefficients.
+ */
+const SNPB = { ePb: 1.55, eSn: 1.35, b0: 0.55, b1: 0.45 } as const;
+const SNPB_COEFFS_EV = [SNPB.ePb, SNPB.eSn - SNPB.ePb - SNPB.b0, SNPB.b0 - SNPB.b1, SNPB.b1] as const;
+
+/**
+ * AlGaAs room-temperature direct gap E_g = 1.424 + 1.247x for x < 0.45 (Casey & Panish,
+ * Heterostructure Lasers (1978), as tabulated by Adachi, J. Appl. Phys. 58 (1985) R1; from memory).
+ * Chosen over the Γ gap from the Vurgaftman parameters (kept below for the Γ–X crossover), which sits
+ * 0.03–0.04 eV higher at 300 K: the linear fit was made to room-temperature absorption and
+ * photoluminescence data, the design temperature here, whereas the Vurgaftman bowing is a low-
+ * temperature compilation carried to 300 K by Varshni laws.
+ */
+const ALGAAS_RT_COEFFS_EV = [1.424, 1.247] as const;
+/** Upper end of the room-temperature fit: the Γ–X crossover [-]. */
+const ALGAAS_DIRECT_MAX_X = 0.45;
+
 
 // ---------------------------------------------------------------------------
 // The families
@@ -128,10 +140,12 @@ const FAMILIES: readonly AbsorberFamily[] = [
     name: 'Tin–lead iodide perovskite',
     kind: 'alloy',
     variable: { symbol: 'x', meaning: 'Sn fraction of the metal site, x in A(Pb1−xSnx)I3' },
-    model: { form: 'bowing', eaEv: 1.55, ebEv: 1.35, bowingEv: 0.95 },
+    // Composition-dependent bowing b(x) = b0 + b1·x (the form Vurgaftman et al. 2001 use for
+    // AlGaAs) makes the gap a cubic whose minimum is flat and leans to the Sn-rich side.
+    model: { form: 'polynomial', coefficientsEv: SNPB_COEFFS_EV },
     compositionRange: [0, 1],
     window: {
-      gapEv: [1.2, 1.55],
+      gapEv: [1.22, 1.55],
       composition: [0, 0.7],
       reason:
         'Sn-rich films (Sn fraction above about 0.7) oxidise Sn2+ to Sn4+ and self-dope p-type, losing voltage; low-gap bottom cells commonly use 50–60 % Sn (common practice)',
@@ -143,7 +157,7 @@ const FAMILIES: readonly AbsorberFamily[] = [
       gap_model:
         'Hao, Stoumpos, Chang & Kanatzidis, J. Am. Chem. Soc. 136 (2014) 8094: end members MAPbI3 1.55 eV and MASnI3 1.35 eV, mixed compositions below both (anomalous bowing)',
       bowing:
-        'b = 0.95 eV is our choice so the quadratic reaches its minimum of ≈1.20 eV at x ≈ 0.6 Sn, matching the minimum near 1.2 eV at 60–70 % Sn reported for these alloys (minimum recalled from memory, not a fitted value from the paper)',
+        'composition-dependent bowing b(x) = 0.55 + 0.45x eV (the form of Vurgaftman et al., J. Appl. Phys. 89 (2001) 5815, for AlGaAs): our choice, so that the gap has its flat minimum of ≈1.23 eV at ≈67 % Sn and reaches 1.25 eV at ≈52 % Sn, as reported for mixed-cation Sn–Pb films, e.g. 1.25 eV at 60 % Sn (Zhao et al., Nat. Energy 2 (2017) 17018; Tong et al., Science 364 (2019) 475) and ≈1.2 eV at 50 % Sn (Eperon et al., Science 354 (2016) 861) — all points from memory; a single bowing parameter (a quadratic) cannot place both the minimum and the 1.25 eV point',
       window: 'Sn oxidation limit and the 50–60 % Sn practice are common practice',
       dEg_dT: 'positive, like lead iodide perovskite; magnitude +2e-4 eV/K from memory and uncertain',
       refractive_index: 'n ≈ 2.6 near the gap (from memory)',
@@ -178,11 +192,11 @@ const FAMILIES: readonly AbsorberFamily[] = [
     name: 'AlGaAs (direct Γ gap)',
     kind: 'alloy',
     variable: { symbol: 'x', meaning: 'Al fraction of the group-III site, x in AlxGa1−xAs' },
-    // Vurgaftman's composition-dependent bowing makes the Γ gap a cubic in x.
-    model: { form: 'polynomial', coefficientsEv: ALGAAS_COEFFS_EV },
-    compositionRange: [0, 1],
+    // Room-temperature linear fit, valid while the gap is direct (x < 0.45).
+    model: { form: 'polynomial', coefficientsEv: ALGAAS_RT_COEFFS_EV },
+    compositionRange: [0, ALGAAS_DIRECT_MAX_X],
     window: {
-      gapEv: [GAAS_EV, 1.9],
+      gapEv: [ALGAAS_RT_COEFFS_EV[0], 1.9],
       reason:
         'becomes indirect near x ≈ 0.43–0.45 (Γ–X crossover at ≈2.0 eV from the Vurgaftman 2001 parameters), above which the model’s Γ gap is no longer the absorption edge; Al-rich layers oxidise and DX centres appear in n-type material above x ≈ 0.2, so absorbers stay below ≈1.9 eV (DX-centre onset from memory; the 1.9 eV limit is common practice)',
     },
@@ -190,7 +204,9 @@ const FAMILIES: readonly AbsorberFamily[] = [
     refractiveIndex: 3.5,
     citation: VURGAFTMAN,
     sources: {
-      gap_model: `${VURGAFTMAN}: ${III_V_GAMMA.GaAs.source}; ${III_V_GAMMA.AlAs.source}; Γ bowing C = −0.127 + 1.310x eV; evaluated at 300 K`,
+      gap_model:
+        'E_g = 1.424 + 1.247x eV at 300 K for x < 0.45 (Casey & Panish, Heterostructure Lasers, 1978; Adachi, J. Appl. Phys. 58 (1985) R1; from memory), chosen over the Vurgaftman Γ gap, which lies 0.03–0.04 eV higher at 300 K, because it was fitted to room-temperature data',
+      gamma_gap_not_used: `${VURGAFTMAN}: ${III_V_GAMMA.GaAs.source}; ${III_V_GAMMA.AlAs.source}; Γ bowing C = −0.127 + 1.310x eV`,
       crossover: `${VURGAFTMAN}: ${III_V_X.GaAs.source}; ${III_V_X.AlAs.source}; X bowing 0.055 eV`,
       window: 'crossover from the Vurgaftman parameters; oxidation, DX centres and the 1.9 eV limit are common practice',
       dEg_dT: 'slopes of the Vurgaftman temperature laws at 300 K, interpolated linearly at x = 0.2',

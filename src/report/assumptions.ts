@@ -15,9 +15,12 @@ export const EMISSION_CONVENTION = 'radiative emission through the front surface
 /** The emission convention in force under a coupling model. */
 export function emissionConvention(c: Coupling): string {
   return c.model === 'radiative'
-    ? `radiative emission through the front surface into air (solid angle π) and, from every upper cell, down into the cell below (index n = ${c.refractiveIndex}, n² times the front share)`
+    ? `radiative emission through the front surface into air (solid angle π) and, from every upper cell, down into the cell below (index n = ${indexText(c)}, n² times the front share)`
     : EMISSION_CONVENTION;
 }
+
+/** The radiative-coupling index as stated: one value, or each upper film's own. */
+const indexText = (c: Extract<Coupling, { model: 'radiative' }>): string => (c.refractiveIndex !== undefined ? String(c.refractiveIndex) : "each upper film's own index");
 
 export function describeCoupling(c: Coupling): string {
   switch (c.model) {
@@ -26,7 +29,7 @@ export function describeCoupling(c: Coupling): string {
     case 'empirical':
       return `empirical luminescent coupling η = ${c.eta.join(', ')} per interface (J0 unchanged)`;
     case 'radiative':
-      return `radiative-limit coupling, index n = ${c.refractiveIndex}: downward share n²/(1+n²) of radiative recombination, upper-cell J0 × (1+n²); here ERE is the radiative fraction of recombination`;
+      return `radiative-limit coupling, index n = ${indexText(c)}: downward share n²/(1+n²) of radiative recombination, upper-cell J0 × (1+n²); here ERE is the radiative fraction of recombination`;
   }
 }
 
@@ -38,6 +41,10 @@ export function describeAbsorptance(a: AbsorptanceModel): string {
       return `Beer–Lambert ${a.passes === 2 ? 'double' : 'single'} pass, ${a.thicknessNm} nm`;
     case 'lambertian':
       return `Lambertian trapping (n = ${a.refractiveIndex}), ${a.thicknessNm} nm`;
+    case 'absorptance-table':
+      return `measured absorptance of the isolated film${a.source ? ` (${a.source})` : ''}, ${a.energyEv[0].toFixed(3)}–${a.energyEv[a.energyEv.length - 1].toFixed(3)} eV`;
+    case 'eqe-table':
+      return `EQE measured in the stack${a.source ? ` (${a.source})` : ''}, ${a.energyEv[0].toFixed(3)}–${a.energyEv[a.energyEv.length - 1].toFixed(3)} eV; J0 from the same curve by reciprocity`;
   }
 }
 
@@ -52,5 +59,8 @@ export function assumptionLines(spec: StackSpec, spectrum: Spectrum): string[] {
     `ERE: ${eres.every((e) => e === 1) ? '1 (fully radiative)' : eres.join(', ')}`,
     `optics: ${optics}; front reflectance ${typeof spec.frontReflectance === 'number' ? spec.frontReflectance : 'tabulated'}`,
     `coupling: ${describeCoupling(spec.coupling)}`,
+    ...(spec.subcells.some((c) => (c.rsOhmCm2 ?? 0) > 0)
+      ? [`series resistance: ${spec.subcells.map((c, i) => `${i + 1}: ${c.rsOhmCm2 ?? 0} Ω·cm²`).join('; ')} (V = V_diode − J·R_s)`]
+      : []),
   ];
 }

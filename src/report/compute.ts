@@ -191,6 +191,12 @@ function jvCurves(design: Design, spec: StackSpec, r: StackResult): JvOutcome {
   return { subcells, stack, operating, stackMpp };
 }
 
+/** The template with the top absorptance the search chose (absorptance: best), else unchanged. */
+function withChosenTop(t: StackSpec, top: number | undefined): StackSpec {
+  if (top === undefined) return t;
+  return { ...t, subcells: t.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step', value: top } } : c)) };
+}
+
 /** Run every wiring of a design: search, detail at the optimum, curves and maps; under an ensemble, the AM1.5G comparison. */
 export function computeReport(design: Design): ReportData {
   const searches = design.wirings.map((w, k) => {
@@ -202,6 +208,7 @@ export function computeReport(design: Design): ReportData {
         spanEv: design.spanEv,
         stepEv: design.searchStepEv,
         loss: design.loss,
+        freeTopAbsorptance: w.freeTopAbsorptance,
       });
     } catch (err) {
       if (err instanceof UserError) throw new UserError(`${design.path}: wirings[${k}] (${w.key}): ${err.message}`);
@@ -212,8 +219,9 @@ export function computeReport(design: Design): ReportData {
   const ref = design.reference;
   const outcomes = design.wirings.map((w, k): WiringOutcome => {
     const d = searches[k];
-    const bestSpec = stackAt(w.template, d.result.best.gapsEv);
-    const detail = evaluateStack(stackAt(w.template, d.result.best.gapsEv, ref.tempK), ref.spectrum);
+    const template = withChosenTop(w.template, d.topAbsorptance);
+    const bestSpec = stackAt(template, d.result.best.gapsEv);
+    const detail = evaluateStack(stackAt(template, d.result.best.gapsEv, ref.tempK), ref.spectrum);
     const stackFf = detail.stackVocV !== null && detail.stackJscAm2 !== null && detail.stackVocV > 0 ? detail.pmaxWm2 / (detail.stackVocV * detail.stackJscAm2) : null;
     return {
       wiring: w,
@@ -222,7 +230,7 @@ export function computeReport(design: Design): ReportData {
       detail,
       stackFf,
       sensitivity: sensitivity(design, d, d.result.bounds),
-      jv: jvCurves(design, stackAt(w.template, d.result.best.gapsEv, ref.tempK), detail),
+      jv: jvCurves(design, stackAt(template, d.result.best.gapsEv, ref.tempK), detail),
       maps: design.pairs.map((p) => mapFor(design, w, d, p, optimaAll)),
     };
   });

@@ -3,7 +3,7 @@
  * fixed or maximised over (a profile map). The two-cell step case runs from
  * tables along each axis: one series solve per pixel, nothing else.
  */
-import { UserError } from '../errors.js';
+import { ParameterError, ref, says } from '../errors.js';
 import type { GapObjective } from '../stack/gap-objective.js';
 import { StepObjective } from '../stack/step-objective.js';
 import { nelderMeadMax } from './refine.js';
@@ -40,10 +40,10 @@ export interface GapMap {
 
 /** Uniform axis from lo to hi [eV] by step. */
 export function uniformAxis(lo: number, hi: number, step: number): Float64Array {
-  if (!(step > 0)) throw new UserError(`--step must be a positive number of eV, got ${step}`);
+  if (!(step > 0)) throw new ParameterError('stepEv', 'a positive step [eV]', says`${ref('stepEv')} must be a positive number of eV, got ${step}`);
   const n = Math.floor((hi - lo) / step + 1e-9) + 1;
-  if (n < 2) throw new UserError(`the range ${lo}:${hi} eV holds fewer than two points at step ${step} eV`);
-  if (n > 5001) throw new UserError(`${n} points per axis at step ${step} eV; use a coarser --step (at most 5001 per axis)`);
+  if (n < 2) throw new ParameterError('stepEv', 'a step giving at least two points', says`the range ${lo}:${hi} eV holds fewer than two points at step ${step} eV`);
+  if (n > 5001) throw new ParameterError('stepEv', 'a step giving at most 5001 points per axis', says`${n} points per axis at step ${step} eV; use a coarser ${ref('stepEv')} (at most 5001 per axis)`);
   return Float64Array.from({ length: n }, (_, k) => Number((lo + k * step).toFixed(10)));
 }
 
@@ -51,7 +51,7 @@ export function uniformAxis(lo: number, hi: number, step: number): Float64Array 
 export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   const { x, y, xCell, yCell } = req;
   const n = obj.cells;
-  if (!(xCell >= 0 && yCell > xCell && yCell < n)) throw new UserError(`mapped subcells must be two of 1–${n}, upper first`);
+  if (!(xCell >= 0 && yCell > xCell && yCell < n)) throw new ParameterError('yCell', `two subcell indices 0–${n - 1}, xCell < yCell`, says`mapped subcells must be two of 1–${n}, upper first`);
   const nx = x.length;
   const ny = y.length;
   const values = new Float64Array(nx * ny).fill(NaN);

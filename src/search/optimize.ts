@@ -5,7 +5,7 @@
  * seeds locally to sub-meV, and report the best, the runner-up basins and the
  * tolerance region.
  */
-import { UserError } from '../errors.js';
+import { ParameterError, ref, says } from '../errors.js';
 import { bandEdgeEnergiesEv, gapAxis } from './axis.js';
 import { enumerateGeneric, enumerateStep, type Candidate, type EnumerationResult } from './enumerate.js';
 import { compassMax, nelderMeadMax, type Box } from './refine.js';
@@ -71,26 +71,30 @@ export function defaultStepEv(free: number): number {
 /** Per-subcell bounds [eV] after span, ranges and fixed gaps, checked for feasibility. */
 export function subcellBounds(p: SearchProblem): [number, number][] {
   const [s0, s1] = p.spanEv;
-  if (!(s0 > 0 && s1 > s0)) throw new UserError(`--span must be a positive range low:high in eV, got ${s0}:${s1}`);
+  if (!(s0 > 0 && s1 > s0)) throw new ParameterError('spanEv', 'a positive range [low, high] with low < high [eV]', says`${ref('spanEv')} must be a positive range low:high in eV, got ${s0}:${s1}`);
   const bounds: [number, number][] = [];
   for (let i = 0; i < p.cells; i++) {
     const f = p.fixed[i];
     const r = p.ranges[i];
-    if (f !== undefined && r !== undefined) throw new UserError(`subcell ${i + 1} is both fixed and given a range; choose one`);
+    if (f !== undefined && r !== undefined) throw new ParameterError(`fixedEv[${i}]`, 'a gap or a range per subcell, not both', says`subcell ${i + 1} is both fixed and given a range; choose one`);
     if (f !== undefined) {
-      if (!(f > 0)) throw new UserError(`--fix ${i + 1}=${f}: gap must be positive eV`);
+      if (!(f > 0)) throw new ParameterError(`fixedEv[${i}]`, 'a positive gap [eV]', says`${ref(`fixedEv[${i}]`)}=${f}: gap must be positive eV`);
       bounds.push([f, f]);
     } else if (r) {
       const lo = Math.max(r[0], s0);
       const hi = Math.min(r[1], s1);
-      if (!(hi >= lo)) throw new UserError(`--range ${i + 1}=${r[0]}:${r[1]} lies outside the span ${s0}:${s1} eV`);
+      if (!(hi >= lo)) throw new ParameterError(`rangesEv[${i}]`, `a range overlapping the span ${s0}–${s1} eV`, says`${ref(`rangesEv[${i}]`)}=${r[0]}:${r[1]} lies outside the span ${s0}:${s1} eV`);
       bounds.push([lo, hi]);
     } else bounds.push([s0, s1]);
   }
   // Ordering: each subcell must be able to sit below the one above.
   for (let i = 1; i < p.cells; i++) {
     if (!(bounds[i][0] < bounds[i - 1][1])) {
-      throw new UserError(`subcell ${i + 1} (≥ ${bounds[i][0]} eV) cannot lie below subcell ${i} (≤ ${bounds[i - 1][1]} eV): gaps must descend from the top`);
+      throw new ParameterError(
+        `rangesEv[${i}]`,
+        `gaps below those of subcell ${i} (≤ ${bounds[i - 1][1]} eV)`,
+        says`subcell ${i + 1} (≥ ${bounds[i][0]} eV) cannot lie below subcell ${i} (≤ ${bounds[i - 1][1]} eV): gaps must descend from the top`,
+      );
     }
   }
   return bounds;
@@ -122,14 +126,14 @@ interface PreparedSearch {
 function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[]): PreparedSearch {
   const t0 = performance.now();
   const n = p.cells;
-  if (!(n >= 1 && n <= 6)) throw new UserError(`--cells must be 1 to 6, got ${n}`);
+  if (!(n >= 1 && n <= 6)) throw new ParameterError('cells', '1 to 6', says`${ref('cells')} must be 1 to 6, got ${n}`);
   if (obj.cells !== n) throw new Error('objective and problem disagree on the number of subcells');
-  if (!(p.loss > 0 && p.loss < 0.5)) throw new UserError(`--loss must be a relative loss within (0, 0.5), got ${p.loss}`);
+  if (!(p.loss > 0 && p.loss < 0.5)) throw new ParameterError('loss', 'a relative loss within (0, 0.5)', says`${ref('loss')} must be a relative loss within (0, 0.5), got ${p.loss}`);
   const bounds = subcellBounds(p);
   const freeIdx = bounds.map((b, i) => (b[0] === b[1] ? -1 : i)).filter((i) => i >= 0);
   const fast = obj instanceof StepObjective;
   const step = p.stepEv ?? (fast ? defaultStepEv(freeIdx.length) : Math.max(0.02, defaultStepEv(freeIdx.length) * 2));
-  if (!(step >= 1e-4 && step <= 0.2)) throw new UserError(`--step must be within 0.0001–0.2 eV, got ${step}`);
+  if (!(step >= 1e-4 && step <= 0.2)) throw new ParameterError('stepEv', '0.0001–0.2 [eV]', says`${ref('stepEv')} must be within 0.0001–0.2 eV, got ${step}`);
   const fixedValues = bounds.filter((b) => b[0] === b[1]).map((b) => b[0]);
   const rangeEnds = bounds.flat();
   const lo = Math.min(...bounds.map((b) => b[0]));
@@ -147,7 +151,11 @@ function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: numb
   const combinations = width ** freeIdx.length / factorial(freeIdx.length);
   const limit = fast ? 5e10 : 2e7;
   if (combinations > limit) {
-    throw new UserError(`about ${combinations.toExponential(1)} gap combinations at a ${step * 1000} meV grid step; use a coarser --step (refinement goes below 1 meV anyway) or narrower ranges`);
+    throw new ParameterError(
+      'stepEv',
+      `a step that leaves at most ${limit.toExponential(0)} combinations`,
+      says`about ${combinations.toExponential(1)} gap combinations at a ${step * 1000} meV grid step; use a coarser ${ref('stepEv')} (refinement goes below 1 meV anyway) or narrower ranges`,
+    );
   }
   return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, t0 };
 }
@@ -238,7 +246,7 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
     evaluations++;
     return obj.value(gaps);
   };
-  if (!(en.best.value > 0)) throw new UserError('no stack in the allowed ranges produces power; check --span, --range and --fix');
+  if (!(en.best.value > 0)) throw new ParameterError('spanEv', 'gaps at which some stack produces power', says`no stack in the allowed ranges produces power; check ${ref('spanEv')}, ${ref('rangesEv')} and ${ref('fixedEv')}`);
   evaluations += fast ? en.solved : 0;
 
   // Refine distinct seeds over the free gaps only.

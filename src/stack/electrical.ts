@@ -7,7 +7,9 @@
  * J_ph,i+1 = J_gen,i+1 + η_i·(J_ph,i − J_i), so every photocurrent is affine in
  * the operating currents and u_i = J_ph,i − J_i + J0_i is affine in any one
  * group current. P(J) = J·Σ V_t·ln(u_i/J0_i) is then concave on its domain,
- * and the group maximum is the root of dP/dJ by safeguarded Newton.
+ * and the group maximum is the root of dP/dJ by safeguarded Newton. Series
+ * resistance (docs/PHYSICS.md §11) subtracts J²·ΣR from a group's power, which
+ * keeps P(J) concave, so the same method applies.
  */
 
 import { maximiseScan } from '../numerics/golden.js';
@@ -23,6 +25,8 @@ export interface StackElectrical {
   eta: Float64Array;
   /** Thermal voltage [V]. */
   vt: number;
+  /** Series resistance per subcell [Ω·m²]; absent when no subcell has any. V_i = V_diode,i(J) − J·R_i. */
+  rsOhmM2?: Float64Array;
 }
 
 /** Cascade photocurrents top-down for given operating currents [A/m²]. */
@@ -33,9 +37,9 @@ export function cascadePhotocurrents(el: StackElectrical, currents: Float64Array
 }
 
 /**
- * Maximise f(J) = J·Σ_{in} V_t ln(u_i/J0_i) + Σ_{out} J_i·V_t ln(u_i/J0_i) over J ≥ 0
+ * Maximise f(J) = J·Σ_{in} V_t ln(u_i/J0_i) − J²·Σ_{in} R_i + Σ_{out} J_i·V_t ln(u_i/J0_i) over J ≥ 0
  * where u_i = c_i + d_i·J. `inGroup[i]` marks the cells that carry J; `fixedJ[i]`
- * is the current of the others. Returns the maximising J [A/m²].
+ * is the current of the others; `rs` the series resistances [Ω·m²]. Returns the maximising J [A/m²].
  */
 export function maximiseGroupCurrent(
   c: Float64Array,
@@ -45,7 +49,10 @@ export function maximiseGroupCurrent(
   fixedJ: Float64Array,
   n: number,
   vt: number,
+  rs?: Float64Array,
 ): number {
+  let rIn = 0;
+  if (rs) for (let i = 0; i < n; i++) if (inGroup[i]) rIn += rs[i];
   let jMax = Infinity;
   for (let i = 0; i < n; i++) if (d[i] < 0) jMax = Math.min(jMax, -c[i] / d[i]);
   if (!(jMax > 0) || !Number.isFinite(jMax)) return 0;
@@ -63,7 +70,7 @@ export function maximiseGroupCurrent(
         if (second) s2 -= fixedJ[i] * r * r;
       }
     }
-    return second ? vt * s2 : vt * s;
+    return second ? vt * s2 - 2 * rIn : vt * s - 2 * j * rIn;
   };
   if (slope(0, false) <= 0) return 0;
   // Newton in y = ln(J_max − J), where the log barrier at J_max becomes an
@@ -108,7 +115,7 @@ function finish(el: StackElectrical, currents: Float64Array, jph: Float64Array):
   const voltages = new Float64Array(n);
   let p = 0;
   for (let i = 0; i < n; i++) {
-    voltages[i] = cellVoltage(jph[i], currents[i], el.j0Am2[i], el.vt);
+    voltages[i] = cellVoltage(jph[i], currents[i], el.j0Am2[i], el.vt) - currents[i] * (el.rsOhmM2?.[i] ?? 0);
     p += voltages[i] * currents[i];
   }
   return { currentsAm2: currents, voltagesV: voltages, jphAm2: jph, powerWm2: p };
@@ -142,7 +149,7 @@ export function operateGroups(el: StackElectrical, groups: number[][]): Operatio
         inGroup[i] = 0;
       }
       for (const i of g) inGroup[i] = 1;
-      const j = maximiseGroupCurrent(c, d, el.j0Am2, inGroup, currents, n, el.vt);
+      const j = maximiseGroupCurrent(c, d, el.j0Am2, inGroup, currents, n, el.vt, el.rsOhmM2);
       for (const i of g) currents[i] = j;
       change = Math.max(change, Math.abs(j - old) / Math.max(j, 1e-30));
     }
@@ -159,10 +166,13 @@ export function operateGroups(el: StackElectrical, groups: number[][]): Operatio
  * limiting cell has w = q·δ exactly; V(δ) = Σ V_t ln(w_i/J0_i + 1) rises with δ.
  * Bisection on z = ln(δ − δ_min) keeps the voltages accurate even when a cell
  * sits near short circuit (w ≪ J_ph), where V recomputed from J would not be.
+ * Series resistance adds −J·ΣR = (δ − J_max)·ΣR, which also rises with δ.
  * Writes the group's current into `currents`, its voltages into `voltages`.
  */
 function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: number, currents: Float64Array, jph: Float64Array, voltages: Float64Array, warm?: { z?: number }): number {
-  if (group.length === 1) {
+  const rs = el.rsOhmM2;
+  const rSum = rs ? group.reduce((a, i) => a + rs[i], 0) : 0;
+  if (group.length === 1 && rSum === 0) {
     // One cell: its photocurrent depends only on the cells above, so J(V) is the diode law itself.
     const i = group[0];
     cascadePhotocurrents(el, currents, jph);
@@ -205,11 +215,14 @@ function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: n
   // cell that sets δ_min: no cancellation, however close to its limit a cell is driven.
   const c = new Float64Array(m);
   group.forEach((i, k) => (c[k] = k === dLim ? 0 : Math.max(0, r[k] + el.j0Am2[i] + q[k] * dMin)));
+  // Group current at z: J = J_max − δ = (J_max − δ_min) − e^z.
+  const jBase = jMax - dMin;
   const volts = (z: number, out?: Float64Array): number => {
     const e = Math.exp(z);
+    const j = jBase - e;
     let v = 0;
     group.forEach((i, k) => {
-      const vi = el.vt * Math.log((c[k] + q[k] * e) / el.j0Am2[i]);
+      const vi = el.vt * Math.log((c[k] + q[k] * e) / el.j0Am2[i]) - (rs ? j * rs[i] : 0);
       v += vi;
       if (out) out[i] = vi;
     });
@@ -232,6 +245,8 @@ function operateGroupAtVoltage(el: StackElectrical, group: number[], voltageV: n
       v += el.vt * Math.log(w / el.j0Am2[i]);
       dv += (el.vt * q[k] * e) / w;
     });
+    v -= (jBase - e) * rSum;
+    dv += e * rSum;
     if (!(v >= voltageV)) zLo = z;
     else zHi = z;
     // Converged once the voltage matches to rounding (V ~ volts, so 1e-13 V is a few ulps).
@@ -293,4 +308,17 @@ export function seriesTerminals(el: StackElectrical, group: number[]): { vocV: n
   for (const i of group) voc += cellVoltage(jph[i], 0, el.j0Am2[i], el.vt);
   const jsc = operateGroupAtVoltage(el, group, 0, currents, jph, new Float64Array(n));
   return { vocV: voc, jscAm2: jsc };
+}
+
+
+/**
+ * One subcell alone at its photocurrent with a series resistance: maximum power [W/m²],
+ * its voltage [V] and current [A/m²], from the concave P(J) = J·(V_t ln((J_ph − J + J0)/J0) − J·R).
+ */
+export function maxPowerPointWithRs(jphAm2: number, j0Am2: number, vt: number, rsOhmM2: number): { pmaxWm2: number; vmpV: number; jmpAm2: number } {
+  const c = Float64Array.of(jphAm2 + j0Am2);
+  const d = Float64Array.of(-1);
+  const j = maximiseGroupCurrent(c, d, Float64Array.of(j0Am2), Uint8Array.of(1), Float64Array.of(0), 1, vt, Float64Array.of(rsOhmM2));
+  const v = cellVoltage(jphAm2, j, j0Am2, vt) - j * rsOhmM2;
+  return { pmaxWm2: j * v, vmpV: v, jmpAm2: j };
 }

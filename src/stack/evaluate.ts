@@ -8,9 +8,9 @@ import { BOLTZMANN_EV_K, thermalVoltageV } from '../physics/constants.js';
 import { j0WithEreAm2 } from '../junction/radiative.js';
 import type { Spectrum } from '../light/spectrum.js';
 import { maxPowerPoint, vocV } from '../junction/diode.js';
-import type { StackSpec } from './model.js';
+import { couplingIndexBelow, type StackSpec } from './model.js';
 import { stackOptics } from './optics.js';
-import { operateGroups, operateVoltageMatched, seriesTerminals, type StackElectrical } from './electrical.js';
+import { maxPowerPointWithRs, operateGroups, operateVoltageMatched, seriesTerminals, type StackElectrical } from './electrical.js';
 
 export interface SubcellResult {
   gapEv: number;
@@ -43,6 +43,15 @@ export interface StackResult {
   stackJscAm2: number | null;
 }
 
+/** A measured curve: at least two points, energies strictly ascending, values within [0, 1]. */
+function validateMeasured(what: string, energyEv: number[], value: number[]): void {
+  if (energyEv.length < 2 || energyEv.length !== value.length) throw new UserError(`${what} needs at least two (energy, value) points`);
+  for (let k = 0; k < energyEv.length; k++) {
+    if (!Number.isFinite(energyEv[k]) || (k > 0 && !(energyEv[k] > energyEv[k - 1]))) throw new UserError(`${what}: energies must be finite and strictly ascending (point ${k + 1})`);
+    if (!(value[k] >= 0 && value[k] <= 1)) throw new UserError(`${what}: values must be within [0, 1] (fractions, not percent), got ${value[k]} at point ${k + 1}`);
+  }
+}
+
 /** Reject stacks that the physics cannot describe, naming the faulty part. */
 export function validateStack(spec: StackSpec): void {
   const n = spec.subcells.length;
@@ -55,7 +64,20 @@ export function validateStack(spec: StackSpec): void {
     if (!(c.ere > 0 && c.ere <= 1)) throw new UserError(`${name}: ERE must be within (0, 1], got ${c.ere}`);
     const a = c.absorptance;
     if (a.kind === 'step' && !(a.value > 0 && a.value <= 1)) throw new UserError(`${name}: absorptance must be within (0, 1], got ${a.value}`);
+    const rs = c.rsOhmCm2 ?? 0;
+    if (!(rs >= 0 && rs <= 1000)) throw new UserError(`${name}: series resistance must be within 0–1000 Ω·cm², got ${rs}`);
+    if (c.refractiveIndex !== undefined && !(c.refractiveIndex >= 1 && c.refractiveIndex <= 10)) throw new UserError(`${name}: refractive index must be within 1–10, got ${c.refractiveIndex}`);
+    if (a.kind === 'absorptance-table' || a.kind === 'eqe-table') {
+      validateMeasured(`${name}: measured ${a.kind === 'eqe-table' ? 'EQE' : 'absorptance'}${a.source ? ` (${a.source})` : ''}`, a.energyEv, a.value);
+      return;
+    }
     if (a.kind !== 'step' && !(a.thicknessNm > 0)) throw new UserError(`${name}: thickness must be positive nm, got ${a.thicknessNm}`);
+    if (i < n - 1 && ((a.kind === 'beer-lambert' && a.passes === 2) || a.kind === 'lambertian')) {
+      // docs/PHYSICS.md §11: a rear mirror or Lambertian trapping puts a reflector behind the film,
+      // so nothing it fails to absorb could reach the cells below.
+      const what = a.kind === 'lambertian' ? 'Lambertian trapping' : 'a rear mirror (double pass)';
+      throw new UserError(`${name}: ${what} puts a reflector behind the film, so no light would reach the cells below; only the bottom subcell (${n}) may have it, upper films are single pass`);
+    }
     if (a.kind !== 'step' && a.alpha.kind === 'direct' && !(a.alpha.urbachEv < BOLTZMANN_EV_K * spec.tempK)) {
       throw new UserError(`${name}: Urbach energy ${a.alpha.urbachEv} eV is not below kT (${(BOLTZMANN_EV_K * spec.tempK).toFixed(4)} eV at ${spec.tempK} K); the radiative J0 of such a tail has no detailed-balance limit`);
     }
@@ -76,7 +98,7 @@ export function validateStack(spec: StackSpec): void {
       if (!(e >= 0 && e <= 1)) throw new UserError(`luminescent coupling efficiency must be within [0, 1], got ${e}`);
     });
   }
-  if (c.model === 'radiative' && !(c.refractiveIndex >= 1 && c.refractiveIndex <= 10)) {
+  if (c.model === 'radiative' && c.refractiveIndex !== undefined && !(c.refractiveIndex >= 1 && c.refractiveIndex <= 10)) {
     throw new UserError(`refractive index for radiative coupling must be within 1–10, got ${c.refractiveIndex}`);
   }
   const seen = new Set<number>();
@@ -127,14 +149,16 @@ export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Flo
     // emits into the cell below (index n), raising its J0 by 1 + n²; n²/(1+n²) of its
     // radiative recombination (ERE of the total) goes down.
     if (c.model === 'radiative' && i < n - 1) {
-      const n2 = c.refractiveIndex ** 2;
+      const n2 = couplingIndexBelow(spec, i) ** 2;
       factor = 1 + n2;
       eta[i] = (ere * n2) / (1 + n2);
     }
     if (c.model === 'empirical' && i < n - 1) eta[i] = c.eta[i];
     j0[i] = j0WithEreAm2(j0Rad[i] * factor, ere);
   }
-  return { jgenAm2: jgen, j0Am2: j0, eta, vt: thermalVoltageV(spec.tempK) };
+  // Ω·cm² → Ω·m² (engine currents are A/m²).
+  const rs = Float64Array.from(spec.subcells, (c) => (c.rsOhmCm2 ?? 0) * 1e-4);
+  return { jgenAm2: jgen, j0Am2: j0, eta, vt: thermalVoltageV(spec.tempK), ...(rs.some((r) => r > 0) ? { rsOhmM2: rs } : {}) };
 }
 
 /** Full evaluation of a stack under a spectrum. */
@@ -146,7 +170,8 @@ export function evaluateStack(spec: StackSpec, spectrum: Spectrum): StackResult 
   const op = w.kind === 'voltage-matched' ? operateVoltageMatched(el, w.groups[0], w.groups[1], w.m, w.n) : operateGroups(el, w.groups);
   const subcells: SubcellResult[] = spec.subcells.map((c, i) => {
     const jph = op.jphAm2[i];
-    const mpp = maxPowerPoint(jph, el.j0Am2[i], el.vt);
+    const rs = el.rsOhmM2?.[i] ?? 0;
+    const mpp = rs > 0 ? maxPowerPointWithRs(jph, el.j0Am2[i], el.vt, rs) : maxPowerPoint(jph, el.j0Am2[i], el.vt);
     const voc = vocV(jph, el.j0Am2[i], el.vt);
     return {
       gapEv: c.gapEv,

@@ -40,7 +40,32 @@ export type AbsorptanceModel =
       refractiveIndex: number;
       thicknessNm: number;
       alpha: AlphaModel;
+    }
+  | {
+      /**
+       * Measured absorptance a(E) of the isolated film [-], linear interpolation; 0 below the
+       * first energy, the last value held above the last. Filtered by the cells above like any film.
+       */
+      kind: 'absorptance-table';
+      energyEv: number[];
+      value: number[];
+      /** Where the data came from (file name), for reports. */
+      source?: string;
+    }
+  | {
+      /**
+       * External quantum efficiency measured in the stack [-]: front reflection and the cells
+       * above are already in it, so it gives J_gen = q∫φ_0·EQE dE and, by reciprocity
+       * (Rau, Phys. Rev. B 76 (2007) 085303), J0_rad = q∫EQE·φ_bb dE. Interpolation as above.
+       */
+      kind: 'eqe-table';
+      energyEv: number[];
+      value: number[];
+      source?: string;
     };
+
+/** Refractive index of a film when neither its family nor the user gives one [-] (crystalline Si near its gap, common practice). */
+export const DEFAULT_FILM_INDEX = 3.5;
 
 /** A constant or a table over photon energy [eV]; linear interpolation, end values held. */
 export type SpectralValue = number | { energyEv: number[]; value: number[] };
@@ -51,6 +76,10 @@ export interface SubcellSpec {
   /** External radiative efficiency (0, 1]. */
   ere: number;
   absorptance: AbsorptanceModel;
+  /** Series resistance of this subcell [Ω·cm²]; absent or 0 for none. */
+  rsOhmCm2?: number;
+  /** Refractive index of the film [-] (its family's, or given); radiative coupling below it uses it. Absent: DEFAULT_FILM_INDEX. */
+  refractiveIndex?: number;
 }
 
 /** Luminescent coupling between neighbouring subcells. */
@@ -65,8 +94,19 @@ export type Coupling =
   | {
       /** Radiative limit: downward share n²/(1+n²) of the radiative part (ERE) of recombination; upper cells' J0 × (1+n²). */
       model: 'radiative';
-      refractiveIndex: number;
+      /** One index for every interface [-]; absent: each upper subcell's own film index. */
+      refractiveIndex?: number;
     };
+
+/** Index n [-] of radiative coupling below subcell i (0-based): the coupling's own, else the emitting film's. */
+export function couplingIndexBelow(spec: StackSpec, i: number): number {
+  const c = spec.coupling;
+  if (c.model === 'radiative' && c.refractiveIndex !== undefined) return c.refractiveIndex;
+  return spec.subcells[i].refractiveIndex ?? DEFAULT_FILM_INDEX;
+}
+
+/** True when some subcell has a series resistance. */
+export const hasSeriesResistance = (spec: StackSpec): boolean => spec.subcells.some((c) => (c.rsOhmCm2 ?? 0) > 0);
 
 /** Wiring: a partition of the subcells (0-based, top first) into series groups, or voltage-matched strings. */
 export type Wiring =

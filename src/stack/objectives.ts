@@ -4,7 +4,7 @@
  * optics, coupling or wiring) with the gaps substituted into a template.
  * Both score a weighted set of spectra as Σ w·P_max / Σ w·P_in.
  */
-import type { StackSpec } from './model.js';
+import { hasSeriesResistance, type StackSpec } from './model.js';
 import { evaluateStack } from './evaluate.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import type { GapObjective } from './gap-objective.js';
@@ -50,6 +50,7 @@ export function stepObjectiveApplies(t: StackSpec): boolean {
   return (
     (series || independent) &&
     t.coupling.model === 'none' &&
+    !hasSeriesResistance(t) &&
     t.frontReflectance === 0 &&
     t.interlayerTransmittance.every((x) => x === 1) &&
     t.subcells.every((c, i) => c.absorptance.kind === 'step' && (i === 0 || c.absorptance.value === 1))

@@ -86,6 +86,29 @@ export function absorptanceAt(model: AbsorptanceModel, gapEv: number, energyEv: 
       const x = 4 * model.refractiveIndex ** 2 * alphaPerCm(model.alpha, gapEv, energyEv) * model.thicknessNm * 1e-7;
       return x / (1 + x);
     }
+    case 'absorptance-table':
+    case 'eqe-table':
+      return measuredAt(model.energyEv, model.value, energyEv);
+  }
+}
+
+/** A measured curve [-] at an energy [eV]: 0 below its first energy, linear inside, last value held above. */
+function measuredAt(energyEv: number[], value: number[], e: number): number {
+  if (e < energyEv[0]) return 0;
+  return interpolateClamped(energyEv, value, e);
+}
+
+/** Lowest photon energy [eV] at which a subcell can absorb (its gap, its Urbach cut, or its table's start). */
+export function absorptionOnsetEv(model: AbsorptanceModel, gapEv: number): number {
+  switch (model.kind) {
+    case 'step':
+      return gapEv;
+    case 'absorptance-table':
+    case 'eqe-table':
+      return model.energyEv[0];
+    default:
+      if (model.alpha.kind === 'table') return model.alpha.energyEv[0];
+      return model.alpha.urbachEv > 0 ? gapEv - URBACH_TAIL_DEPTH_EV : gapEv;
   }
 }
 
@@ -133,8 +156,8 @@ export const BIN_STEP_EV = 0.002;
 export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
   const cells = spec.subcells;
   const n = cells.length;
-  const minGap = Math.min(...cells.map((c) => c.gapEv));
-  const lo = Math.max(0.05, minGap - URBACH_TAIL_DEPTH_EV - 0.1);
+  const minOnset = Math.min(...cells.map((c) => Math.min(c.gapEv - URBACH_TAIL_DEPTH_EV, absorptionOnsetEv(c.absorptance, c.gapEv))));
+  const lo = Math.max(0.05, minOnset - 0.1);
   const hi = Math.max(4.6, Math.max(...cells.map((c) => c.gapEv)) + 0.5);
   const edges: number[] = [];
   for (let e = lo; e < hi; e += BIN_STEP_EV) edges.push(e);
@@ -146,14 +169,24 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
   const t = spec.tempK;
   const addBin = (eMid: number, photons: number, kernel: number) => {
     const front = 1 - spectralValueAt(spec.frontReflectance, eMid);
-    let flux = photons * front;
+    // Share of the incident photons of this bin that reach the current cell [-].
+    let reach = front;
     for (let i = 0; i < n; i++) {
-      const a = absorptanceAt(cells[i].absorptance, cells[i].gapEv, eMid);
-      jgen[i] += flux * a;
-      // Reciprocity: the cell's own a(E) and the front surface's (1 − R) set its emission.
-      j0[i] += kernel * a * front;
-      flux *= 1 - a;
-      if (i < n - 1) flux *= spectralValueAt(spec.interlayerTransmittance[i], eMid);
+      const model = cells[i].absorptance;
+      let a = absorptanceAt(model, cells[i].gapEv, eMid);
+      if (model.kind === 'eqe-table') {
+        // Measured in the stack: the EQE already holds (1 − R) and the cells above (§11); reciprocity
+        // gives J0 from the same curve. It absorbed EQE/reach of what reached it, and passes the rest.
+        jgen[i] += photons * a;
+        j0[i] += kernel * a;
+        a = reach > 0 ? Math.min(1, a / reach) : 1;
+      } else {
+        jgen[i] += photons * reach * a;
+        // Reciprocity: the cell's own a(E) and the front surface's (1 − R) set its emission.
+        j0[i] += kernel * a * front;
+      }
+      reach *= 1 - a;
+      if (i < n - 1) reach *= spectralValueAt(spec.interlayerTransmittance[i], eMid);
     }
   };
   let nPrev = photonsAboveEv(spectrum, edges[0]);

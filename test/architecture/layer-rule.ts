@@ -13,7 +13,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { dirname, join, posix, relative, sep } from 'node:path';
 import ts from 'typescript';
 
-const BASE = ['errors', 'physics', 'numerics'];
+const BASE = ['errors', 'physics', 'numerics', 'io'];
 const LIGHT = [...BASE, 'light'];
 const JUNCTION = [...LIGHT, 'junction'];
 const STACK = [...JUNCTION, 'stack'];
@@ -25,8 +25,10 @@ const REPORT = [...DESIGN, 'report'];
  * Layer → the layers it may import, bottom first. Read upward:
  * physics/numerics ← light ← junction ← stack ← search ← design ← report ← cli,
  * with materials beside the engine chain (it needs only the base) and usable
- * from search upward; io is a base utility only the shells use; bench sits
- * beside cli over the engine; index is the public library surface.
+ * from search upward; io (safe reading and atomic writing of files) is a base
+ * utility every layer may use; sites (batches over many weather files) sits
+ * over the report; bench sits beside cli over the engine and sites; index is the public
+ * library surface.
  */
 export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   errors: [],
@@ -40,9 +42,10 @@ export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   search: STACK.concat('materials'),
   design: SEARCH,
   report: DESIGN,
-  cli: [...REPORT, 'io'],
-  bench: SEARCH,
-  index: [...REPORT, 'io'],
+  sites: REPORT,
+  cli: [...REPORT, 'sites'],
+  bench: [...SEARCH, 'sites'],
+  index: [...REPORT, 'sites'],
 };
 
 export interface SourceFile {
@@ -171,3 +174,35 @@ export function importCycles(files: readonly SourceFile[]): string[] {
 
 /** The repository's src/ directory. */
 export const SRC_DIR = join(dirname(new URL(import.meta.url).pathname), '..', '..', 'src');
+
+/**
+ * Packages a module loads when it is imported, following only imports that
+ * run at load time (static `import`/`export … from`, not `import('…')` and not
+ * `import type`), through the given files.
+ */
+export function packagesLoadedBy(files: readonly SourceFile[], entry: string): Set<string> {
+  const byPath = new Map(files.map((f) => [f.path, f]));
+  const seen = new Set<string>();
+  const packages = new Set<string>();
+  const visit = (path: string) => {
+    if (seen.has(path)) return;
+    seen.add(path);
+    const f = byPath.get(path);
+    if (!f) return;
+    const sf = ts.createSourceFile(path, f.text, ts.ScriptTarget.ES2022, false, ts.ScriptKind.TS);
+    for (const st of sf.statements) {
+      let spec: string | undefined;
+      if (ts.isImportDeclaration(st) && !st.importClause?.isTypeOnly) spec = (st.moduleSpecifier as ts.StringLiteral).text;
+      if (ts.isExportDeclaration(st) && !st.isTypeOnly && st.moduleSpecifier) spec = (st.moduleSpecifier as ts.StringLiteral).text;
+      if (spec === undefined) continue;
+      if (!spec.startsWith('.')) {
+        packages.add(spec);
+        continue;
+      }
+      const target = posix.normalize(posix.join(posix.dirname(path), spec)).replace(/\.js$/, '.ts');
+      visit(byPath.has(target) ? target : `${target}/index.ts`);
+    }
+  };
+  visit(entry);
+  return packages;
+}

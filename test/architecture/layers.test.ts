@@ -4,7 +4,7 @@
  * the checker on small invented file sets, so a silent checker cannot pass.
  */
 import { describe, expect, it } from 'vitest';
-import { importCycles, importEdges, layerOf, layerViolations, MAY_IMPORT, readSources, SRC_DIR, type SourceFile } from './layer-rule.js';
+import { importCycles, importEdges, layerOf, layerViolations, MAY_IMPORT, packagesLoadedBy, readSources, SRC_DIR, type SourceFile } from './layer-rule.js';
 
 describe('the layer rule of src/', () => {
   const files = readSources(SRC_DIR);
@@ -17,6 +17,18 @@ describe('the layer rule of src/', () => {
 
   it('has no import cycle between files', () => {
     expect(importCycles(files)).toEqual([]);
+  });
+
+  it('loads no heavy package when the library or the command line is imported (they load where used)', () => {
+    // DEVELOPERS.md conventions: templating, charts, matrices and browsers load dynamically.
+    const heavy = /^(d3-node|mathjs|ml-matrix|playwright|playwright-core|jsdom|@resvg\/resvg-js|handlebars)$/;
+    for (const entry of ['index.ts', 'cli/main.ts']) {
+      const loaded = [...packagesLoadedBy(files, entry)];
+      expect(loaded.length, entry).toBeGreaterThan(0);
+      expect(loaded.filter((p) => heavy.test(p)), entry).toEqual([]);
+    }
+    // The check sees through to a heavy import when one is there.
+    expect([...packagesLoadedBy(files, 'report/build.ts')]).toContain('handlebars');
   });
 
   it('is a partial order: no layer may import a layer that may import it', () => {
@@ -49,7 +61,7 @@ describe('the checker', () => {
     ];
     const v = layerViolations(files);
     expect(v).toHaveLength(4);
-    expect(v[0]).toBe('src/light/a.ts imports src/search/b.ts: light/ may not import search/ (light/ may import errors, physics, numerics)');
+    expect(v[0]).toBe('src/light/a.ts imports src/search/b.ts: light/ may not import search/ (light/ may import errors, physics, numerics, io)');
     expect(v.join('\n')).toContain('src/light/c.ts imports src/stack/model.ts');
     expect(v.join('\n')).toContain('src/junction/d.ts imports src/report/e.ts');
     expect(v.join('\n')).toContain('src/stack/f.ts imports src/cli/main.ts');

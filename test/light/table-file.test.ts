@@ -59,7 +59,9 @@ describe('unit recognition', () => {
   test('an ordinate without a per-unit is refused, not guessed', () => {
     expect(ordinateUnitOf('irradiance')).toBeUndefined();
     expect(ordinateUnitOf('W/m2')).toBeUndefined();
-    expect(() => parseUnitDeclaration('nm')).toThrow(/--units/);
+    // The library names its parameter (`units`), never a command-line flag; the command line renames it to --units.
+    expect(() => parseUnitDeclaration('nm')).toThrow(/^units "nm" is not understood/);
+    expect(() => parseUnitDeclaration('nm')).toThrow(expect.objectContaining({ name: 'ParameterError', parameter: 'units' }));
   });
 });
 

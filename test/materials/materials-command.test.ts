@@ -32,7 +32,7 @@ describe('materials command, JSON', () => {
     const snpb = out.families.find((f) => f['id'] === 'perovskite-sn-pb')!;
     expect(snpb['kind']).toBe('alloy');
     expect(snpb['composition_window']).toEqual([0, 0.7]);
-    expect((snpb['range'] as number[])[0]).toBeCloseTo(1.2, 2);
+    expect((snpb['range'] as number[])[0]).toBeCloseTo(1.227, 2);
     const si = out.families.find((f) => f['id'] === 'si')!;
     expect(si['variable']).toBeNull();
     expect(si['range']).toEqual([1.12, 1.12]);

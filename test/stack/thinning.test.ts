@@ -80,12 +80,13 @@ describe('the best top absorptance (independent reference: test/fixtures/referen
   });
 });
 
-describe('thinning by thickness: a Beer–Lambert top film (double pass, α0 = 1e5 cm⁻¹) on a 1.12 eV step bottom', () => {
-  function etaFilm(thicknessNm: number): number {
+describe('thinning by thickness: a single-pass Beer–Lambert top film (α0 = 1e5 cm⁻¹) on a 1.12 eV step bottom', () => {
+  function stackFilm(thicknessNm: number, passes: 1 | 2 = 1) {
     const s = idealStack([1.55, 1.12], seriesWiring(2));
-    s.subcells[0].absorptance = { kind: 'beer-lambert', passes: 2, thicknessNm, alpha: { kind: 'direct', alpha0PerCm: 1e5, urbachEv: 0 } };
-    return evaluateStack(s, spectrum).efficiency;
+    s.subcells[0].absorptance = { kind: 'beer-lambert', passes, thicknessNm, alpha: { kind: 'direct', alpha0PerCm: 1e5, urbachEv: 0 } };
+    return s;
   }
+  const etaFilm = (thicknessNm: number) => evaluateStack(stackFilm(thicknessNm), spectrum).efficiency;
   test('a thick film reproduces the fully absorbing 2T value (docs/PHYSICS.md §4: 32.54 %), a film of optimal thickness beats it by > 5 % abs', () => {
     expect(Math.abs(etaFilm(1e5) - 0.3254)).toBeLessThan(2e-4);
     const best = goldenMax((lnD) => etaFilm(Math.exp(lnD)), Math.log(30), Math.log(3000));
@@ -96,5 +97,31 @@ describe('thinning by thickness: a Beer–Lambert top film (double pass, α0 = 1
     expect(etaFilm(dBest * 2)).toBeLessThan(best.f);
     expect(dBest).toBeGreaterThan(30);
     expect(dBest).toBeLessThan(3000);
+  });
+
+  test('the film passes down exactly what it does not absorb (docs/PHYSICS.md §11: single pass, a = 1 − exp(−αd) above a lower cell)', () => {
+    // Photon conservation above the top gap: J_top + J_bottom(from the top band) = J of a fully absorbing top.
+    const thin = evaluateStack(stackFilm(150), spectrum).subcells;
+    const full = evaluateStack(idealStack([1.55, 1.12], seriesWiring(2)), spectrum).subcells;
+    expect(Math.abs(thin[0].jgenAm2 + thin[1].jgenAm2 - (full[0].jgenAm2 + full[1].jgenAm2)) / full[0].jgenAm2).toBeLessThan(1e-9);
+  });
+
+  test('a rear mirror or Lambertian trapping behind the top film is refused (docs/PHYSICS.md §11: only the bottom subcell has a reflector behind it)', () => {
+    expect(() => evaluateStack(stackFilm(200, 2), spectrum)).toThrow(/subcell 1: a rear mirror \(double pass\).*only the bottom subcell \(2\)/);
+    const lamb = idealStack([1.55, 1.12], seriesWiring(2));
+    lamb.subcells[0].absorptance = { kind: 'lambertian', refractiveIndex: 2.5, thicknessNm: 200, alpha: { kind: 'direct', alpha0PerCm: 1e5, urbachEv: 0 } };
+    expect(() => evaluateStack(lamb, spectrum)).toThrow(/subcell 1: Lambertian trapping/);
+  });
+
+  test('on the bottom subcell a rear mirror through d equals a single pass through 2d (docs/PHYSICS.md §3: a = 1 − exp(−2αd))', () => {
+    const bottom = (passes: 1 | 2, d: number) => {
+      const s = idealStack([1.7, 1.12], seriesWiring(2));
+      s.subcells[1].absorptance = { kind: 'beer-lambert', passes, thicknessNm: d, alpha: { kind: 'direct', alpha0PerCm: 2e3, urbachEv: 0 } };
+      return evaluateStack(s, spectrum);
+    };
+    const mirror = bottom(2, 5000);
+    const single = bottom(1, 10000);
+    expect(Math.abs(mirror.efficiency - single.efficiency)).toBeLessThan(1e-12);
+    expect(mirror.subcells[1].jgenAm2).toBeLessThan(evaluateStack(idealStack([1.7, 1.12], seriesWiring(2)), spectrum).subcells[1].jgenAm2);
   });
 });

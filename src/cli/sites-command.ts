@@ -1,0 +1,101 @@
+/**
+ * `gapstack sites`: one design question answered at many weather files, this
+ * task's shard of them, into part files; `gapstack sites merge` combines the
+ * parts of all shards.
+ */
+import { loadDesign } from '../design/index.js';
+import { UserError } from '../errors.js';
+import { CAUTION } from '../report/assumptions.js';
+import { mergeParts } from '../sites/merge.js';
+import { siteQuestion, type SiteLightSource } from '../sites/question.js';
+import { listWeatherFiles, runSites, type SitesRunSummary } from '../sites/run.js';
+import { resolveShard, shardLabel, type ShardSource } from '../sites/shard.js';
+import { toolVersion } from '../io/version.js';
+import { startProgress } from './progress.js';
+
+export interface SitesArgs {
+  design: string;
+  weather: string[];
+  out: string;
+  shard?: string;
+  shardCount?: string;
+  json?: boolean;
+}
+
+export interface SitesMergeArgs {
+  parts: string[];
+  out: string;
+  json?: boolean;
+}
+
+const SOURCE_WORDS: Record<ShardSource, string> = {
+  option: 'from --shard',
+  slurm: 'from the Slurm job array',
+  kubernetes: 'from the Kubernetes indexed Job',
+  none: 'the whole batch',
+};
+
+function shardCountOf(text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  if (!/^\d+$/.test(text.trim())) throw new UserError(`--shard-count must be a whole number, got "${text}"`);
+  return Number(text);
+}
+
+/** Text or JSON describing a finished shard run. */
+export function describeRun(s: SitesRunSummary, source: ShardSource, json: boolean): string {
+  if (json) {
+    return JSON.stringify(
+      {
+        shard: shardLabel(s.shard),
+        shard_source: source,
+        sites_total: s.sitesTotal,
+        shard_sites: s.shardSites,
+        resumed: s.resumed,
+        computed: s.computed,
+        duplicates: s.duplicates,
+        csv: s.csvPath,
+        jsonl: s.jsonlPath,
+        caution: CAUTION,
+      },
+      null,
+      2,
+    );
+  }
+  return [
+    `shard ${shardLabel(s.shard)} (${SOURCE_WORDS[source]}): ${s.shardSites} of ${s.sitesTotal} sites; ${s.resumed} already done, ${s.computed} computed now`,
+    `rows: ${s.csvPath} and ${s.jsonlPath}`,
+    ...(s.duplicates.length > 0 ? [`skipped as identical to another file: ${s.duplicates.join(', ')}`] : []),
+    ...(s.shard.count > 1 ? ['when every shard has finished: gapstack sites merge <all part files> --out <file>'] : []),
+    CAUTION,
+  ].join('\n');
+}
+
+/** Run this task's shard; `lightOf` turns a weather file into the site's light. */
+export async function sitesCommand(a: SitesArgs, lightOf: SiteLightSource, lightOptions: Record<string, string | number | boolean | null> = {}): Promise<string> {
+  if (a.weather.length === 0) throw new UserError('name the weather files or folders of the sites');
+  const { shard, source } = resolveShard({ option: a.shard, shardCount: shardCountOf(a.shardCount) });
+  const design = await loadDesign(a.design);
+  const files = listWeatherFiles(a.weather);
+  const bar = a.json ? null : await startProgress(`sites ${shardLabel(shard)}`);
+  let summary: SitesRunSummary;
+  try {
+    summary = await runSites({
+      files,
+      outDir: a.out,
+      shard,
+      question: siteQuestion(design, lightOf, lightOptions),
+      version: toolVersion(),
+      onProgress: bar ? (done, total) => bar.update(total === 0 ? 1 : done / total) : undefined,
+    });
+  } finally {
+    bar?.stop();
+  }
+  return describeRun(summary, source, Boolean(a.json));
+}
+
+/** Merge the parts of every shard into one file, byte-identical to an unsharded run's part. */
+export function sitesMergeCommand(a: SitesMergeArgs): string {
+  const m = mergeParts(a.parts, a.out);
+  if (a.json) return JSON.stringify({ out: m.out, parts: m.parts, sites: m.sites }, null, 2);
+  return `merged ${m.parts} part${m.parts === 1 ? '' : 's'}, ${m.sites} sites → ${m.out}`;
+}
