@@ -197,8 +197,22 @@ function withChosenTop(t: StackSpec, top: number | undefined): StackSpec {
   return { ...t, subcells: t.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step', value: top } } : c)) };
 }
 
-/** Run every wiring of a design: search, detail at the optimum, curves and maps; under an ensemble, the AM1.5G comparison. */
-export function computeReport(design: Design): ReportData {
+/** Part of a design to compute, for one figure: one wiring (index into design.wirings), some map pairs, with or without the AM1.5G comparison. */
+export interface ReportSelection {
+  wiring: number;
+  /** Indices into design.pairs. */
+  pairs: number[];
+  comparison: boolean;
+}
+
+/**
+ * Run every wiring of a design: search, detail at the optimum, curves and
+ * maps; under an ensemble, the AM1.5G comparison. With a selection, every
+ * wiring is still searched (default map axes span all wirings' optima, so a
+ * figure matches the report's) but only the selected wiring gets its curves
+ * and the selected maps.
+ */
+export function computeReport(design: Design, only?: ReportSelection): ReportData {
   const searches = design.wirings.map((w, k) => {
     try {
       return runDesignSearch({
@@ -217,7 +231,10 @@ export function computeReport(design: Design): ReportData {
   });
   const optimaAll = searches.map((d) => d.result.best.gapsEv);
   const ref = design.reference;
-  const outcomes = design.wirings.map((w, k): WiringOutcome => {
+  const chosen = only ? [only.wiring] : design.wirings.map((_, k) => k);
+  const pairs = only ? design.pairs.filter((_, j) => only.pairs.includes(j)) : design.pairs;
+  const outcomes = chosen.map((k): WiringOutcome => {
+    const w = design.wirings[k];
     const d = searches[k];
     const template = withChosenTop(w.template, d.topAbsorptance);
     const bestSpec = stackAt(template, d.result.best.gapsEv);
@@ -231,10 +248,10 @@ export function computeReport(design: Design): ReportData {
       stackFf,
       sensitivity: sensitivity(design, d, d.result.bounds),
       jv: jvCurves(design, stackAt(template, d.result.best.gapsEv, ref.tempK), detail),
-      maps: design.pairs.map((p) => mapFor(design, w, d, p, optimaAll)),
+      maps: pairs.map((p) => mapFor(design, w, d, p, optimaAll)),
     };
   });
-  return { design, outcomes, comparison: compareWithReference(design, outcomes) };
+  return { design, outcomes, comparison: only && !only.comparison ? null : compareWithReference(design, outcomes) };
 }
 
 /** Wavelength [nm] of a photon energy [eV]. */

@@ -5,7 +5,7 @@
  */
 import { existsSync } from 'node:fs';
 import { Resvg, type ResvgRenderOptions } from '@resvg/resvg-js';
-import type { Chart, FigureMeta } from './build.js';
+import type { Chart, FigureMeta } from './figure-data.js';
 
 /** PNG pixels per SVG user unit. */
 export const PNG_SCALE = 2;
@@ -27,6 +27,12 @@ export function standaloneSvg(svg: string): string {
 /** Rasterise an SVG to PNG bytes at PNG_SCALE. */
 export function svgToPng(svg: string): Uint8Array {
   const r = new Resvg(svg, { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font: fontOptions(), logLevel: 'off' });
+  return r.render().asPng();
+}
+
+/** Rasterise an SVG to PNG bytes `widthPx` wide on `background`. */
+export function svgToPngWidth(svg: string, widthPx: number, background = '#ffffff'): Uint8Array {
+  const r = new Resvg(svg, { fitTo: { mode: 'width', value: Math.round(widthPx) }, background, font: fontOptions(), logLevel: 'off' });
   return r.render().asPng();
 }
 

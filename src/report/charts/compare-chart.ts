@@ -89,7 +89,8 @@ function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, 
     { x: othX, y: othY, r: 9 },
   ]);
   const opt = optimumGroup(g, id, p.optimum);
-  drawOptimumLabel(opt, board, optX, optY, `${num(p.optimum.value * 100, 2)} % at ${num(p.optimum.x, 3)} / ${num(p.optimum.y, 3)} eV`);
+  const eff = `${num(p.optimum.value * 100, 2)} %`;
+  drawOptimumLabel(opt, board, optX, optY, [`${eff} at ${num(p.optimum.x, 3)} / ${num(p.optimum.y, 3)} eV`, `${eff}, ${num(p.optimum.x, 3)}/${num(p.optimum.y, 3)}`, eff]);
   drawMapLayers(plot, pl, {
     id,
     defs: g,

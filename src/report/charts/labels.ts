@@ -124,6 +124,18 @@ export class LabelBoard {
   }
 
   /**
+   * The first of `variants` (longest, most informative first) that fits at
+   * any candidate; a variant after the first keeps the first as its full text.
+   */
+  placeVariant(cands: Candidate[], variants: string[], style: TextStyle): Placed | null {
+    for (let k = 0; k < variants.length; k++) {
+      const p = this.place(cands, variants[k], style);
+      if (p) return k === 0 ? p : { ...p, full: variants[0] };
+    }
+    return null;
+  }
+
+  /**
    * The whole text at the first candidate that takes it; failing that, the
    * longest cut (down to `minChars` characters) that fits anywhere, with the
    * full text kept for a tooltip.

@@ -102,7 +102,9 @@ export function mapChartSvg(inp: MapChartInput): string {
       // Markers first, then the optimum's label, then the map maximum's: every later label keeps clear of them.
       const board = mapBoard(p, [{ x: optX, y: optY, r: 9 }, ...(showMax ? [{ x: bx, y: by, r: 7 }] : [])]);
       const opt = optimumGroup(g, inp.id, o.optimum);
-      drawOptimumLabel(opt, board, optX, optY, `optimum ${num(o.optimum.value * 100, 2)} % (${num(o.optimum.x, 3)} / ${num(o.optimum.y, 3)} eV)`);
+      const eff = `${num(o.optimum.value * 100, 2)} %`;
+      const gapsText = `${num(o.optimum.x, 3)} / ${num(o.optimum.y, 3)} eV`;
+      drawOptimumLabel(opt, board, optX, optY, [`optimum ${eff} (${gapsText})`, `${eff} (${gapsText})`, `${eff}, ${num(o.optimum.x, 3)}/${num(o.optimum.y, 3)}`, `optimum ${eff}`, eff]);
       const maxLabel = showMax ? board.placeOrShorten(besideCandidates(bx, by, 10), `map max ${num(m.best.value * 100, 2)} %`, { size: 10 }, 8) : null;
       drawMapLayers(plot, p, {
         id: inp.id,

@@ -472,9 +472,15 @@ export function besideCandidates(x: number, y: number, size: number): Candidate[
   ];
 }
 
-/** The optimum's bold label beside its marker, through the board (cut, with the full text as tooltip, when crowded). */
-export function drawOptimumLabel(opt: Sel, board: LabelBoard, x: number, y: number, text: string): void {
-  const t = board.placeOrShorten(besideCandidates(x, y, OPTIMUM_TEXT.size), text, OPTIMUM_TEXT, 10);
+/**
+ * The optimum's bold label beside its marker, through the board: the first
+ * of `variants` (full text first, then shorter forms that still say the
+ * numbers) that fits; as a last resort the full text cut, with it as tooltip.
+ */
+export function drawOptimumLabel(opt: Sel, board: LabelBoard, x: number, y: number, variants: string[]): void {
+  const text = variants[0];
+  const cands = besideCandidates(x, y, OPTIMUM_TEXT.size);
+  const t = board.placeVariant(cands, variants, OPTIMUM_TEXT) ?? board.placeOrShorten(cands, text, OPTIMUM_TEXT, 10);
   if (!t) {
     opt.append('title').text(svgText(text));
     return;
