@@ -12,7 +12,7 @@ import { toolVersion } from './version.js';
 import { computeReport, type ReportData } from './compute.js';
 import { compareColourRange } from './charts/compare-chart.js';
 import { sharedColourDomain } from './charts/map-layers.js';
-import { apeChart, colourScaleWords, compareChart, detailCharts, mapChart, r6, r8, wiringComparisonJson, type Chart } from './figure-data.js';
+import { apeChart, colourScaleWords, compareChart, detailCharts, figureMeta, mapChart, r6, r8, wiringComparisonJson, type Chart } from './figure-data.js';
 import {
   answerRows,
   assumptionList,
@@ -205,5 +205,7 @@ export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
     provenance: provenanceList(design, version),
     generated,
   });
-  return { html, charts, summary: summaryJson(data, version, generated), data };
+  // Every figure file carries a metadata block, also from sections that did not set their own.
+  const withMeta = charts.map((c) => (c.meta ? c : { ...c, meta: figureMeta(data, null, { see: 'the column names and the JSON fields' }) }));
+  return { html, charts: withMeta, summary: summaryJson(data, version, generated), data };
 }

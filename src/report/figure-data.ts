@@ -26,8 +26,12 @@ export interface Chart {
   svg: string;
   csv: string;
   json: Record<string, unknown>;
-  /** What the data files say about themselves (figureFiles puts it first in the CSV and JSON). */
-  meta: FigureMeta;
+  /**
+   * What the data files say about themselves (figureFiles puts it first in
+   * the CSV and JSON). A section that leaves it out gets the report-wide
+   * block (no wiring) from buildReport.
+   */
+  meta?: FigureMeta;
 }
 
 /** The header of every figure data file: tool, wiring, light with its SHA-256, temperature, units, caution. */

@@ -59,14 +59,14 @@ export function csvMetaLines(m: FigureMeta): string[] {
   ];
 }
 
-/** A chart's CSV with its metadata block first. */
+/** A chart's CSV with its metadata block first (buildReport fills in every chart's block). */
 export function figureCsv(c: Chart): string {
-  return `${csvMetaLines(c.meta).join('\n')}\n${c.csv}`;
+  return c.meta ? `${csvMetaLines(c.meta).join('\n')}\n${c.csv}` : c.csv;
 }
 
 /** A chart's JSON with its metadata block first. */
 export function figureJson(c: Chart): string {
-  return `${JSON.stringify({ meta: c.meta, ...c.json }, null, 2)}\n`;
+  return `${JSON.stringify(c.meta ? { meta: c.meta, ...c.json } : c.json, null, 2)}\n`;
 }
 
 /** Every file of a figures folder for these charts, plus the summary. */
