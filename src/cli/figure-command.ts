@@ -121,7 +121,7 @@ export async function figureCommand(a: FigureArgs): Promise<string> {
   }
   return [
     `Wrote ${output}: ${fig.chart.name}, ${fig.widthMm.toFixed(1)} × ${fig.heightMm.toFixed(1)} mm, text ${fig.fontPt.toFixed(1)} pt, ${ink}${format === 'png' ? `, ${dpi} dpi` : ''}.`,
-    ...(range ? [`Colour scale ${range}${colourRange ? ' (as given)' : " (this figure's own range; pass --colour-range low:high to share one scale with other figures)"}.`] : []),
+    ...(range ? [`Colour scale ${range}${colourRange ? ' (as given)' : " (the report's scale for this pair, shared by every wiring's map; --colour-range low:high sets another)"}.`] : []),
     CAUTION,
   ].join('\n');
 }

@@ -197,9 +197,9 @@ function withChosenTop(t: StackSpec, top: number | undefined): StackSpec {
   return { ...t, subcells: t.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step', value: top } } : c)) };
 }
 
-/** Part of a design to compute, for one figure: one wiring (index into design.wirings), some map pairs, with or without the AM1.5G comparison. */
+/** Part of a design to compute, for one figure: some wirings (indices into design.wirings), some map pairs, with or without the AM1.5G comparison. */
 export interface ReportSelection {
-  wiring: number;
+  wirings: number[];
   /** Indices into design.pairs. */
   pairs: number[];
   comparison: boolean;
@@ -209,7 +209,7 @@ export interface ReportSelection {
  * Run every wiring of a design: search, detail at the optimum, curves and
  * maps; under an ensemble, the AM1.5G comparison. With a selection, every
  * wiring is still searched (default map axes span all wirings' optima, so a
- * figure matches the report's) but only the selected wiring gets its curves
+ * figure matches the report's) but only the selected wirings get their curves
  * and the selected maps.
  */
 export function computeReport(design: Design, only?: ReportSelection): ReportData {
@@ -231,7 +231,7 @@ export function computeReport(design: Design, only?: ReportSelection): ReportDat
   });
   const optimaAll = searches.map((d) => d.result.best.gapsEv);
   const ref = design.reference;
-  const chosen = only ? [only.wiring] : design.wirings.map((_, k) => k);
+  const chosen = only ? only.wirings : design.wirings.map((_, k) => k);
   const pairs = only ? design.pairs.filter((_, j) => only.pairs.includes(j)) : design.pairs;
   const outcomes = chosen.map((k): WiringOutcome => {
     const w = design.wirings[k];

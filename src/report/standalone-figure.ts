@@ -40,7 +40,7 @@ export interface FigureRequest {
   heightMm?: number;
   fontPt: number;
   ink: Ink;
-  /** Fixed colour range [%] for maps and comparisons, to share one scale across separate figures. */
+  /** Fixed colour range [%] for maps and comparisons; by default the report's (one scale over every wiring's map of the pair). */
   colourRange?: ColourDomain;
 }
 
@@ -110,8 +110,12 @@ export function standaloneFigure(design: Design, req: FigureRequest): Standalone
   const wiring = wiringIndex(design, req.wiring);
   if (req.kind === 'compare' && design.light.kind !== 'ensemble') throw new UserError(`${design.path}: --chart compare needs a design whose light is an ensemble (it sets AM1.5G beside the ensemble)`);
   const pairs = req.kind === 'sensitivity' ? [] : [pairIndex(design, req.pair)];
-  const data = computeReport(design, { wiring, pairs, comparison: req.kind === 'compare' });
-  const o = data.outcomes[0];
+  // Maps and comparisons share the report's colour scale (every wiring's map of the pair) unless a range is given.
+  const shared = req.kind !== 'sensitivity' && req.colourRange === undefined;
+  const wirings = shared ? design.wirings.map((_, k) => k) : [wiring];
+  const data = computeReport(design, { wirings, pairs, comparison: req.kind === 'compare' });
+  const at = wirings.indexOf(wiring);
+  const o = data.outcomes[at];
   let chart: Chart;
   let colourRange: ColourDomain | null = null;
   if (req.kind === 'map') {
@@ -120,7 +124,7 @@ export function standaloneFigure(design: Design, req: FigureRequest): Standalone
     const height = req.heightMm === undefined ? (width * MAP_HEIGHT) / MAP_WIDTH : req.heightMm / mmPerUnit;
     if (height < 360) throw new UserError(`--height-mm: a map at ${req.fontPt} pt needs at least ${Math.ceil(360 * mmPerUnit)} mm`);
     const m = o.maps[0];
-    colourRange = req.colourRange ?? sharedColourDomain([m.map]);
+    colourRange = req.colourRange ?? sharedColourDomain(data.outcomes.map((x) => x.maps[0].map));
     chart = mapChart(data, o, m, colourRange, { width, height }).chart;
   } else if (req.kind === 'sensitivity') {
     const width = req.widthMm / mmPerUnit;
@@ -128,10 +132,10 @@ export function standaloneFigure(design: Design, req: FigureRequest): Standalone
     chart = sensitivityChart(data, o, width);
   } else {
     const c = data.comparison;
-    const w = c?.wirings[0];
+    const w = c?.wirings[at];
     const cm = w?.maps[0];
     if (!c || !w || !cm) throw new Error('comparison missing');
-    colourRange = req.colourRange ?? compareColourRange([cm.reference, cm.ensemble.map]);
+    colourRange = req.colourRange ?? compareColourRange(c.wirings.flatMap((x) => [x.maps[0].reference, x.maps[0].ensemble.map]));
     chart = compareChart(data, c, w, cm, colourRange).chart;
   }
   const vb = viewBoxSize(chart.svg);

@@ -7,7 +7,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, test } from 'vitest';
 import { figureCommand } from '../../src/cli/figure-command.js';
+import { loadDesign } from '../../src/design/index.js';
 import { UserError } from '../../src/errors.js';
+import { buildReport } from '../../src/report/build.js';
 import { BROWSER_TIMEOUT_MS, findChromium } from '../helpers/chromium.js';
 
 const ROOT = new URL('../..', import.meta.url).pathname;
@@ -37,6 +39,19 @@ describe('gapstack figure', () => {
     expect(svg).toContain('id="map-independent-1-2"');
     expect(svg).toContain('data-ink="dark-on-white"');
     expect(j.colour_range_percent.hi).toBeGreaterThan(j.colour_range_percent.lo);
+  }, SLOW);
+
+  test("by default a map takes the report's colour scale for its pair (shared by every wiring's map)", async () => {
+    const report = buildReport(await loadDesign(design), { date: new Date(0) });
+    const inReport = report.charts.find((c) => c.name === 'map-series-1-2')?.svg ?? '';
+    const out = join(dir, 'map-default.svg');
+    await figureCommand({ design, chart: 'map', wiring: 'series', output: out });
+    const svg = readFileSync(out, 'utf8');
+    for (const k of ['data-colour-lo', 'data-colour-hi']) {
+      const want = new RegExp(`${k}="([\\d.]+)"`).exec(inReport)?.[1];
+      expect(want).toBeDefined();
+      expect(svg).toContain(`${k}="${want}"`);
+    }
   }, SLOW);
 
   test('a given colour range is used as is, so separate figures share one scale', async () => {
