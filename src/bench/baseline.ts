@@ -9,7 +9,7 @@ import { BLACKBODY_PREFACTOR_EV, BOLTZMANN_EV_K, ELEMENTARY_CHARGE_C, HC_EV_NM, 
 import type { Spectrum } from '../light/spectrum.js';
 
 /** q·∫ φ_λ dλ up to the gap wavelength by the trapezoid rule on the native grid [A/m²]. */
-export function plainJscAm2(s: Spectrum, gapEv: number): number {
+function plainJscAm2(s: Spectrum, gapEv: number): number {
   const lg = HC_EV_NM / gapEv;
   const w = s.wavelengthNm;
   const f = s.photonFlux;
@@ -24,7 +24,7 @@ export function plainJscAm2(s: Spectrum, gapEv: number): number {
 }
 
 /** q·2π/(h³c²)·∫ E²/(e^{E/kT} − 1) dE from the gap by Simpson's rule over 40 kT [A/m²]. */
-export function plainJ0Am2(gapEv: number, tempK: number, intervals = 2000): number {
+function plainJ0Am2(gapEv: number, tempK: number, intervals = 2000): number {
   const kt = BOLTZMANN_EV_K * tempK;
   const h = (40 * kt) / intervals;
   let sum = 0;

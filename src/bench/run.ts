@@ -91,4 +91,6 @@ rows.push({ item: 'cli-map-2T-5meV', seconds: cliMap, target: '≤ 1 s', met: cl
 rows.push({ item: 'cli-optimize-4J', seconds: cli4, target: '≤ 1 s', met: cli4 <= 1 });
 rows.push({ item: 'cli-startup', seconds: cliHelp });
 rows.push({ item: 'cli-report-example', seconds: cliReport });
+// Many sites: per-site cost and peak memory of a streamed batch.
+rows.push(...(await import('./sites.js')).benchSites(log));
 if (json) console.log(JSON.stringify({ node: process.version, rows }, null, 2));

@@ -1,6 +1,6 @@
 /** `gapstack evaluate`: one stack, one spectrum, every number with its unit. */
 import { evaluateStack, stackWarnings, type StackResult } from '../stack/evaluate.js';
-import { maximiseScan } from '../numerics/golden.js';
+import { bestTopAbsorptanceOfStack, withTopAbsorptance } from '../stack/top-absorptance.js';
 import { UserError } from '../errors.js';
 import { toMaCm2 } from '../physics/constants.js';
 import type { StackSpec } from '../stack/model.js';
@@ -57,10 +57,8 @@ export function evaluateCommand(a: EvaluateArgs): string {
   if (a.topAbsorptance === 'best') {
     // Thinning the top cell: the constant absorptance in (0, 1] that maximises this stack.
     if (gaps.length < 2) throw new UserError('--top-absorptance best needs a stack of 2 or more subcells');
-    const withTop = (value: number): StackSpec => ({ ...spec, subcells: spec.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step', value } } : c)) });
-    chosenTop = maximiseScan((v) => evaluateStack(withTop(v), spectrum).efficiency, 0.02, 1, 49, 1e-9);
-    if (evaluateStack(withTop(1), spectrum).efficiency >= evaluateStack(withTop(chosenTop), spectrum).efficiency) chosenTop = 1;
-    spec.subcells[0] = withTop(chosenTop).subcells[0];
+    chosenTop = bestTopAbsorptanceOfStack(spec, spectrum).absorptance;
+    spec.subcells[0] = withTopAbsorptance(spec, chosenTop).subcells[0];
   }
   const r = evaluateStack(spec, spectrum);
   const warnings = stackWarnings(spec);
@@ -68,11 +66,11 @@ export function evaluateCommand(a: EvaluateArgs): string {
   const rows = r.subcells.map((c, i) => [
     String(i + 1),
     fix(c.gapEv, 4),
-    eng(c.jphAm2 / 10, 2),
-    eng(c.lcInAm2 / 10, 2),
+    eng(toMaCm2(c.jphAm2), 2),
+    eng(toMaCm2(c.lcInAm2), 2),
     fix(c.vocV, 4),
     fix(c.ff, 4),
-    eng(c.jOpAm2 / 10, 2),
+    eng(toMaCm2(c.jOpAm2), 2),
     fix(c.vOpV, 4),
     eng(c.powerWm2, 2),
   ]);
@@ -80,7 +78,7 @@ export function evaluateCommand(a: EvaluateArgs): string {
     ...(chosenTop !== undefined ? [`Best top-cell absorptance: ${chosenTop.toFixed(4)} (constant above the top gap; the rest of its band passes down)`] : []),
     `Efficiency ${pct(r.efficiency, 3)}  (P_max ${eng(r.pmaxWm2, 2)} W/m² of P_in ${eng(r.pinWm2, 2)} W/m²), wiring: ${spec.wiring.label}`,
   ];
-  if (r.stackVocV !== null && r.stackJscAm2 !== null) out.push(`Stack terminals: Voc ${r.stackVocV.toFixed(4)} V, Jsc ${eng(r.stackJscAm2 / 10, 2)} mA/cm²`);
+  if (r.stackVocV !== null && r.stackJscAm2 !== null) out.push(`Stack terminals: Voc ${r.stackVocV.toFixed(4)} V, Jsc ${eng(toMaCm2(r.stackJscAm2), 2)} mA/cm²`);
   out.push(
     '',
     table(['cell', 'gap [eV]', 'Jph [mA/cm²]', 'LC in [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]', 'P [W/m²]'], rows),

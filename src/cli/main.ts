@@ -50,7 +50,8 @@ function command(cli: Argv, name: string, describe: string, builder: (y: Argv) =
   return cli.command(name, describe, builder as never, handler as never);
 }
 
-async function run(argv: string[]): Promise<void> {
+/** Run the command line on these arguments (without node and script); prints, and sets process.exitCode. */
+export async function run(argv: string[]): Promise<void> {
   const debug = argv.includes('--debug');
   const print = (text: string): void => {
     process.stdout.write(text.endsWith("\n") ? text : `${text}\n`);
@@ -163,15 +164,28 @@ async function run(argv: string[]): Promise<void> {
   );
   cli = command(
     cli,
-    'materials [id]',
-    'absorber families: composition ↔ gap and practical windows',
+    'materials [id] [file]',
+    'absorber families: composition ↔ gap and practical windows; "materials fit FILE" fits a gap model to your measured points',
     (y) =>
       y
-        .positional('id', { type: 'string', describe: 'family id, e.g. perovskite-i-br' })
+        .positional('id', { type: 'string', describe: 'family id, e.g. perovskite-i-br; or "fit"' })
+        .positional('file', { type: 'string', describe: 'with fit: (composition, gap) points, header e.g. "composition,gap_eV"' })
         .option('gap', { type: 'string', describe: 'gap [eV] → composition(s)' })
         .option('composition', { type: 'string', describe: 'composition x → gap [eV]' })
+        .option('model', { type: 'string', describe: 'with fit: bowing (default) or poly:N (polynomial of degree N)' })
+        .option('write', { type: 'string', describe: 'with fit: write a family definition (YAML) for a design file\'s materials:' })
+        .option('family-id', { type: 'string', describe: 'with fit --write: the family id (default from the file name)' })
+        .option('name', { type: 'string', describe: 'with fit --write: the family name' })
+        .option('variable', { type: 'string', describe: 'with fit --write: what x means' })
+        .option('dedt', { type: 'string', describe: 'with fit --write: dE_g/dT [eV/K] (required)' })
+        .option('index', { type: 'string', describe: 'with fit --write: refractive index [-] (required)' })
         .option('json', { type: 'boolean', default: false }),
     async (a) => {
+      if (a.id === 'fit') {
+        const { materialsFitCommand } = await import('./materials-fit-command.js');
+        print(await materialsFitCommand(a as never));
+        return;
+      }
       const { parseNumber } = await import('./options.js');
       const { materialsCommand } = await import('./materials-command.js');
       print(
@@ -199,7 +213,20 @@ async function run(argv: string[]): Promise<void> {
             .option('out', { alias: 'o', type: 'string', describe: 'merged file to write (atomically)', demandOption: true })
             .option('json', { type: 'boolean', default: false }),
         async (a) => print((await import('./sites-command.js')).sitesMergeCommand(a as never)),
-      ).demandCommand(1, 'name a sites subcommand; see gapstack sites --help'),
+      )
+        .command(
+          'map <rows>',
+          'draw the sites of a rows file (.csv or .jsonl) on a world or regional outline, coloured by a column: SVG and PNG',
+          (m: Argv) =>
+            m
+              .positional('rows', { type: 'string', describe: 'a merged or single-part rows file' })
+              .option('colour', { type: 'string', default: 'top-gap', describe: 'top-gap | 2t-loss | 4t-gain | a numeric column name' })
+              .option('wiring', { type: 'string', describe: 'wiring column prefix for top-gap (default: the first, e.g. 2t)' })
+              .option('world', { type: 'boolean', default: false, describe: 'show the whole world even when the sites fit in a region' })
+              .option('out', { alias: 'o', type: 'string', describe: 'file name for <out>.svg and <out>.png', demandOption: true }),
+          (async (a: Record<string, unknown>) => print(await (await import('./sites-command.js')).sitesMapCommand(a as never))) as never,
+        )
+        .demandCommand(1, 'name a sites subcommand; see gapstack sites --help'),
     async () => {},
   );
   cli = cli
@@ -229,4 +256,7 @@ async function run(argv: string[]): Promise<void> {
   }
 }
 
-await run(hideBin(process.argv));
+/** The command line of this process (bin/gapstack.js calls it). */
+export async function main(): Promise<void> {
+  await run(hideBin(process.argv));
+}

@@ -3,15 +3,16 @@ import type { Spectrum } from '../light/spectrum.js';
 import { UserError } from '../errors.js';
 import { availableParallelism } from 'node:os';
 import { runDesignSearchParallel, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
-import type { StackSpec } from '../stack/model.js';
+import { stackWithGaps, type StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
-import { am15g } from '../light/sources.js';
+import { compareAnswers, questionUnderReference } from '../report/ensemble-compare.js';
 import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '../report/assumptions.js';
 import { eng, fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
 import { startProgress } from './progress.js';
+import { toMaCm2 } from '../physics/constants.js';
 
 /** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
 export function threadsFromArgs(value: unknown): number {
@@ -78,7 +79,8 @@ export function optimizeJson(spec: StackSpec, spectra: { label: string; spectrum
         open_low: t.openLow,
         open_high: t.openHigh,
       })),
-      convention: 'each interval moves one gap with the others held at the optimum; open_* means the interval reaches the allowed range there',
+      composition_intervals: d.compositionTolerance.map((c) => ({ subcell: c.subcell + 1, family: c.family, variable: c.variable, x: round(c.x, 6), low_x: round(c.lowX, 6), high_x: round(c.highX, 6), clipped: c.clipped })),
+      convention: 'each interval moves one gap with the others held at the optimum; open_* means the interval reaches the allowed range there; composition_intervals read bound subcells\' gap intervals in composition on the optimum\'s branch',
     },
     unconstrained: d.unconstrained ? basin(d.unconstrained.best) : null,
     warnings: d.warnings,
@@ -125,15 +127,13 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
   if (a.ensemble !== undefined) {
-    const reference = await runDesignSearchParallel({ ...question, spectra: [{ spectrum: am15g(), weight: 1, tempK: spec.tempK }] }, threads);
-    const refGaps = reference.result.best.gapsEv;
-    const yieldOfReference = d.objective.value(refGaps);
+    const c = compareAnswers(d, await runDesignSearchParallel(questionUnderReference(question), threads));
     comparison = {
-      am15g_best: { gaps_ev: refGaps.map((g) => round(g, 7)), efficiency: round(reference.result.best.value, 10) },
-      am15g_design_yield_efficiency: round(yieldOfReference, 10),
-      ensemble_best_yield_efficiency: round(d.result.best.value, 10),
-      loss_rel: round(1 - yieldOfReference / d.result.best.value, 8),
-      gap_shift_ev: d.result.best.gapsEv.map((g, i) => round(g - refGaps[i], 6)),
+      am15g_best: { gaps_ev: c.referenceOptimal.gapsEv.map((g) => round(g, 7)), efficiency: round(c.referenceOptimal.referenceEfficiency, 10) },
+      am15g_design_yield_efficiency: round(c.referenceOptimal.yieldEfficiency, 10),
+      ensemble_best_yield_efficiency: round(c.ensembleOptimal.yieldEfficiency, 10),
+      loss_rel: round(c.lossRel, 8),
+      gap_shift_ev: c.shiftEv.map((x) => round(x, 6)),
     };
   }
   if (a.json) return JSON.stringify({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
@@ -141,10 +141,8 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const first = members[0].spectrum;
   // The optimum as a stack, the free top absorptance included, so its per-cell table is printed too.
   const top = d.topAbsorptance;
-  const bestSpec = {
-    ...spec,
-    subcells: spec.subcells.map((c, i) => ({ ...c, gapEv: r.best.gapsEv[i], ...(i === 0 && top !== undefined ? { absorptance: { kind: 'step' as const, value: top } } : {}) })),
-  };
+  const withGaps = stackWithGaps(spec, r.best.gapsEv);
+  const bestSpec = top === undefined ? withGaps : { ...withGaps, subcells: withGaps.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step' as const, value: top } } : c)) };
   const detail = members.length === 1 ? evaluateStack(bestSpec, first) : null;
   const lines = [
     `Best ${d.objective.label}: ${pct(r.best.value, 3)}  wiring ${spec.wiring.label}, ${cells} subcell(s)`,
@@ -157,7 +155,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       '',
       table(
         ['cell', 'gap [eV]', 'Jph [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]'],
-        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), eng(c.jphAm2 / 10, 2), fix(c.vocV, 4), fix(c.ff, 4), eng(c.jOpAm2 / 10, 2), fix(c.vOpV, 4)]),
+        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), eng(toMaCm2(c.jphAm2), 2), fix(c.vocV, 4), fix(c.ff, 4), eng(toMaCm2(c.jOpAm2), 2), fix(c.vOpV, 4)]),
       ),
     );
   }
@@ -172,6 +170,9 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       r.tolerance.intervals.map((t) => [String(t.subcell + 1), fix(t.gapEv, 4), `${t.openLow ? '≤' : ''}${fix(t.lowEv, 4)}`, `${t.openHigh ? '≥' : ''}${fix(t.highEv, 4)}`]),
     ),
   );
+  for (const c of d.compositionTolerance) {
+    lines.push(`  subcell ${c.subcell + 1} in composition (${c.variable}): x = ${c.lowX.toFixed(3)}–${c.highX.toFixed(3)} around ${c.x.toFixed(3)}${c.clipped ? ' (an end reaches the family’s composition range)' : ''}`);
+  }
   if (r.basins.length > 0) {
     lines.push('', 'Runner-up basins:');
     lines.push(table(['gaps [eV]', d.objective.label], r.basins.slice(0, 5).map((b) => [gapsText(b.gapsEv), pct(b.value, 3)])));

@@ -59,7 +59,7 @@ export function parseIndexed(option: string, value: unknown, cells: number): Map
 }
 
 /** Expand one value or a per-item list to `count` items. */
-export function perItem(option: string, values: number[], count: number, what: string): number[] {
+function perItem(option: string, values: number[], count: number, what: string): number[] {
   if (values.length === 1) return Array.from({ length: count }, () => values[0]);
   if (values.length !== count) throw new UserError(`--${option} takes one value or ${count} (one per ${what}), got ${values.length}`);
   return values;
@@ -82,7 +82,7 @@ export function spectrumFromArgs(a: LightArgs): Spectrum {
 }
 
 /** Cell temperature [K] from --temp (default 300 K, the detailed-balance convention). */
-export function tempFromArgs(value: unknown): number {
+function tempFromArgs(value: unknown): number {
   if (value === undefined) return 300;
   const t = parseNumber('temp', value);
   if (!(t >= 150 && t <= 500)) throw new UserError(`--temp must be a cell temperature within 150–500 K, got ${t}`);
@@ -90,12 +90,12 @@ export function tempFromArgs(value: unknown): number {
 }
 
 /** Wiring from --wiring (see src/stack/wiring-text.ts for the forms). */
-export function wiringFromArgs(value: unknown, cells: number): Wiring {
+function wiringFromArgs(value: unknown, cells: number): Wiring {
   return parseWiring(String(value ?? 'series'), cells);
 }
 
 /** Coupling from --lc: a value or list of η (empirical) or "radiative[:n]". */
-export function couplingFromArgs(value: unknown, cells: number): Coupling {
+function couplingFromArgs(value: unknown, cells: number): Coupling {
   if (value === undefined || value === 'none' || value === 'isolated') return { model: 'none' };
   const text = String(value).trim().toLowerCase();
   const radiative = /^radiative(?::([^:]+))?$/.exec(text);
@@ -114,7 +114,7 @@ export function couplingFromArgs(value: unknown, cells: number): Coupling {
 }
 
 /** ERE per subcell from --ere, or from --voc-loss [V]. */
-export function ereFromArgs(ere: unknown, vocLoss: unknown, cells: number, tempK: number): number[] {
+function ereFromArgs(ere: unknown, vocLoss: unknown, cells: number, tempK: number): number[] {
   if (ere !== undefined && vocLoss !== undefined) throw new UserError('give either --ere or --voc-loss, not both');
   if (vocLoss !== undefined) {
     const losses = perItem('voc-loss', parseNumberList('voc-loss', vocLoss), cells, 'subcell');
@@ -253,7 +253,7 @@ export function subcellAbsorptanceFromArgs(a: StackArgs, cells: number, index: (
 }
 
 /** Absorptance of the top cell from --top-absorptance or --top-thickness and its model. */
-export function topAbsorptanceFromArgs(a: StackArgs): AbsorptanceModel {
+function topAbsorptanceFromArgs(a: StackArgs): AbsorptanceModel {
   if (a.topAbsorptance !== undefined && a.topThickness !== undefined) throw new UserError('give either --top-absorptance or --top-thickness, not both');
   if (a.topAbsorptance === 'best') return { kind: 'step', value: 1 };
   if (a.topAbsorptance !== undefined) {

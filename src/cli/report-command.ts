@@ -53,10 +53,22 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   const output = a.output ?? 'report.html';
   if (!/\.html?$/i.test(output)) throw new UserError(`-o/--output must end in .html, got "${output}"`);
   const t0 = performance.now();
-  const { loadDesign } = await import('../design/index.js');
-  const design = await loadDesign(a.design);
-  const { buildReport } = await import('../report/build.js');
-  const built = buildReport(design, { date: reportDate() });
+  const { loadScenarioSet } = await import('../design/index.js');
+  const set = await loadScenarioSet(a.design);
+  let built: { html: string; charts: import('../report/build.js').Chart[]; summary: Record<string, unknown> };
+  let outcomes: { label: string; o: import('../report/outcomes.js').WiringOutcome }[];
+  if (set.named) {
+    // Several scenarios: one comparison table first, then each scenario's own sections.
+    const { buildScenarioReport } = await import('../report/scenarios.js');
+    const r = buildScenarioReport(set, { date: reportDate() });
+    built = r;
+    outcomes = r.built.flatMap((b, k) => b.data.outcomes.map((o) => ({ label: `${set.scenarios[k].name}, ${o.wiring.key}`, o })));
+  } else {
+    const { buildReport } = await import('../report/build.js');
+    const r = buildReport(set.scenarios[0], { date: reportDate() });
+    built = r;
+    outcomes = r.data.outcomes.map((o) => ({ label: o.wiring.key, o }));
+  }
   let files: { name: string; data: string | Uint8Array }[] = [];
   if (a.figures !== undefined) {
     const { figureFiles } = await import('../report/figures.js');
@@ -74,7 +86,6 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
     written.push(p);
   }
   const seconds = (performance.now() - t0) / 1000;
-  const outcomes = built.data.outcomes;
   if (a.json) {
     return JSON.stringify(
       {
@@ -90,8 +101,8 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   }
   const lines = [
     `Wrote ${output}${a.figures !== undefined ? ` and ${files.length} files in ${a.figures}` : ''} (${seconds.toFixed(2)} s).`,
-    ...outcomes.map((o) => `  ${o.wiring.key}: ${(o.search.result.best.value * 100).toFixed(3)} % at ${o.search.result.best.gapsEv.map((g) => g.toFixed(4)).join(' / ')} eV`),
-    ...outcomes.flatMap((o) => o.search.warnings.map((w) => `Warning (${o.wiring.key}): ${w}`)),
+    ...outcomes.map(({ label, o }) => `  ${label}: ${(o.search.result.best.value * 100).toFixed(3)} % at ${o.search.result.best.gapsEv.map((g) => g.toFixed(4)).join(' / ')} eV`),
+    ...outcomes.flatMap(({ label, o }) => o.search.warnings.map((w) => `Warning (${label}): ${w}`)),
     CAUTION,
   ];
   return lines.join('\n');

@@ -99,3 +99,38 @@ export function sitesMergeCommand(a: SitesMergeArgs): string {
   if (a.json) return JSON.stringify({ out: m.out, parts: m.parts, sites: m.sites }, null, 2);
   return `merged ${m.parts} part${m.parts === 1 ? '' : 's'}, ${m.sites} sites → ${m.out}`;
 }
+
+export interface SitesMapArgs {
+  rows: string;
+  colour: string;
+  wiring?: string;
+  out: string;
+  world?: boolean;
+}
+
+/** Draw the sites of a rows file coloured by a column: `<out>.svg` and `<out>.png`. */
+export async function sitesMapCommand(a: SitesMapArgs): Promise<string> {
+  const { mapColumn, mapPoints, readRowsFile } = await import('../sites/map-data.js');
+  const { siteMapSvg } = await import('../sites/site-map.js');
+  const { standaloneSvg, svgToPng } = await import('../report/figures.js');
+  const { writeFileAtomic } = await import('../io/atomic-write.js');
+  const file = readRowsFile(a.rows);
+  const column = mapColumn(a.colour, file.columns, a.wiring);
+  const points = mapPoints(file.rows, column);
+  const svg = standaloneSvg(
+    await siteMapSvg({
+      points,
+      valueLabel: column.label,
+      extent: a.world ? 'world' : 'auto',
+      caption: [
+        `${points.length} site${points.length === 1 ? '' : 's'} coloured by ${column.label}; question SHA-256 ${file.questionSha256.slice(0, 12)}…, gapstack ${file.version}.`,
+        'Each site: its weather file turned into hourly spectra on the module plane, the stack solved hour by hour in the detailed-balance limit; gaps optimised per site. Land and borders: Natural Earth 1:110m (world-atlas), Equal Earth projection.',
+        CAUTION,
+      ],
+    }),
+  );
+  const base = a.out.replace(/\.(svg|png)$/i, '');
+  writeFileAtomic(`${base}.svg`, svg);
+  writeFileAtomic(`${base}.png`, svgToPng(svg));
+  return `site map of ${points.length} sites coloured by ${column.label} → ${base}.svg, ${base}.png`;
+}

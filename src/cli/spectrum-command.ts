@@ -4,6 +4,7 @@ import { CAUTION } from '../report/assumptions.js';
 import { fix, round, table } from './format.js';
 import { parseNumberList, parseRange, spectrumFromArgs, type LightArgs } from './options.js';
 import { UserError } from '../errors.js';
+import { toMaCm2 } from '../physics/constants.js';
 
 export interface SpectrumArgs extends LightArgs {
   gaps?: unknown;
@@ -21,7 +22,7 @@ export function spectrumCommand(a: SpectrumArgs): string {
   const window: readonly [number, number] = a.apeWindow === undefined ? DEFAULT_APE_WINDOW_NM : parseRange('ape-window', a.apeWindow);
   const ape = averagePhotonEnergyEv(s, window[0], window[1]);
   const range: [number, number] = [s.wavelengthNm[0], s.wavelengthNm[s.wavelengthNm.length - 1]];
-  const above = gaps.map((g) => ({ gap_ev: g, jsc_ma_cm2: round(stepJscAm2(s, g) / 10) }));
+  const above = gaps.map((g) => ({ gap_ev: g, jsc_ma_cm2: round(toMaCm2(stepJscAm2(s, g))) }));
   if (a.json) {
     return JSON.stringify(
       {

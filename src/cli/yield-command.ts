@@ -9,10 +9,11 @@ import { ensembleSummary, loadEnsemble, type Ensemble, type EnsembleSummary } fr
 import { yieldForStack, type YieldResult } from '../stack/yield.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { evaluateStack } from '../stack/evaluate.js';
-import type { StackSpec } from '../stack/model.js';
+import { isSeriesString, type StackSpec } from '../stack/model.js';
 import { CAUTION, describeAbsorptance, describeCoupling, EMISSION_CONVENTION } from '../report/assumptions.js';
 import { fix, pct, round, table } from './format.js';
 import { gapsFromArgs, parseRange, stackFromArgs, type StackArgs } from './options.js';
+import { toMaCm2 } from '../physics/constants.js';
 
 export interface YieldArgs extends StackArgs {
   gaps?: unknown;
@@ -28,7 +29,7 @@ export interface YieldArgs extends StackArgs {
 /** Rows of the per-spectrum table printed before eliding (JSON always holds all). */
 export const TEXT_ROWS_SHOWN = 40;
 
-const ma = (jAm2: number) => round(jAm2 / 10);
+const ma = (jAm2: number) => round(toMaCm2(jAm2));
 
 /** Assumption lines of a yield run. */
 export function yieldAssumptions(spec: StackSpec, e: Ensemble, s: EnsembleSummary): string[] {
@@ -41,7 +42,7 @@ export function yieldAssumptions(spec: StackSpec, e: Ensemble, s: EnsembleSummar
     `emission: ${EMISSION_CONVENTION}`,
     `ERE: ${eres.every((x) => x === 1) ? '1 (fully radiative)' : eres.join(', ')}`,
     `optics: ${spec.subcells.map((c, i) => `${i + 1}: ${describeAbsorptance(c.absorptance)}`).join('; ')}; front reflectance ${typeof spec.frontReflectance === 'number' ? spec.frontReflectance : 'tabulated'}`,
-    `coupling: ${describeCoupling(spec.coupling)}; wiring ${spec.wiring.label}${spec.wiring.kind === 'groups' && spec.wiring.groups.length === 1 && spec.subcells.length > 1 ? ' (current re-matched under every spectrum)' : ''}`,
+    `coupling: ${describeCoupling(spec.coupling)}; wiring ${spec.wiring.label}${isSeriesString(spec.wiring) && spec.subcells.length > 1 ? ' (current re-matched under every spectrum)' : ''}`,
   ];
 }
 
@@ -135,7 +136,7 @@ export function yieldCommand(a: YieldArgs): string {
     fix(p.pmaxWm2, 1),
     fix(p.efficiency * 100, 2),
     fix(s.ape.perMember[k].apeEv, 3),
-    ...p.subcells.map((c) => fix(c.jOpAm2 / 10, 2)),
+    ...p.subcells.map((c) => fix(toMaCm2(c.jOpAm2), 2)),
   ]);
   const out = [
     `Yield-weighted efficiency ${pct(y.yieldEfficiency, 3)} over ${e.members.length} spectra (Σ w·P_max / Σ w·P_in), wiring: ${spec.wiring.label}, gaps ${gaps.join(' / ')} eV`,

@@ -10,9 +10,9 @@ import { ParameterError, UserError } from '../errors.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
-import { gapAtTemperature, gapReach, getFamily, parseUserFamily, type AbsorberFamily } from '../materials/index.js';
+import { familyFromEntry, gapAtTemperature, gapReach, getFamily, type AbsorberFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
-import type { Coupling, StackSpec, Wiring } from '../stack/model.js';
+import { isSeriesString, type Coupling, type StackSpec, type Wiring } from '../stack/model.js';
 import { parseWiring } from '../stack/wiring-text.js';
 import { designError, type DesignSource, type FieldPath } from './source.js';
 import { perInterface, subcellAbsorptance } from './films.js';
@@ -251,10 +251,14 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
   const tempK = f.temperature ?? DESIGN_DEFAULTS.temperatureK;
   const span: [number, number] = f.search?.span ? [f.search.span[0], f.search.span[1]] : [...DESIGN_DEFAULTS.spanEv];
   if (!(span[0] < span[1])) throw designError(src, ['search', 'span'], `low end must be below high end, got [${span[0]}, ${span[1]}]`);
+  // mathjs loads only when a family gives its gap as a formula.
+  const formulas = (f.materials ?? []).some((m) => m.gap_formula !== undefined) ? await import('../materials/formula.js') : undefined;
   const userFamilies = (f.materials ?? []).map((m, k) => {
     try {
-      return parseUserFamily(m, `materials[${k}]`);
+      const coeffs = m.gap_formula !== undefined && formulas ? formulas.polynomialFromFormula(m.gap_formula, 'gap_formula') : undefined;
+      return familyFromEntry(m, `materials[${k}]`, coeffs);
     } catch (err) {
+      if (err instanceof UserError && err.message.startsWith('gap_formula: ')) throw designError(src, ['materials', k, 'gap_formula'], err.message.slice('gap_formula: '.length));
       if (err instanceof UserError) throw designError(src, ['materials', k], err.message.replace(/^materials\[\d+\]: /, ''));
       throw err;
     }
@@ -285,7 +289,7 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
     const contacts = perInterface(src, ['wirings', k, 'contact_transmittance'], entry.contact_transmittance, n, 1);
     const rs = entry.rs_ohm_cm2 ?? cells.map((c) => c.rsOhmCm2);
     if (rs.length !== n) throw designError(src, ['wirings', k, 'rs_ohm_cm2'], `takes one resistance per subcell (${n}), got ${rs.length}`);
-    const series = wiring.kind === 'groups' && wiring.groups.length === 1;
+    const series = isSeriesString(wiring);
     const template: StackSpec = {
       subcells: cells.map((c, i) => ({
         gapEv: 2.5 - 0.3 * i,

@@ -84,6 +84,8 @@ function describe(e: ErrorObject): Problem {
       return { path, key: false, message: `must be at most ${String(p.limit)} characters` };
     case 'const':
       return { path, key: false, message: `must be ${shown(p.allowedValue)}${got}` };
+    case 'not-with':
+      return { path, key: true, message: `does not go with gap_formula; give either gap_formula or ea_ev, eb_ev and bowing_ev` };
     case 'pattern':
     case 'anyOf':
       return { path, key: false, message: `${shown(e.data)} is not allowed${desc ? `; expected ${desc}` : ''}` };
@@ -96,9 +98,13 @@ function describe(e: ErrorObject): Problem {
 export function validateDesignData(src: DesignSource): DesignFile {
   const validate = validator();
   if (validate(src.data)) return src.data as DesignFile;
-  const errors = validate.errors ?? [];
+  let errors = validate.errors ?? [];
   // A failed anyOf reports every branch too; keep only the anyOf itself there.
   const anyOfPaths = errors.filter((e) => e.keyword === 'anyOf').map((e) => e.instancePath);
+  // An if/then reports its own failure beside the failed "then" keyword; the latter says it.
+  errors = errors.filter((e) => e.keyword !== 'if');
+  // A key a branch forbids (schema false) reads as an unknown key there.
+  errors = errors.map((e) => (e.keyword === 'false schema' ? { ...e, keyword: 'not-with', params: { key: pathOf(e.instancePath).slice(-1)[0] } } : e));
   const kept = errors.filter((e) => e.keyword === 'anyOf' || !anyOfPaths.some((a) => e.instancePath === a || e.instancePath.startsWith(`${a}/`)));
   const seen = new Set<string>();
   const problems = kept

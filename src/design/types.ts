@@ -7,6 +7,7 @@ import type { Spectrum } from '../light/spectrum.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
 import type { AbsorptanceModel, StackSpec, Wiring } from '../stack/model.js';
+import type { UserFamilyEntry } from '../materials/index.js';
 
 export interface SpectrumEntry {
   source: string;
@@ -76,8 +77,13 @@ export interface DesignFile {
   map?: { step?: number; pairs?: MapPairEntry[] };
   tolerance?: { loss?: number };
   /** User-defined absorber families (bowing form), usable as subcell materials by id. */
-  materials?: Record<string, unknown>[];
+  materials?: UserFamilyEntry[];
+  /** Several questions side by side; each replaces the shared keys it gives. */
+  scenarios?: ScenarioEntry[];
 }
+
+/** One scenario: a name, its own subcells, and any shared key it replaces. */
+export type ScenarioEntry = { name: string; subcells: SubcellEntry[] } & Partial<Omit<DesignFile, 'name' | 'subcells' | 'scenarios'>>;
 
 export type { LabelledSpectrum };
 

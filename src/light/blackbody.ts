@@ -8,6 +8,7 @@ import { BLACKBODY_PREFACTOR_EV, BOLTZMANN_EV_K, DILUTION_ONE_SUN, ELEMENTARY_CH
 import { UserError } from '../errors.js';
 import { makeSpectrum, sha256OfTable, type Spectrum } from './spectrum.js';
 
+/** A blackbody sun: surface temperature [K], geometric dilution [-] and table step [eV]. */
 export interface BlackbodyOptions {
   /** Sun surface temperature [K]. */
   tempK: number;

@@ -9,7 +9,9 @@
 import { createHash } from 'node:crypto';
 import { ELEMENTARY_CHARGE_C, HC_EV_NM, HC_J_NM } from '../physics/constants.js';
 import { UserError } from '../errors.js';
+import { lastIndexNotPast } from '../numerics/sorted.js';
 
+/** One light source as the engine uses it: spectral irradiance on an ascending wavelength grid [nm, W m⁻² nm⁻¹], photon flux, its cumulative photon table, P_in [W/m²] and provenance. */
 export interface Spectrum {
   /** Human-readable name, e.g. "AM1.5G (ASTM G173-03 global tilt)". */
   readonly name: string;
@@ -31,6 +33,7 @@ export interface Spectrum {
   readonly source: string;
 }
 
+/** What `makeSpectrum` needs: wavelength [nm] ascending and irradiance [W m⁻² nm⁻¹], with a name and source. */
 export interface SpectrumInput {
   name: string;
   sha256: string;
@@ -90,16 +93,9 @@ export function scaleSpectrum(s: Spectrum, factor: number): Spectrum {
   };
 }
 
-/** Index i with λ[i] ≤ λ < λ[i+1], for λ inside the grid. */
+/** Index i of the grid interval holding λ, λ[i] ≤ λ ≤ λ[i+1], for λ inside the grid. */
 function bracket(grid: Float64Array, x: number): number {
-  let lo = 0;
-  let hi = grid.length - 1;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (grid[mid] <= x) lo = mid;
-    else hi = mid;
-  }
-  return lo;
+  return lastIndexNotPast(grid, x, 0, grid.length - 2);
 }
 
 /**

@@ -13,6 +13,7 @@ import { makeSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
 export type AbscissaUnit = 'nm' | 'um' | 'ev';
 export type OrdinateUnit = 'W/m2/nm' | 'W/m2/um' | 'W/m2/eV' | 'photons/m2/s/nm' | 'photons/m2/s/um' | 'photons/m2/s/eV';
 
+/** Units of a spectrum table: abscissa (nm, µm or eV) and ordinate (irradiance or photon flux per nm, µm or eV). */
 export interface TableUnits {
   x: AbscissaUnit;
   y: OrdinateUnit;

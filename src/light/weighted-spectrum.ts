@@ -1,6 +1,7 @@
 /** Spectra with weights: what an ensemble hands to yield and to the search. */
 import type { Spectrum } from './spectrum.js';
 
+/** A spectrum with its weight in a set (hours or energy share) and the cell temperature [K] under it. */
 export interface WeightedSpectrum {
   spectrum: Spectrum;
   /** Weight (hours or energy share) [-]. */

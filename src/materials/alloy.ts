@@ -234,7 +234,8 @@ export interface GapReach {
   readonly xAtMax: number;
 }
 
-function reachOf(model: GapModel, range: readonly [number, number]): GapReach {
+/** Lowest and highest gap [eV] a model reaches over a composition range, and where. */
+export function modelReach(model: GapModel, range: readonly [number, number]): GapReach {
   const coeffs = modelCoefficientsEv(model);
   const [lo, hi] = range;
   const candidates = [lo, ...interiorExtrema(coeffs, lo, hi), hi];
@@ -252,7 +253,7 @@ function reachOf(model: GapModel, range: readonly [number, number]): GapReach {
  * @returns {minEv, maxEv} [eV] with the compositions [-] where they occur
  */
 export function gapReach(family: AbsorberFamily): GapReach {
-  return reachOf(family.model, family.compositionRange);
+  return modelReach(family.model, family.compositionRange);
 }
 
 /**
@@ -386,128 +387,11 @@ export function makeFamily(spec: FamilySpec): AbsorberFamily {
   if ((spec.kind === 'fixed') !== (spec.model.form === 'fixed')) {
     throw new Error(`family ${spec.id}: kind ${spec.kind} does not match model form ${spec.model.form}`);
   }
-  const reach = reachOf(spec.model, spec.compositionRange);
+  const reach = modelReach(spec.model, spec.compositionRange);
   if (!(reach.minEv > 0)) throw new Error(`family ${spec.id}: model gives a gap ≤ 0 eV`);
   const [wlo, whi] = spec.window.gapEv;
   if (!(wlo <= whi) || whi < reach.minEv - WINDOW_SLACK || wlo > reach.maxEv + WINDOW_SLACK) {
     throw new Error(`family ${spec.id}: window [${wlo}, ${whi}] eV misses the model's reach`);
   }
   return { ...spec, gapSpanEv: [reach.minEv, reach.maxEv] };
-}
-
-// ---------------------------------------------------------------------------
-// User-defined families (plain JSON from a design file)
-
-const USER_FIELDS = [
-  'id',
-  'name',
-  'variable',
-  'ea_ev',
-  'eb_ev',
-  'bowing_ev',
-  'window_ev',
-  'window_reason',
-  'range',
-  'dEg_dT_ev_per_k',
-  'refractive_index',
-  'source',
-] as const;
-
-const KEBAB = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
-
-/**
- * Validate a user-defined bowing-form family given as plain JSON.
- * Fields: id (kebab-case), name, variable (plain-words meaning of x),
- * ea_ev, eb_ev [eV], bowing_ev [eV], window_ev [lo, hi] [eV],
- * optional window_reason, optional range [xmin, xmax] [-] (default [0, 1]),
- * dEg_dT_ev_per_k [eV/K], refractive_index [-], source.
- * @param obj parsed JSON value
- * @param where location for messages, e.g. "design.yaml: materials[0]"
- * @throws UserError naming the field and where on any bad input
- */
-export function parseUserFamily(obj: unknown, where: string): AbsorberFamily {
-  const fail = (field: string, message: string): never => {
-    throw new UserError(`${where}: field "${field}" ${message}`);
-  };
-  if (typeof obj !== 'object' || obj === null || Array.isArray(obj)) {
-    throw new UserError(`${where}: a material family must be an object with fields ${USER_FIELDS.join(', ')}`);
-  }
-  const rec = obj as Record<string, unknown>;
-  for (const key of Object.keys(rec)) {
-    if (!(USER_FIELDS as readonly string[]).includes(key)) {
-      fail(key, `is not a material-family field; allowed: ${USER_FIELDS.join(', ')}`);
-    }
-  }
-  const str = (field: string, optional = false): string | undefined => {
-    const v = rec[field];
-    if (v === undefined && optional) return undefined;
-    if (typeof v !== 'string' || v.trim() === '') return fail(field, `must be a non-empty string, got ${JSON.stringify(v) ?? 'nothing'}`);
-    return v;
-  };
-  const num = (field: string, unit: string): number => {
-    const v = rec[field];
-    if (typeof v !== 'number' || !Number.isFinite(v)) {
-      return fail(field, `must be a finite number in ${unit}, got ${JSON.stringify(v) ?? 'nothing'}`);
-    }
-    return v;
-  };
-  const pair = (field: string, unit: string): [number, number] | undefined => {
-    const v = rec[field];
-    if (v === undefined) return undefined;
-    if (!Array.isArray(v) || v.length !== 2 || !v.every((e) => typeof e === 'number' && Number.isFinite(e))) {
-      return fail(field, `must be a pair [lo, hi] of finite numbers in ${unit}, got ${JSON.stringify(v)}`);
-    }
-    const [a, b] = v as [number, number];
-    if (!(a < b)) return fail(field, `must have lo < hi, got [${a}, ${b}]`);
-    return [a, b];
-  };
-
-  const id = str('id')!;
-  if (!KEBAB.test(id)) fail('id', `must be kebab-case (lower-case letters, digits and single hyphens), got "${id}"`);
-  const name = str('name')!;
-  const meaning = str('variable')!;
-  const eaEv = num('ea_ev', 'eV');
-  const ebEv = num('eb_ev', 'eV');
-  if (eaEv <= 0) fail('ea_ev', `must be a gap above 0 eV, got ${eaEv}`);
-  if (ebEv <= 0) fail('eb_ev', `must be a gap above 0 eV, got ${ebEv}`);
-  const bowingEv = num('bowing_ev', 'eV');
-  if (rec['window_ev'] === undefined) fail('window_ev', 'is required: the gap interval [lo, hi] in eV where the family gives working absorbers');
-  const windowEv = pair('window_ev', 'eV')!;
-  if (windowEv[0] <= 0) fail('window_ev', `must lie above 0 eV, got [${windowEv[0]}, ${windowEv[1]}]`);
-  const range = pair('range', '[-] (composition fractions)') ?? [0, 1];
-  if (range[0] < 0 || range[1] > 1) fail('range', `must lie within [0, 1], got [${range[0]}, ${range[1]}]`);
-  const dEgDt = num('dEg_dT_ev_per_k', 'eV/K');
-  if (Math.abs(dEgDt) > 0.01) {
-    fail('dEg_dT_ev_per_k', `is in eV/K (typical magnitude 1e-4 to 5e-4); ${dEgDt} looks like meV/K or wrong`);
-  }
-  const n = num('refractive_index', '[-]');
-  if (n < 1 || n > 10) fail('refractive_index', `must be a real refractive index between 1 and 10, got ${n}`);
-  const source = str('source')!;
-  const windowReason = str('window_reason', true) ?? `user-defined window (${source})`;
-
-  const model: GapModel = { form: 'bowing', eaEv, ebEv, bowingEv };
-  const reach = reachOf(model, range);
-  if (!(reach.minEv > 0)) {
-    fail('bowing_ev', `makes the gap fall to ${reach.minEv.toFixed(3)} eV at x=${xs(reach.xAtMin)}; a gap must stay above 0 eV`);
-  }
-  if (windowEv[1] < reach.minEv || windowEv[0] > reach.maxEv) {
-    fail(
-      'window_ev',
-      `[${windowEv[0]}, ${windowEv[1]}] eV does not overlap the gaps the model reaches over range [${range[0]}, ${range[1]}] (${eV(reach.minEv)}–${eV(reach.maxEv)} eV)`,
-    );
-  }
-  const userSource = `user-supplied: ${source}`;
-  return makeFamily({
-    id,
-    name,
-    kind: 'alloy',
-    variable: { symbol: 'x', meaning },
-    model,
-    compositionRange: range,
-    window: { gapEv: windowEv, reason: windowReason },
-    dEgDtEvPerK: dEgDt,
-    refractiveIndex: n,
-    citation: source,
-    sources: { gap_model: userSource, window: userSource, dEg_dT: userSource, refractive_index: userSource },
-  });
 }

@@ -16,7 +16,8 @@ export {
   isInWindow,
   makeFamily,
   modelCoefficientsEv,
-  parseUserFamily,
+  modelReach,
 } from './alloy.js';
+export { familyFromEntry, type UserFamilyEntry } from './user-family.js';
 export { III_V_BOWING_EV, III_V_GAMMA, III_V_X, getFamily, listFamilies } from './families.js';
 export { gapAtReference } from './reference-gap.js';

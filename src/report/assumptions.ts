@@ -6,6 +6,7 @@ import { engineering } from './numbers.js';
 import type { Spectrum } from '../light/spectrum.js';
 import type { Coupling, StackSpec, AbsorptanceModel } from '../stack/model.js';
 
+/** The caution every result carries: detailed-balance limits, no substitute for certified measurement, engineering sign-off, local codes or licensed practice. */
 export const CAUTION =
   'These are detailed-balance limits under the stated assumptions, not predictions of a real device. ' +
   'They are no substitute for certified measurement, engineering sign-off, local codes or licensed professional practice.';

@@ -11,7 +11,7 @@ import type { Design } from '../design/index.js';
 import { toolVersion } from './version.js';
 import { computeReport, type ReportData } from './compute.js';
 import { compareColourRange } from './charts/compare-chart.js';
-import { sharedColourDomain } from './charts/map-layers.js';
+import { sharedColourDomain, type ColourDomain } from './charts/map-layers.js';
 import { apeChart, colourScaleWords, compareChart, detailCharts, figureMeta, mapChart, r6, r8, wiringComparisonJson, type Chart } from './figure-data.js';
 import {
   answerRows,
@@ -127,15 +127,31 @@ function pageTemplate(): HandlebarsTemplateDelegate {
 
 
 /** Build the report of a design: compute, draw, format. */
-export function buildReport(design: Design, opts: { date: Date }): BuiltReport {
-  const data = computeReport(design);
+/** Colour scales given from outside, one per mapped gap pair ("x-y", 1-based), with the words naming who shares them. */
+export interface SharedScales {
+  byPair: Map<string, ColourDomain>;
+  /** E.g. "every scenario and wiring". */
+  sharedBy: string;
+}
+
+/** The key of a mapped gap pair in SharedScales ("1-2"). */
+export const pairKey = (m: { pair: { xCell: number; yCell: number } }): string => `${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
+
+/** Build the report of a design: compute (or take `data` already computed), draw, format; `scales` sets maps' colour scales shared with other reports. */
+export function buildReport(design: Design, opts: { date: Date; data?: ReportData; scales?: SharedScales }): BuiltReport {
+  const data = opts.data ?? computeReport(design);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
   const charts: Chart[] = [];
-  // One colour scale per gap pair, shared by every wiring's map of it.
+  // One colour scale per gap pair, shared by every wiring's map of it (or given, shared with other reports).
   const pairCount = Math.max(0, ...data.outcomes.map((o) => o.maps.length));
-  const domains = Array.from({ length: pairCount }, (_, j) => sharedColourDomain(data.outcomes.flatMap((o) => (o.maps[j] ? [o.maps[j].map] : []))));
+  const domains = Array.from({ length: pairCount }, (_, j) => {
+    const ms = data.outcomes.flatMap((o) => (o.maps[j] ? [o.maps[j]] : []));
+    return (ms[0] && opts.scales?.byPair.get(pairKey(ms[0]))) ?? sharedColourDomain(ms.map((m) => m.map));
+  });
   const sharing = (j: number) => {
+    const first = data.outcomes.find((o) => o.maps[j])?.maps[j];
+    if (first && opts.scales?.byPair.has(pairKey(first))) return `the maps of this pair for ${opts.scales.sharedBy}`;
     const keys = data.outcomes.filter((o) => o.maps[j]).map((o) => wiringTitle(o.wiring.key).split(' (')[0].toLowerCase());
     return keys.length > 1 ? `the maps of this pair for every wiring (${keys.join(', ')})` : 'this map';
   };

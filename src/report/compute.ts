@@ -7,12 +7,12 @@
 import type { Design, DesignMapPair, DesignWiring } from '../design/index.js';
 import { constraintRangeEv, MAX_MAP_AXIS_POINTS } from '../design/index.js';
 import { UserError } from '../errors.js';
-import { HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
+import { thermalVoltageV } from '../physics/constants.js';
 import { computeMap, uniformAxis } from '../search/map.js';
 import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
 import { StepObjective } from '../stack/step-objective.js';
 import { evaluateStack, type StackResult } from '../stack/evaluate.js';
-import type { StackSpec } from '../stack/model.js';
+import { isSeriesString, stackWithGaps, type StackSpec } from '../stack/model.js';
 import { stackOptics } from '../stack/optics.js';
 import { currentAtVoltageAm2, voltageAtCurrentV } from '../junction/diode.js';
 import { compareWithReference, type EnsembleComparison } from './ensemble-compare.js';
@@ -36,10 +36,6 @@ export interface ReportData {
 
 const round = (x: number, step: number, dir: 'up' | 'down') => (dir === 'up' ? Math.ceil(x / step - 1e-9) * step : Math.floor(x / step + 1e-9) * step);
 const clean = (x: number) => Number(x.toFixed(6));
-
-function stackAt(t: StackSpec, gaps: ArrayLike<number>, tempK = t.tempK): StackSpec {
-  return { ...t, tempK, subcells: t.subcells.map((c, i) => ({ ...c, gapEv: gaps[i] })) };
-}
 
 function marksFor(design: Design, cell: number, axis: 'x' | 'y'): MapMark[] {
   const c = design.subcells[cell].constraint;
@@ -108,7 +104,7 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
     warnings.push(`the ${w.key} optimum (${optimum.x.toFixed(3)} / ${optimum.y.toFixed(3)} eV) lies outside the map of subcells ${xCell + 1} and ${yCell + 1}; widen map.pairs x or y`);
   }
   let matching: Float64Array | null = null;
-  const series = w.wiring.kind === 'groups' && w.wiring.groups.length === 1;
+  const series = isSeriesString(w.wiring);
   if (series) {
     const ref = design.reference;
     matching = new Float64Array(x.length * y.length).fill(NaN);
@@ -122,7 +118,7 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
         profiled.forEach((c, m) => (gaps[c] = map.profileGaps[m][k]));
         for (let i = 0; i < n; i++) if (fixed[i] !== undefined) gaps[i] = fixed[i] as number;
         if (!gaps.every((g, i) => i === 0 || g < gaps[i - 1])) continue;
-        const o = stackOptics(stackAt(w.template, gaps, ref.tempK), ref.spectrum);
+        const o = stackOptics(stackWithGaps(w.template, gaps, ref.tempK), ref.spectrum);
         matching[k] = o.jgenAm2[xCell] - o.jgenAm2[yCell];
       }
     }
@@ -171,7 +167,7 @@ function jvCurves(design: Design, spec: StackSpec, r: StackResult): JvOutcome {
   const w = spec.wiring;
   let stack: JvCurve | null = null;
   let stackMpp: JvOutcome['stackMpp'] = null;
-  if (w.kind === 'groups' && w.groups.length === 1 && r.subcells.length > 1 && r.stackJscAm2 !== null) {
+  if (isSeriesString(w) && r.subcells.length > 1 && r.stackJscAm2 !== null) {
     const jsc = r.stackJscAm2;
     const voltageV: number[] = [];
     const currentAm2: number[] = [];
@@ -237,8 +233,8 @@ export function computeReport(design: Design, only?: ReportSelection): ReportDat
     const w = design.wirings[k];
     const d = searches[k];
     const template = withChosenTop(w.template, d.topAbsorptance);
-    const bestSpec = stackAt(template, d.result.best.gapsEv);
-    const detail = evaluateStack(stackAt(template, d.result.best.gapsEv, ref.tempK), ref.spectrum);
+    const bestSpec = stackWithGaps(template, d.result.best.gapsEv);
+    const detail = evaluateStack(stackWithGaps(template, d.result.best.gapsEv, ref.tempK), ref.spectrum);
     const stackFf = detail.stackVocV !== null && detail.stackJscAm2 !== null && detail.stackVocV > 0 ? detail.pmaxWm2 / (detail.stackVocV * detail.stackJscAm2) : null;
     return {
       wiring: w,
@@ -247,12 +243,10 @@ export function computeReport(design: Design, only?: ReportSelection): ReportDat
       detail,
       stackFf,
       sensitivity: sensitivity(design, d, d.result.bounds),
-      jv: jvCurves(design, stackAt(template, d.result.best.gapsEv, ref.tempK), detail),
+      jv: jvCurves(design, stackWithGaps(template, d.result.best.gapsEv, ref.tempK), detail),
       maps: pairs.map((p) => mapFor(design, w, d, p, optimaAll)),
     };
   });
   return { design, outcomes, comparison: only && !only.comparison ? null : compareWithReference(design, outcomes) };
 }
 
-/** Wavelength [nm] of a photon energy [eV]. */
-export const nmOfEv = (e: number): number => HC_EV_NM / e;

@@ -11,8 +11,8 @@ import type { EnsembleSummary } from '../light/ensemble.js';
 import { am15g } from '../light/sources.js';
 import { averagePhotonEnergyEv, type Spectrum } from '../light/spectrum.js';
 import { computeMap, type GapMap } from '../search/map.js';
-import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
-import type { StackSpec } from '../stack/model.js';
+import { runDesignSearch, type DesignSearchRequest, type DesignSearchResult } from '../search/design-search.js';
+import { isSeriesString, stackWithGaps, type StackSpec } from '../stack/model.js';
 import { stackOptics } from '../stack/optics.js';
 import type { MapOutcome, WiringOutcome } from './outcomes.js';
 
@@ -46,10 +46,8 @@ export interface MismatchSpread {
   energyWeightedMean: number;
 }
 
-export interface WiringComparison {
-  outcome: WiringOutcome;
-  /** The design search under AM1.5G alone. */
-  reference: DesignSearchResult;
+/** One design question's answer under an ensemble set against its answer under AM1.5G. */
+export interface AnswerComparison {
   /** The AM1.5G optimum, valued under both lights. */
   referenceOptimal: ComparedPoint;
   /** The ensemble optimum, valued under both lights. */
@@ -60,6 +58,12 @@ export interface WiringComparison {
   lossAbs: number;
   /** The same relative to the ensemble optimum [-]. */
   lossRel: number;
+}
+
+export interface WiringComparison extends AnswerComparison {
+  outcome: WiringOutcome;
+  /** The design search under AM1.5G alone. */
+  reference: DesignSearchResult;
   /** Series stacks: how far the AM1.5G-optimal stack's photocurrents drift apart under the ensemble's spectra; else null. */
   mismatch: MismatchSpread | null;
   maps: ComparedMap[];
@@ -81,8 +85,23 @@ export interface EnsembleComparison {
 export const SYNTHETIC_NAME = /synthetic|demo|invented|fictional|made[- ]up/i;
 
 function mismatchOf(t: StackSpec, gaps: number[], tempK: number, spectrum: Spectrum): number {
-  const j = stackOptics({ ...t, tempK, subcells: t.subcells.map((c, i) => ({ ...c, gapEv: gaps[i] })) }, spectrum).jgenAm2;
+  const j = stackOptics(stackWithGaps(t, gaps, tempK), spectrum).jgenAm2;
   return Math.max(...j) / Math.min(...j) - 1;
+}
+
+/** The same design question under AM1.5G alone (ASTM G173-03 global tilt), at the template's cell temperature. */
+export function questionUnderReference(question: DesignSearchRequest): DesignSearchRequest {
+  return { ...question, spectra: [{ spectrum: am15g(), weight: 1, tempK: question.template.tempK }], progress: undefined };
+}
+
+/** Each optimum valued under the other light: the gap shift and what the AM1.5G design gives up under the ensemble. */
+export function compareAnswers(ensemble: DesignSearchResult, reference: DesignSearchResult): AnswerComparison {
+  const refGaps = reference.result.best.gapsEv.slice();
+  const ensGaps = ensemble.result.best.gapsEv.slice();
+  const referenceOptimal = { gapsEv: refGaps, referenceEfficiency: reference.result.best.value, yieldEfficiency: ensemble.objective.value(refGaps) };
+  const ensembleOptimal = { gapsEv: ensGaps, referenceEfficiency: reference.objective.value(ensGaps), yieldEfficiency: ensemble.result.best.value };
+  const lossAbs = ensembleOptimal.yieldEfficiency - referenceOptimal.yieldEfficiency;
+  return { referenceOptimal, ensembleOptimal, shiftEv: ensGaps.map((g, i) => g - refGaps[i]), lossAbs, lossRel: lossAbs / ensembleOptimal.yieldEfficiency };
 }
 
 /** Compare each wiring's ensemble answer with the same question under AM1.5G; null unless the light is an ensemble. */
@@ -92,26 +111,25 @@ export function compareWithReference(design: Design, outcomes: WiringOutcome[]):
   const ref = am15g();
   const wirings = outcomes.map((o, k): WiringComparison => {
     const w = o.wiring;
+    const ens = o.search;
     let reference: DesignSearchResult;
     try {
-      reference = runDesignSearch({
-        template: w.template,
-        spectra: [{ spectrum: ref, weight: 1, tempK: w.template.tempK }],
-        constraints: design.subcells.map((s) => s.constraint),
-        spanEv: design.spanEv,
-        stepEv: design.searchStepEv,
-        loss: design.loss,
-      });
+      reference = runDesignSearch(
+        questionUnderReference({
+          template: w.template,
+          spectra: [],
+          constraints: design.subcells.map((s) => s.constraint),
+          spanEv: design.spanEv,
+          stepEv: design.searchStepEv,
+          loss: design.loss,
+        }),
+      );
     } catch (err) {
       if (err instanceof UserError) throw new UserError(`${design.path}: wirings[${k}] (${w.key}) under AM1.5G: ${err.message}`);
       throw err;
     }
-    const ens = o.search;
-    const refGaps = reference.result.best.gapsEv.slice();
-    const ensGaps = ens.result.best.gapsEv.slice();
-    const referenceOptimal = { gapsEv: refGaps, referenceEfficiency: reference.result.best.value, yieldEfficiency: ens.objective.value(refGaps) };
-    const ensembleOptimal = { gapsEv: ensGaps, referenceEfficiency: reference.objective.value(ensGaps), yieldEfficiency: ens.result.best.value };
-    const lossAbs = ensembleOptimal.yieldEfficiency - referenceOptimal.yieldEfficiency;
+    const answers = compareAnswers(ens, reference);
+    const refGaps = answers.referenceOptimal.gapsEv;
     const maps = o.maps.map((m): ComparedMap => {
       const { xCell, yCell } = m.pair;
       const bounds = ens.result.bounds;
@@ -125,7 +143,7 @@ export function compareWithReference(design: Design, outcomes: WiringOutcome[]):
         referenceThreshold: best.value * (1 - design.loss),
       };
     });
-    const series = w.wiring.kind === 'groups' && w.wiring.groups.length === 1 && refGaps.length > 1;
+    const series = isSeriesString(w.wiring) && refGaps.length > 1;
     let mismatch: MismatchSpread | null = null;
     if (series) {
       const per = design.spectra.map((s) => ({ x: mismatchOf(w.template, refGaps, s.tempK, s.spectrum), w: s.weight * s.spectrum.pinWm2 }));
@@ -137,17 +155,7 @@ export function compareWithReference(design: Design, outcomes: WiringOutcome[]):
         energyWeightedMean: per.reduce((a, p) => a + p.x * p.w, 0) / total,
       };
     }
-    return {
-      outcome: o,
-      reference,
-      referenceOptimal,
-      ensembleOptimal,
-      shiftEv: ensGaps.map((g, i) => g - refGaps[i]),
-      lossAbs,
-      lossRel: lossAbs / ensembleOptimal.yieldEfficiency,
-      mismatch,
-      maps,
-    };
+    return { outcome: o, reference, ...answers, mismatch, maps };
   });
   const [wlo, whi] = l.summary.ape.windowNm;
   return {

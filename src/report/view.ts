@@ -4,7 +4,8 @@
  * template and the JSON summary both read from here, so they cannot drift.
  */
 import { basename, dirname, resolve, sep } from 'node:path';
-import { HC_EV_NM } from '../physics/constants.js';
+import { HC_EV_NM, toMaCm2 } from '../physics/constants.js';
+import { isSeriesString } from '../stack/model.js';
 import type { Design, DesignSubcell } from '../design/index.js';
 import { constraintRangeEv } from '../design/index.js';
 import { CAUTION, describeAbsorptance, describeCoupling, emissionConvention } from './assumptions.js';
@@ -13,7 +14,7 @@ import type { EnsembleComparison, WiringComparison } from './ensemble-compare.js
 
 export const fx = (x: number | null | undefined, d: number): string => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(d));
 export const pc = (x: number, d = 2): string => `${(x * 100).toFixed(d)} %`;
-const mA = (jAm2: number) => fx(jAm2 / 10, 2);
+const mA = (jAm2: number) => fx(toMaCm2(jAm2), 2);
 
 /** A person's name for a wiring key. */
 export function wiringTitle(key: string): string {
@@ -107,8 +108,7 @@ function perSubcell(o: WiringOutcome, f: (i: number) => string): AnswerCell {
 }
 
 function isSeries(o: WiringOutcome): boolean {
-  const w = o.wiring.wiring;
-  return w.kind === 'groups' && w.groups.length === 1;
+  return isSeriesString(o.wiring.wiring);
 }
 
 /** Tolerance window text of subcell i, or "fixed". */
@@ -116,7 +116,8 @@ export function toleranceText(o: WiringOutcome, i: number): string {
   const t = o.search.result.tolerance.intervals.find((x) => x.subcell === i);
   if (!t) return 'fixed by the design';
   const open = t.openLow && t.openHigh ? ' (both ends at the allowed range)' : t.openLow ? ' (low end at the allowed range)' : t.openHigh ? ' (high end at the allowed range)' : '';
-  return `${fx(t.lowEv, 3)}–${fx(t.highEv, 3)} eV${open}`;
+  const c = o.search.compositionTolerance?.find((x) => x.subcell === i);
+  return `${fx(t.lowEv, 3)}–${fx(t.highEv, 3)} eV${open}${c ? `; x = ${fx(c.lowX, 3)}–${fx(c.highX, 3)}` : ''}`;
 }
 
 /** The answer table: one column per wiring. */
@@ -136,7 +137,8 @@ export function answerRows(data: ReportData): AnswerRow[] {
     rows.push({
       label: `gap of subcell ${s.index}${s.labelled ? ` (${s.label})` : ''}`,
       emphasis: true,
-      cells: outcomes.map((o) => ({ lines: [`${fx(o.search.result.best.gapsEv[i], 3)} eV`], sub: compositionLines(design, o, i) })),
+      // What the composition variable means is said once, in the first column.
+      cells: outcomes.map((o, k) => ({ lines: [`${fx(o.search.result.best.gapsEv[i], 3)} eV`], sub: compositionLines(design, o, i).slice(0, k === 0 ? undefined : 1) })),
     });
   });
   design.subcells.forEach((s, i) => {

@@ -4,8 +4,9 @@
  * the practitioner takes away: best gaps with compositions, runner-up basins,
  * the tolerance region, and warnings when a window binds.
  */
-import type { StackSpec } from '../stack/model.js';
+import { isSeriesString, type StackSpec } from '../stack/model.js';
 import { UserError } from '../errors.js';
+import { compositionInterval, type CompositionInterval } from './composition-tolerance.js';
 import { describeGap, gapAtReference, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
 import { buildObjective } from '../stack/objectives.js';
 import { bandEdgeEnergiesEv, searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
@@ -20,6 +21,7 @@ export type SubcellConstraint =
   | { kind: 'fixed'; gapEv: number }
   | { kind: 'material'; family: AbsorberFamily; fullRange: boolean };
 
+/** A design question: template stack, spectra, per-subcell constraints, gap span [eV], grid step [eV] and tolerance loss [-]. */
 export interface DesignSearchRequest {
   template: StackSpec;
   spectra: WeightedSpectrum[];
@@ -31,6 +33,7 @@ export interface DesignSearchRequest {
   progress?: (fraction: number) => void;
 }
 
+/** For a subcell bound to an absorber family: the composition(s) giving the chosen gap, and whether they lie in the practical window. */
 export interface CompositionNote {
   subcell: number;
   family: string;
@@ -44,6 +47,7 @@ export interface CompositionNote {
   note: string;
 }
 
+/** A design question answered: the search result, the objective, compositions, warnings and, when a window bound, the unconstrained optimum. */
 export interface DesignSearchResult {
   result: SearchResult;
   objective: GapObjective;
@@ -53,6 +57,8 @@ export interface DesignSearchResult {
   warnings: string[];
   /** The unconstrained optimum when a material window bound the search. */
   unconstrained?: SearchResult;
+  /** Tolerance intervals of subcells bound to alloy families, in composition units. */
+  compositionTolerance: CompositionInterval[];
 }
 
 /** Range or fixed gap [eV] at the operating temperature that a constraint allows. */
@@ -102,7 +108,7 @@ interface PreparedDesign {
 function prepareDesign(req: DesignSearchRequest): PreparedDesign {
   const n = req.template.subcells.length;
   if (req.constraints.length !== n) throw new UserError(`expected ${n} subcell constraints, got ${req.constraints.length}`);
-  if (req.freeTopAbsorptance && !(req.template.wiring.kind === 'groups' && req.template.wiring.groups.length === 1 && n >= 2)) {
+  if (req.freeTopAbsorptance && !(isSeriesString(req.template.wiring) && n >= 2)) {
     throw new UserError('a free top-cell absorptance is offered for series (2T) stacks of 2 or more subcells');
   }
   const objective = buildObjective(req.template, req.spectra, { freeTopAbsorptance: req.freeTopAbsorptance });
@@ -142,10 +148,20 @@ function assembleDesign(req: DesignSearchRequest, prep: PreparedDesign, result: 
   }
   let topAbsorptance: number | undefined;
   if (req.freeTopAbsorptance && objective instanceof StepObjective) topAbsorptance = objective.bestTopAbsorptance(result.best.gapsEv).absorptance;
-  return { result, objective, topAbsorptance, compositions, warnings, unconstrained };
+  const compositionTolerance = result.tolerance.intervals.flatMap((t) => {
+    const c = req.constraints[t.subcell];
+    if (c?.kind !== 'material') return [];
+    const ci = compositionInterval(c.family, t.subcell, t.gapEv, t.lowEv, t.highEv, tempK);
+    return ci ? [ci] : [];
+  });
+  return { result, objective, topAbsorptance, compositions, warnings, unconstrained, compositionTolerance };
 }
 
-/** Answer a design question in this thread. */
+/**
+ * Answer a design question in this thread: the global search over the allowed
+ * gaps [eV] (docs/PHYSICS.md §6), compositions for subcells bound to an absorber
+ * family (§7), and warnings when a practical window binds.
+ */
 export function runDesignSearch(req: DesignSearchRequest): DesignSearchResult {
   const prep = prepareDesign(req);
   const result = searchGaps(prep.objective, prep.problem, prep.edges);

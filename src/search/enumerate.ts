@@ -9,6 +9,8 @@
  */
 import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
 import { singlePowerWm2, type StepObjective } from '../stack/step-objective.js';
+import { lastIndexNotPast } from '../numerics/sorted.js';
+import type { Spectrum } from '../light/spectrum.js';
 
 export interface Candidate {
   /** Gaps [eV], top first. */
@@ -40,7 +42,13 @@ export interface EnumerationOptions {
   initialBest?: number;
 }
 
-/** Enumerate a StepObjective on an axis. */
+/**
+ * Enumerate a StepObjective on an axis, in named steps: tables along the axis
+ * (photon currents and J0 per spectrum), the bound tables (independent tails,
+ * the spectrum's steepest photon current), then a depth-first placement that
+ * extends partial sums along the path, cuts subtrees whose bound cannot reach
+ * the threshold, and keeps every solved leaf within the margin.
+ */
 export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): EnumerationResult {
   const { axis, ranges, margin } = opts;
   const n = obj.cells;
@@ -59,40 +67,9 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   const series = obj.options.wiring === 'series';
   const lowestIndex = ranges[n - 1][0];
 
-  // Independent wiring: U[k][m·(g+1)…] = best power of the last m cells when the first of them
-  // receives photons from axis gap g downwards (g = axis.length: the top of the stack). This
-  // dynamic programme makes the bound exact for one spectrum.
   const stride = g + 1;
-  const tail: Float64Array[] = [];
-  if (!series && canPrune) {
-    for (let k = 0; k < ns; k++) {
-      const u = new Float64Array((n + 1) * stride);
-      for (let m = 1; m <= n; m++) {
-        const cell = n - m;
-        const [lo, hi] = ranges[cell];
-        for (let top = 0; top <= g; top++) {
-          const qTop = top === g ? 0 : qn[k][top];
-          let bestP = -Infinity;
-          for (let gi = Math.min(hi, top - 1); gi >= lo; gi--) {
-            const rest = m === 1 ? 0 : u[(m - 1) * stride + gi];
-            if (rest === -Infinity) continue;
-            const pw = singlePowerWm2(qn[k][gi] - qTop, j0[k][gi] / ere[cell], vt[k]) + rest;
-            if (pw > bestP) bestP = pw;
-          }
-          u[m * stride + top] = bestP;
-        }
-      }
-      tail.push(u);
-    }
-  }
-  // Largest spectral photon current per eV, q·φ_E [A m⁻² eV⁻¹], for the monotone-tail test.
-  const maxFluxPerEv = spectra.map((ws) => {
-    let m = 0;
-    const w = ws.spectrum.wavelengthNm;
-    const f = ws.spectrum.photonFlux;
-    for (let i = 0; i < w.length; i++) m = Math.max(m, (f[i] * w[i] * w[i]) / HC_EV_NM);
-    return ELEMENTARY_CHARGE_C * m;
-  });
+  const tail = !series && canPrune ? qn.map((q, k) => independentTailPowers(q, j0[k], ere, vt[k], ranges)) : [];
+  const maxFluxPerEv = spectra.map((ws) => maxPhotonCurrentPerEv(ws.spectrum));
 
   const idx = new Int32Array(n);
   const qnCell = new Float64Array(n);
@@ -132,15 +109,7 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   const highestCollecting = (k: number, below: number, target: number): number => {
     const q = qn[k];
     if (below - 1 < lowestIndex || q[lowestIndex] < target) return -1;
-    let lo = lowestIndex;
-    let hi = below - 1;
-    if (q[hi] >= target) return hi;
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >> 1;
-      if (q[mid] >= target) lo = mid;
-      else hi = mid;
-    }
-    return lo;
+    return lastIndexNotPast(q, target, lowestIndex, below - 1, true);
   };
 
   const boundAt = (depth: number): number => {
@@ -212,6 +181,33 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
     return p / pin;
   };
 
+  /** Partial sums along the path after placing cell `depth` at axis index gi: smallest band current, Σ Voc, Σ P (independent). */
+  const extendPath = (depth: number, gi: number): void => {
+    for (let k = 0; k < ns; k++) {
+      const prev = k * (n + 1) + depth;
+      const here = prev + 1;
+      const band = qn[k][gi] - (depth === 0 ? 0 : qn[k][idx[depth - 1]]);
+      const j0i = j0[k][gi] / ere[depth];
+      const voc = band > 0 ? vt[k] * Math.log1p(band / j0i) : 0;
+      minJ[here] = depth === 0 ? band : Math.min(minJ[prev], band);
+      vocSum[here] = (depth === 0 ? 0 : vocSum[prev]) + voc;
+      powerSum[here] = (depth === 0 ? 0 : powerSum[prev]) + (series ? 0 : singlePowerWm2(band, j0i, vt[k]));
+    }
+  };
+
+  /** A solved leaf: keep it when it is within the margin of the best so far. */
+  const keepLeaf = (v: number): void => {
+    if (!(v >= threshold())) return;
+    const c = { gapsEv: Array.from(idx, (q) => axis[q]), value: v };
+    if (v > bestValue) {
+      bestValue = v;
+      best = c;
+    }
+    kept.push(c);
+    if (kept.length > 200000) kept = kept.filter((x) => x.value >= threshold());
+  };
+
+  /** Depth-first: place cell `depth` at every allowed axis index, top down, cutting subtrees by the bounds. */
   const place = (depth: number): void => {
     const [lo, hiRange] = ranges[depth];
     const hi = depth === 0 ? hiRange : Math.min(hiRange, idx[depth - 1] - 1);
@@ -231,28 +227,10 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
           continue;
         }
         solved++;
-        const v = !series && canPrune ? leafValueIndependent() : leafValue();
-        if (v >= threshold()) {
-          const c = { gapsEv: Array.from(idx, (q) => axis[q]), value: v };
-          if (v > bestValue) {
-            bestValue = v;
-            best = c;
-          }
-          kept.push(c);
-          if (kept.length > 200000) kept = kept.filter((x) => x.value >= threshold());
-        }
+        keepLeaf(!series && canPrune ? leafValueIndependent() : leafValue());
       } else {
         if (canPrune) {
-          for (let k = 0; k < ns; k++) {
-            const prev = k * (n + 1) + depth;
-            const here = prev + 1;
-            const band = qn[k][gi] - (depth === 0 ? 0 : qn[k][idx[depth - 1]]);
-            const j0i = j0[k][gi] / ere[depth];
-            const voc = band > 0 ? vt[k] * Math.log1p(band / j0i) : 0;
-            minJ[here] = depth === 0 ? band : Math.min(minJ[prev], band);
-            vocSum[here] = (depth === 0 ? 0 : vocSum[prev]) + voc;
-            powerSum[here] = (depth === 0 ? 0 : powerSum[prev]) + (series ? 0 : singlePowerWm2(band, j0i, vt[k]));
-          }
+          extendPath(depth, gi);
           if (bestValue > 0 && boundAt(depth + 1) < threshold()) {
             pruned++;
             continue;
@@ -267,6 +245,44 @@ export function enumerateStep(obj: StepObjective, opts: EnumerationOptions): Enu
   const cut = threshold();
   const candidates = kept.filter((c) => c.value >= cut).sort((a, b) => b.value - a.value);
   return { best, candidates, leaves, pruned, solved };
+}
+
+/**
+ * Independent wiring: U[m·(g+1) + top] = best power [W/m²] of the last m cells when the
+ * first of them receives photons from axis index `top` downwards (top = axis length: the
+ * top of the stack), over their allowed ranges. This dynamic programme makes the bound
+ * exact for one spectrum.
+ */
+function independentTailPowers(qn: Float64Array, j0: Float64Array, ere: readonly number[], vt: number, ranges: [number, number][]): Float64Array {
+  const n = ranges.length;
+  const g = qn.length;
+  const stride = g + 1;
+  const u = new Float64Array((n + 1) * stride);
+  for (let m = 1; m <= n; m++) {
+    const cell = n - m;
+    const [lo, hi] = ranges[cell];
+    for (let top = 0; top <= g; top++) {
+      const qTop = top === g ? 0 : qn[top];
+      let bestP = -Infinity;
+      for (let gi = Math.min(hi, top - 1); gi >= lo; gi--) {
+        const rest = m === 1 ? 0 : u[(m - 1) * stride + gi];
+        if (rest === -Infinity) continue;
+        const pw = singlePowerWm2(qn[gi] - qTop, j0[gi] / ere[cell], vt) + rest;
+        if (pw > bestP) bestP = pw;
+      }
+      u[m * stride + top] = bestP;
+    }
+  }
+  return u;
+}
+
+/** Largest spectral photon current per eV of a spectrum, q·φ_E [A m⁻² eV⁻¹], for the monotone-tail test. */
+function maxPhotonCurrentPerEv(s: Spectrum): number {
+  let m = 0;
+  const w = s.wavelengthNm;
+  const f = s.photonFlux;
+  for (let i = 0; i < w.length; i++) m = Math.max(m, (f[i] * w[i] * w[i]) / HC_EV_NM);
+  return ELEMENTARY_CHARGE_C * m;
 }
 
 function matched(topBand: number, secondBand: number): number {

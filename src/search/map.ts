@@ -9,6 +9,7 @@ import { StepObjective } from '../stack/step-objective.js';
 import { nelderMeadMax } from './refine.js';
 import { maximiseScan } from '../numerics/golden.js';
 
+/** A map over two subcell gaps: axes [eV], which subcells, and what the others do (fixed or maximised per pixel). */
 export interface MapRequest {
   /** Axis values [eV] of the upper mapped subcell. */
   x: Float64Array;
@@ -25,6 +26,7 @@ export interface MapRequest {
   progress?: (fraction: number) => void;
 }
 
+/** Efficiency [-] over two gaps [eV], row-major, with the best pixel. */
 export interface GapMap {
   x: Float64Array;
   y: Float64Array;
@@ -47,7 +49,11 @@ export function uniformAxis(lo: number, hi: number, step: number): Float64Array 
   return Float64Array.from({ length: n }, (_, k) => Number((lo + k * step).toFixed(10)));
 }
 
-/** Compute a map. */
+/**
+ * Efficiency [-] of the objective over two subcell gaps [eV] (x the upper, y the lower),
+ * the other subcells fixed or maximised per pixel (a profile map); NaN where the gaps
+ * would not descend. Two ideal step cells run from tables along each axis.
+ */
 export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   const { x, y, xCell, yCell } = req;
   const n = obj.cells;

@@ -12,6 +12,7 @@ import { compassMax, nelderMeadMax, type Box } from './refine.js';
 import type { GapObjective } from '../stack/gap-objective.js';
 import { StepObjective } from '../stack/step-objective.js';
 
+/** What the global search may vary: number of subcells, gap span [eV], per-subcell ranges or fixed gaps [eV], grid step [eV] and the tolerance loss [-]. */
 export interface SearchProblem {
   cells: number;
   /** Global gap span [eV], default 0.5–2.6. */
@@ -31,11 +32,13 @@ export interface SearchProblem {
   progress?: (fraction: number) => void;
 }
 
+/** A local optimum: gaps [eV], top first, and the objective there [-]. */
 export interface Basin {
   gapsEv: number[];
   value: number;
 }
 
+/** How far one gap may move alone, the others at the optimum, within the allowed loss [eV]. */
 export interface ToleranceInterval {
   /** 0-based subcell index. */
   subcell: number;
@@ -47,6 +50,7 @@ export interface ToleranceInterval {
   openHigh: boolean;
 }
 
+/** The tolerance region: threshold (1 − loss)·best [-] and one interval per free subcell. */
 export interface ToleranceRegion {
   loss: number;
   threshold: number;
@@ -54,6 +58,7 @@ export interface ToleranceRegion {
   intervals: ToleranceInterval[];
 }
 
+/** The global search's answer: best stack, runner-up basins, tolerance region, the bounds used [eV] and statistics. */
 export interface SearchResult {
   best: Basin;
   basins: Basin[];
@@ -160,7 +165,12 @@ function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: numb
   return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, t0 };
 }
 
-/** Run the global search in this thread. */
+/**
+ * The global search in this thread (docs/PHYSICS.md §6): enumerate ordered gaps
+ * [eV] on a coarse axis holding the spectrum's band edges, refine distinct seeds
+ * below 1 meV, report the best, runner-up basins and the tolerance region.
+ * @throws ParameterError naming the parameter of `p` at fault
+ */
 export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = []): SearchResult {
   return searchPrepared(obj, p, prepareSearch(obj, p, edgeEnergiesEv));
 }

@@ -22,6 +22,8 @@ export interface SiteLight {
   lonDeg: number;
   /** Weighted spectra on the module plane; weights in hours. */
   spectra: LabelledSpectrum[];
+  /** Annual plane-of-array insolation as the light's engine reports it [kWh/m²]; default Σ hours·P_in of the spectra. */
+  poaKwhM2?: number;
 }
 
 /** Turns one weather file into its site's light. */
@@ -62,7 +64,7 @@ export function insolationKwhM2(spectra: readonly LabelledSpectrum[]): number {
 /** One site's answer for every wiring of the design. */
 export function answerAtSite(design: Design, light: SiteLight, am15gOptima: readonly number[][]): Omit<SiteResult, 'key' | 'file'> {
   if (light.spectra.length === 0) throw new UserError(`${light.name}: no daylight hours to weigh`);
-  const poa = insolationKwhM2(light.spectra);
+  const poa = light.poaKwhM2 ?? insolationKwhM2(light.spectra);
   const wirings: SiteWiringResult[] = design.wirings.map((w, k) => {
     const d = runDesignSearch(request(design, w, light.spectra));
     const best = d.result.best;
@@ -70,6 +72,7 @@ export function answerAtSite(design: Design, light: SiteLight, am15gOptima: read
     return {
       wiring: wiringPrefix(w),
       gapsEv: [...best.gapsEv],
+      // Yield-weighted efficiency Σ w·P_max / Σ w·P_in times the insolation Σ w·P_in.
       yieldKwhM2: best.value * poa,
       yieldEfficiency: best.value,
       am15gLoss: 1 - refYield / best.value,

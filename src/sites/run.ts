@@ -4,12 +4,12 @@
  * finishes (memory does not grow with the number of sites), resumable after
  * the last complete row.
  */
-import { appendFileSync, existsSync, readFileSync, readdirSync, statSync, truncateSync, writeFileSync, mkdirSync } from 'node:fs';
+import { appendFileSync, existsSync, readdirSync, statSync, truncateSync, writeFileSync, mkdirSync } from 'node:fs';
 import { basename, extname, join } from 'node:path';
 import { UserError } from '../errors.js';
 import { readLines } from './lines.js';
 import { columnsFor, csvHeader, csvRow, CSV_HEADER_LINES, identityMismatch, jsonHeader, jsonRow, parseCsvHeader, parseJsonHeader, rowKey, sitesSha256, type PartIdentity, type SiteResult } from './parts.js';
-import { inShard, shardLabel, siteKeyOfBytes, type Shard } from './shard.js';
+import { inShard, shardLabel, siteKeyOfFile, type Shard } from './shard.js';
 
 /** The question asked at every site; `evaluate` is the engine's per-site answer. */
 export interface SiteQuestion {
@@ -59,7 +59,7 @@ export function identifySites(paths: readonly string[]): { sites: WeatherFile[];
   const byKey = new Map<string, string>();
   const duplicates: string[] = [];
   for (const path of [...paths].sort((a, b) => (basename(a) < basename(b) ? -1 : basename(a) > basename(b) ? 1 : a < b ? -1 : a > b ? 1 : 0))) {
-    const key = siteKeyOfBytes(readFileSync(path));
+    const key = siteKeyOfFile(path);
     if (byKey.has(key)) duplicates.push(path);
     else byKey.set(key, path);
   }

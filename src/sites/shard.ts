@@ -6,6 +6,7 @@
  * agrees on who does what without talking to the others.
  */
 import { createHash } from 'node:crypto';
+import { closeSync, openSync, readSync } from 'node:fs';
 import { UserError } from '../errors.js';
 
 /** One share of the work: `index` in 0..count-1. Written for people as `index+1/count`. */
@@ -127,6 +128,24 @@ export function resolveShard(opts: { option?: string; shardCount?: number; env?:
 /** SHA-256 of a weather file's bytes, hex: the site's identity for sharding, ordering and resuming. */
 export function siteKeyOfBytes(bytes: Uint8Array): string {
   return createHash('sha256').update(bytes).digest('hex');
+}
+
+/** SHA-256 (hex) of a file's bytes, read in fixed-size chunks (memory does not grow with the file). */
+export function siteKeyOfFile(path: string): string {
+  const hash = createHash('sha256');
+  const buf = Buffer.alloc(1 << 16);
+  let fd: number;
+  try {
+    fd = openSync(path, 'r');
+  } catch (err) {
+    throw new UserError(`${path}: cannot read the weather file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  try {
+    for (let n = readSync(fd, buf, 0, buf.length, null); n > 0; n = readSync(fd, buf, 0, buf.length, null)) hash.update(buf.subarray(0, n));
+  } finally {
+    closeSync(fd);
+  }
+  return hash.digest('hex');
 }
 
 /** The shard (0-based) a site key belongs to among `count`: its first 52 bits modulo count. */

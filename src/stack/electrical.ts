@@ -30,7 +30,7 @@ export interface StackElectrical {
 }
 
 /** Cascade photocurrents top-down for given operating currents [A/m²]. */
-export function cascadePhotocurrents(el: StackElectrical, currents: Float64Array, jph: Float64Array): void {
+function cascadePhotocurrents(el: StackElectrical, currents: Float64Array, jph: Float64Array): void {
   const n = el.jgenAm2.length;
   jph[0] = el.jgenAm2[0];
   for (let i = 1; i < n; i++) jph[i] = el.jgenAm2[i] + el.eta[i - 1] * (jph[i - 1] - currents[i - 1]);
@@ -41,7 +41,7 @@ export function cascadePhotocurrents(el: StackElectrical, currents: Float64Array
  * where u_i = c_i + d_i·J. `inGroup[i]` marks the cells that carry J; `fixedJ[i]`
  * is the current of the others; `rs` the series resistances [Ω·m²]. Returns the maximising J [A/m²].
  */
-export function maximiseGroupCurrent(
+function maximiseGroupCurrent(
   c: Float64Array,
   d: Float64Array,
   j0: Float64Array,

@@ -8,10 +8,11 @@ import { BOLTZMANN_EV_K, thermalVoltageV } from '../physics/constants.js';
 import { j0WithEreAm2 } from '../junction/radiative.js';
 import type { Spectrum } from '../light/spectrum.js';
 import { maxPowerPoint, vocV } from '../junction/diode.js';
-import { couplingIndexBelow, type StackSpec } from './model.js';
+import { couplingIndexBelow, isSeriesString, type StackSpec } from './model.js';
 import { stackOptics } from './optics.js';
 import { maxPowerPointWithRs, operateGroups, operateVoltageMatched, seriesTerminals, type StackElectrical } from './electrical.js';
 
+/** One subcell in the evaluated stack: photocurrents [A/m²], J0 [A/m²], operating point [V, A/m²], power [W/m²], and the subcell alone (Voc [V], FF [-]). */
 export interface SubcellResult {
   gapEv: number;
   /** Photogeneration before coupling [A/m²]. */
@@ -33,6 +34,7 @@ export interface SubcellResult {
   jmpAm2: number;
 }
 
+/** A stack under one spectrum: efficiency [-], P_max and P_in [W/m²], every subcell, and the terminals of a series string. */
 export interface StackResult {
   efficiency: number;
   pmaxWm2: number;
@@ -137,7 +139,7 @@ export function stackWarnings(spec: StackSpec): string[] {
 }
 
 /** Saturation currents with ERE and the coupling model applied, plus per-interface η. */
-export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Float64Array): StackElectrical {
+function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Float64Array): StackElectrical {
   const n = spec.subcells.length;
   const j0 = new Float64Array(n);
   const eta = new Float64Array(Math.max(0, n - 1));
@@ -161,7 +163,13 @@ export function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Flo
   return { jgenAm2: jgen, j0Am2: j0, eta, vt: thermalVoltageV(spec.tempK), ...(rs.some((r) => r > 0) ? { rsOhmM2: rs } : {}) };
 }
 
-/** Full evaluation of a stack under a spectrum. */
+/**
+ * A stack under one spectrum in the detailed-balance limit (Shockley & Queisser,
+ * J. Appl. Phys. 32 (1961) 510; docs/PHYSICS.md §2–§5): optics down the stack,
+ * then coupling, then the wiring solver. Efficiency [-], powers [W/m²],
+ * currents [A/m²], voltages [V], at the stack's cell temperature [K].
+ * @throws UserError naming the part of the stack the physics cannot describe
+ */
 export function evaluateStack(spec: StackSpec, spectrum: Spectrum): StackResult {
   validateStack(spec);
   const optics = stackOptics(spec, spectrum);
@@ -188,7 +196,7 @@ export function evaluateStack(spec: StackSpec, spectrum: Spectrum): StackResult 
       jmpAm2: mpp.jmpAm2,
     };
   });
-  const oneGroup = w.kind === 'groups' && w.groups.length === 1;
+  const oneGroup = isSeriesString(w);
   const terminals = oneGroup ? seriesTerminals(el, w.groups[0]) : null;
   return {
     efficiency: op.powerWm2 / spectrum.pinWm2,

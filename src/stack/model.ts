@@ -70,6 +70,7 @@ export const DEFAULT_FILM_INDEX = 3.5;
 /** A constant or a table over photon energy [eV]; linear interpolation, end values held. */
 export type SpectralValue = number | { energyEv: number[]; value: number[] };
 
+/** One subcell: its gap [eV], external radiative efficiency (0, 1] and absorptance model. */
 export interface SubcellSpec {
   /** Band gap [eV]. */
   gapEv: number;
@@ -120,6 +121,7 @@ export type Wiring =
       groups: [number[], number[]];
     };
 
+/** A stack as plain data: subcells top (light side) first, cell temperature [K], optics between them, coupling and wiring. */
 export interface StackSpec {
   subcells: SubcellSpec[];
   /** Cell temperature [K]. */
@@ -145,5 +147,17 @@ export function idealStack(gapsEv: number[], wiring: Wiring, overrides: Partial<
   };
 }
 
+/** 2T: one series string through all n subcells, one current (docs/PHYSICS.md §5). */
 export const seriesWiring = (n: number): Wiring => ({ kind: 'groups', label: 'series', groups: [Array.from({ length: n }, (_, i) => i)] });
+/** 4T (2N-terminal): every subcell its own circuit at its own maximum power point (docs/PHYSICS.md §5). */
 export const independentWiring = (n: number): Wiring => ({ kind: 'groups', label: 'independent', groups: Array.from({ length: n }, (_, i) => [i]) });
+
+/** The template stack with these gaps [eV], top first (and, if given, another cell temperature [K]); everything else unchanged. */
+export function stackWithGaps(template: StackSpec, gapsEv: ArrayLike<number>, tempK = template.tempK): StackSpec {
+  return { ...template, tempK, subcells: template.subcells.map((c, i) => ({ ...c, gapEv: gapsEv[i] })) };
+}
+
+/** True when the wiring is one series string through every subcell (2T): one current, re-matched under every spectrum. */
+export function isSeriesString(w: Wiring): boolean {
+  return w.kind === 'groups' && w.groups.length === 1;
+}

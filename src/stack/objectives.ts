@@ -4,7 +4,7 @@
  * optics, coupling or wiring) with the gaps substituted into a template.
  * Both score a weighted set of spectra as Σ w·P_max / Σ w·P_in.
  */
-import { hasSeriesResistance, type StackSpec } from './model.js';
+import { hasSeriesResistance, isSeriesString, stackWithGaps, type StackSpec } from './model.js';
 import { evaluateStack } from './evaluate.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import type { GapObjective } from './gap-objective.js';
@@ -30,7 +30,7 @@ export class GenericObjective implements GapObjective {
 
   /** The template with these gaps [eV] (and, for a spectrum, its cell temperature). */
   stackAt(gapsEv: ArrayLike<number>, tempK = this.template.tempK): StackSpec {
-    return { ...this.template, tempK, subcells: this.template.subcells.map((c, i) => ({ ...c, gapEv: gapsEv[i] })) };
+    return stackWithGaps(this.template, gapsEv, tempK);
   }
 
   value(gapsEv: ArrayLike<number>): number {
@@ -45,7 +45,7 @@ export class GenericObjective implements GapObjective {
 export function stepObjectiveApplies(t: StackSpec): boolean {
   const w = t.wiring;
   const n = t.subcells.length;
-  const series = w.kind === 'groups' && w.groups.length === 1;
+  const series = isSeriesString(w);
   const independent = w.kind === 'groups' && w.groups.length === n && w.groups.every((g) => g.length === 1);
   return (
     (series || independent) &&
@@ -57,19 +57,24 @@ export function stepObjectiveApplies(t: StackSpec): boolean {
   );
 }
 
+/** Choices of the objective beyond the template stack. */
 export interface ObjectiveOptions {
   /** Let the search choose the top cell's constant absorptance (2T thinning). */
   freeTopAbsorptance?: boolean;
 }
 
-/** The fastest exact objective for a template stack under weighted spectra. */
+/**
+ * The fastest exact objective for a template stack under weighted spectra: the
+ * closed-form step objective where it reproduces the template, else the full
+ * evaluation. Its value is Σ w·P_max / Σ w·P_in [-] at gaps [eV] (docs/PHYSICS.md §8).
+ */
 export function buildObjective(template: StackSpec, spectra: WeightedSpectrum[], opts: ObjectiveOptions = {}): GapObjective {
   if (stepObjectiveApplies(template)) {
     const w = template.wiring;
     const top = template.subcells[0].absorptance;
     return new StepObjective({
       cells: template.subcells.length,
-      wiring: w.kind === 'groups' && w.groups.length === 1 ? 'series' : 'independent',
+      wiring: isSeriesString(w) ? 'series' : 'independent',
       ere: template.subcells.map((c) => c.ere),
       topAbsorptance: opts.freeTopAbsorptance ? 'free' : top.kind === 'step' ? top.value : 1,
       spectra,

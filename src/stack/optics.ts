@@ -14,6 +14,7 @@ import { photonsAboveEv, type Spectrum } from '../light/spectrum.js';
 import { BLACKBODY_PREFACTOR_EV, ELEMENTARY_CHARGE_C } from '../physics/constants.js';
 import { boseEinsteinTailEv3, j0RadStepAm2 } from '../junction/radiative.js';
 import type { AbsorptanceModel, AlphaModel, SpectralValue, StackSpec } from './model.js';
+import { lastIndexNotPast } from '../numerics/sorted.js';
 
 export interface StackOptics {
   /** Photogeneration of each subcell before coupling [A/m²]. */
@@ -48,17 +49,19 @@ function interpolateClamped(xs: number[], ys: number[], x: number): number {
   const n = xs.length;
   if (x <= xs[0]) return ys[0];
   if (x >= xs[n - 1]) return ys[n - 1];
-  let lo = 0;
-  let hi = n - 1;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (xs[mid] <= x) lo = mid;
-    else hi = mid;
-  }
+  const lo = lastIndexNotPast(xs, x, 0, n - 2);
+  const hi = lo + 1;
   return ys[lo] + ((ys[hi] - ys[lo]) * (x - xs[lo])) / (xs[hi] - xs[lo]);
 }
 
-/** Absorption coefficient [cm⁻¹] at an energy [eV] for a subcell of a gap [eV]. */
+/**
+ * Absorption coefficient [cm⁻¹] at an energy [eV] for a subcell of a gap [eV].
+ * Direct edge α0·√(E − E_g) [cm⁻¹] above the join E_g + E_U/2; below it the
+ * exponential Urbach tail α0·√(E_U/2)·exp((E − E_g − E_U/2)/E_U) (Urbach,
+ * Phys. Rev. 92 (1953) 1324), joined where both value and slope agree, and cut
+ * to zero URBACH_TAIL_DEPTH_EV below the gap. A table is interpolated linearly,
+ * zero below its first energy, its last value held above its last.
+ */
 export function alphaPerCm(model: AlphaModel, gapEv: number, energyEv: number): number {
   if (model.kind === 'table') {
     if (energyEv < model.energyEv[0]) return 0;

@@ -13,7 +13,7 @@ import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
 import { photonsAboveEv } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
 import { lambertW0OfExp } from '../junction/lambert-w.js';
-import { goldenSectionMax } from '../numerics/golden.js';
+import { bestTopAbsorptance, type TopAbsorptanceChoice } from './top-absorptance.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import type { GapObjective } from './gap-objective.js';
 
@@ -171,13 +171,9 @@ export class StepObjective implements GapObjective {
     return this.bestTopAbsorptance(gapsEv).efficiency;
   }
 
-  /** Best constant top absorptance in (0, 1] for these gaps, by golden section. */
-  bestTopAbsorptance(gapsEv: ArrayLike<number>): { absorptance: number; efficiency: number } {
-    const f = (x: number) => this.valueAt(gapsEv, x);
-    const a = goldenSectionMax(f, 0.05, 1, 1e-7);
-    const full = f(1);
-    const fa = f(a);
-    return fa >= full ? { absorptance: a, efficiency: fa } : { absorptance: 1, efficiency: full };
+  /** Best constant top absorptance for these gaps (the engine's one top-absorptance optimiser, `top-absorptance.ts`). */
+  bestTopAbsorptance(gapsEv: ArrayLike<number>): TopAbsorptanceChoice {
+    return bestTopAbsorptance((x) => this.valueAt(gapsEv, x));
   }
 
   get spectra(): readonly WeightedSpectrum[] {

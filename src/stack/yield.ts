@@ -7,6 +7,7 @@ import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import { evaluateStack, type StackResult } from './evaluate.js';
 import type { StackSpec } from './model.js';
 
+/** One spectrum of a set: the stack's power [W/m²] and efficiency [-] under it. */
 export interface SpectrumYield {
   label: string;
   timestamp?: string;
@@ -21,6 +22,7 @@ export interface SpectrumYield {
   subcells: { gapEv: number; jOpAm2: number; jphAm2: number; vOpV: number; vocV: number; powerWm2: number }[];
 }
 
+/** A stack over a weighted set of spectra: yield-weighted efficiency Σ w·P_max / Σ w·P_in [-] (docs/PHYSICS.md §8) and the per-spectrum results. */
 export interface YieldResult {
   /** Σ w·P_max / Σ w·P_in [-]. */
   yieldEfficiency: number;

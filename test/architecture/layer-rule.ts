@@ -27,7 +27,7 @@ const REPORT = [...DESIGN, 'report'];
  * with materials beside the engine chain (it needs only the base) and usable
  * from search upward; io (safe reading and atomic writing of files) is a base
  * utility every layer may use; sites (batches over many weather files) sits
- * over the report; bench sits beside cli over the engine and sites; index is the public
+ * over the report; bench sits beside cli over the engine, design files and sites; index is the public
  * library surface.
  */
 export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
@@ -44,7 +44,7 @@ export const MAY_IMPORT: Readonly<Record<string, readonly string[]>> = {
   report: DESIGN,
   sites: REPORT,
   cli: [...REPORT, 'sites'],
-  bench: [...SEARCH, 'sites'],
+  bench: [...DESIGN, 'sites'],
   index: [...REPORT, 'sites'],
 };
 

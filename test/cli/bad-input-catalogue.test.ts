@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { describe, expect, test } from 'vitest';
-import { BIN, ROOT, runCli } from '../helpers/cli.js';
+import { BIN, ROOT, runCli, runCliHere } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'gapstack-bad-'));
 const file = (name: string, text: string | Buffer) => {
@@ -48,28 +48,28 @@ const spectrumFiles: [string, string, RegExp][] = [
 ];
 
 describe('spectrum files (spectrum, evaluate, optimize, map)', () => {
-  test.each(spectrumFiles)('%s', (_name, path, message) => {
+  test.each(spectrumFiles)('%s', async (_name, path, message) => {
     for (const args of [
       ['spectrum', path],
       ['evaluate', '--gaps', '1.34', '--spectrum', path],
       ['optimize', '--cells', '1', '--spectrum', path],
       ['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.05', '--spectrum', path],
     ]) {
-      const r = runCli(args);
+      const r = await runCliHere(args);
       expect(r.code, args.join(' ')).toBe(2);
       expect(r.stderr).toMatch(message);
       expect(r.stderr.trim().split('\n')).toHaveLength(1);
       expect(r.stderr).not.toMatch(/\n\s+at /);
     }
   });
-  test('--units that contradict the header are refused', () => {
-    const r = runCli(['spectrum', 'spectra/am1.5g.tsv', '--units', 'um,W/m2/um']);
+  test('--units that contradict the header are refused', async () => {
+    const r = await runCliHere(['spectrum', 'spectra/am1.5g.tsv', '--units', 'um,W/m2/um']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/header names nm, W\/m2\/nm but --units declares um, W\/m2\/um/);
   });
-  test('a wrongly declared unit is refused', () => {
+  test('a wrongly declared unit is refused', async () => {
     const bare = file('bare.txt', good);
-    const r = runCli(['spectrum', bare, '--units', 'nm,W/m2']);
+    const r = await runCliHere(['spectrum', bare, '--units', 'nm,W/m2']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--units "nm,W\/m2" is not understood/);
   });
@@ -109,7 +109,26 @@ const argumentCases: [string, string[], RegExp][] = [
 ];
 
 describe('command-line arguments', () => {
-  test.each(argumentCases)('%s', (_name, args, message) => {
+  test.each(argumentCases)('%s', async (_name, args, message) => {
+    const r = await runCliHere(args);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(message);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).not.toMatch(/\n\s+at /);
+  });
+});
+
+// The cases above run the built command line in-process; one case per command family runs the binary itself.
+describe('the binary, one spawned process per command family', () => {
+  test.each([
+    ['spectrum', ['spectrum', spectrumFiles[0][1]], spectrumFiles[0][2]],
+    ['evaluate', ['evaluate'], /Missing required argument: gaps/],
+    ['optimize', ['optimize', '--cells', '2', '--wiring', 'independent', '--free-top-absorptance'], /series \(2T\) stacks/],
+    ['map', ['map', '--step', '0.01'], /Missing required arguments?: x, y/],
+    ['yield', ['yield', '--gaps', '1.7,1.1'], /Missing required argument: ensemble/],
+    ['materials', ['materials', 'unobtainium'], /unobtainium/],
+    ['no command', ['frobnicate'], /Unknown argument: frobnicate/],
+  ] as [string, string[], RegExp][])('%s', (_family, args, message) => {
     const r = runCli(args);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(message);

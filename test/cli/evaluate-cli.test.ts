@@ -2,7 +2,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
-import { runCli, runJson } from '../helpers/cli.js';
+import { runCli, runCliHere, runJsonHere } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'gapstack-cli-'));
 const write = (name: string, text: string) => {
@@ -12,8 +12,8 @@ const write = (name: string, text: string) => {
 };
 
 describe('gapstack evaluate', () => {
-  test('single junction JSON carries the contract fields (1.34 eV: 33.68 %, Voc 1.0817 V per docs/PHYSICS.md §2)', () => {
-    const j = runJson(['evaluate', '--gaps', '1.34']);
+  test('single junction JSON carries the contract fields (1.34 eV: 33.68 %, Voc 1.0817 V per docs/PHYSICS.md §2)', async () => {
+    const j = await runJsonHere(['evaluate', '--gaps', '1.34']);
     expect(Math.abs(j.efficiency - 0.3368)).toBeLessThan(2e-4);
     expect(j.temp_k).toBe(300);
     expect(j.pin_w_m2).toBeCloseTo(1000.37, 2);
@@ -36,29 +36,29 @@ describe('gapstack evaluate', () => {
     expect(r.stdout).toMatch(/not predictions of a real device/);
   });
 
-  test('ERE and concentration reach the engine (Voc shift V_t·ln 1e4 ≈ 0.2382 V at 300 K)', () => {
-    const a = runJson(['evaluate', '--gaps', '1.34']).subcells[0].voc_v;
-    const b = runJson(['evaluate', '--gaps', '1.34', '--ere', '1e-4']).subcells[0].voc_v;
+  test('ERE and concentration reach the engine (Voc shift V_t·ln 1e4 ≈ 0.2382 V at 300 K)', async () => {
+    const a = (await runJsonHere(['evaluate', '--gaps', '1.34'])).subcells[0].voc_v;
+    const b = (await runJsonHere(['evaluate', '--gaps', '1.34', '--ere', '1e-4'])).subcells[0].voc_v;
     expect(a - b).toBeCloseTo(0.025852 * Math.log(1e4), 3);
-    const c = runJson(['evaluate', '--gaps', '1.34', '--suns', '100']);
+    const c = await runJsonHere(['evaluate', '--gaps', '1.34', '--suns', '100']);
     expect(c.pin_w_m2).toBeCloseTo(100037.07, 0);
   });
 
-  test('a 6000 K blackbody at full concentration: 39.59 % at 1.34 eV (independent reference: test/fixtures/reference/runner.py, blackbody f = 1)', () => {
-    const j = runJson(['evaluate', '--gaps', '1.34', '--spectrum', 'blackbody:6000', '--suns', 'max']);
+  test('a 6000 K blackbody at full concentration: 39.59 % at 1.34 eV (independent reference: test/fixtures/reference/runner.py, blackbody f = 1)', async () => {
+    const j = await runJsonHere(['evaluate', '--gaps', '1.34', '--spectrum', 'blackbody:6000', '--suns', 'max']);
     expect(Math.abs(j.efficiency - 0.3958839789667635)).toBeLessThan(2e-4);
   });
 
-  test('a user spectrum file with a target irradiance', () => {
+  test('a user spectrum file with a target irradiance', async () => {
     const p = write('flat.csv', 'wavelength_nm,irradiance_W_m2_nm\n300,1\n500,1\n700,1\n900,1\n1100,1\n1300,1\n');
-    const j = runJson(['evaluate', '--gaps', '1.2', '--spectrum', p, '--irradiance', '800']);
+    const j = await runJsonHere(['evaluate', '--gaps', '1.2', '--spectrum', p, '--irradiance', '800']);
     expect(j.pin_w_m2).toBeCloseTo(800, 6);
   });
 });
 
 describe('gapstack spectrum', () => {
-  test('AM1.5G summary: 1000.37 W/m² (ASTM G173-03), photon flux, APE, range', () => {
-    const j = runJson(['spectrum', 'am1.5g', '--gaps', '1.12']);
+  test('AM1.5G summary: 1000.37 W/m² (ASTM G173-03), photon flux, APE, range', async () => {
+    const j = await runJsonHere(['spectrum', 'am1.5g', '--gaps', '1.12']);
     expect(Math.abs(j.pin_w_m2 - 1000.37)).toBeLessThan(0.01);
     expect(j.range_nm).toEqual([280, 4000]);
     expect(j.photon_flux_m2_s).toBeGreaterThan(4e21);
@@ -92,8 +92,8 @@ describe('bad input exits 2 with one clear line', () => {
     ['bad blackbody', ['spectrum', 'blackbody:hot'], /blackbody temperature must be a number of kelvin/],
     ['no command', [], /name a command/],
   ];
-  test.each(cases)('%s', (_name, args, message) => {
-    const r = runCli(args);
+  test.each(cases)('%s', async (_name, args, message) => {
+    const r = await runCliHere(args);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(message);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
@@ -103,14 +103,14 @@ describe('bad input exits 2 with one clear line', () => {
 });
 
 describe('thinning the top cell from the command line', () => {
-  test('--top-absorptance best finds A = 0.8032 and 41.544 % for 1.55/1.12 eV (independent reference: test/fixtures/reference/runner.py, top_absorptance_optimum)', () => {
-    const j = runJson(['evaluate', '--gaps', '1.55,1.12', '--top-absorptance', 'best']);
+  test('--top-absorptance best finds A = 0.8032 and 41.544 % for 1.55/1.12 eV (independent reference: test/fixtures/reference/runner.py, top_absorptance_optimum)', async () => {
+    const j = await runJsonHere(['evaluate', '--gaps', '1.55,1.12', '--top-absorptance', 'best']);
     expect(Math.abs(j.top_absorptance - 0.803200662767916)).toBeLessThan(1e-4);
     expect(Math.abs(j.efficiency - 0.4154355323832496)).toBeLessThan(1e-7);
     // It beats the full-thickness top cell: 32.54 % (docs/PHYSICS.md §4 table, isolated).
-    expect(Math.abs(runJson(['evaluate', '--gaps', '1.55,1.12']).efficiency - 0.3254)).toBeLessThan(2e-4);
+    expect(Math.abs((await runJsonHere(['evaluate', '--gaps', '1.55,1.12'])).efficiency - 0.3254)).toBeLessThan(2e-4);
   });
-  test('a bottom-limited stack keeps its top cell whole', () => {
-    expect(runJson(['evaluate', '--gaps', '1.8,1.12', '--top-absorptance', 'best']).top_absorptance).toBe(1);
+  test('a bottom-limited stack keeps its top cell whole', async () => {
+    expect((await runJsonHere(['evaluate', '--gaps', '1.8,1.12', '--top-absorptance', 'best'])).top_absorptance).toBe(1);
   });
 });

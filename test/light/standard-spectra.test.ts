@@ -5,7 +5,7 @@ import { describe, expect, test } from 'vitest';
 import { loadDesignText } from '../../src/design/index.js';
 import { am0, am15d, am15g, resolveSpectrum } from '../../src/light/sources.js';
 import { trapezoid } from '../../src/light/spectrum.js';
-import { runJson } from '../helpers/cli.js';
+import { runJsonHere } from '../helpers/cli.js';
 
 describe('built-in ASTM G173-03 columns', () => {
   test('AM1.5D (direct + circumsolar) integrates to 900.14 W/m² over 280–4000 nm (value stated with the ASTM G173-03 tables)', () => {
@@ -42,11 +42,11 @@ describe('built-in ASTM G173-03 columns', () => {
 });
 
 describe('AM1.5D and AM0 wherever AM1.5G is accepted', () => {
-  test('command line: evaluate --spectrum am1.5d and am0 report their own P_in', () => {
-    const d = runJson(['evaluate', '--gaps', '1.34', '--spectrum', 'am1.5d']);
+  test('command line: evaluate --spectrum am1.5d and am0 report their own P_in', async () => {
+    const d = await runJsonHere(['evaluate', '--gaps', '1.34', '--spectrum', 'am1.5d']);
     expect(d.pin_w_m2).toBeCloseTo(900.14, 1);
     expect(d.spectrum.name).toMatch(/AM1\.5D/);
-    const s = runJson(['evaluate', '--gaps', '1.34', '--spectrum', 'am0']);
+    const s = await runJsonHere(['evaluate', '--gaps', '1.34', '--spectrum', 'am0']);
     expect(s.pin_w_m2).toBeCloseTo(1347.93, 1);
     // Efficiency is P_max over the P_in of the spectrum used (docs/PHYSICS.md §10).
     expect(s.pmax_w_m2 / s.pin_w_m2).toBeCloseTo(s.efficiency, 6);

@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
-import { compositionsForGap, gapFromComposition, parseUserFamily } from '../../src/materials/index.js';
+import { compositionsForGap, familyFromEntry, gapFromComposition, type UserFamilyEntry } from '../../src/materials/index.js';
+import { loadDesignText } from '../../src/design/index.js';
 
 // Invented data for these tests.
-const valid = {
+const valid: UserFamilyEntry = {
   id: 'my-alloy',
   name: 'Invented alloy',
   variable: 'B fraction, x in A1−xBx',
@@ -18,9 +19,9 @@ const valid = {
 
 const where = 'design.yaml: materials[0]';
 
-function errorOf(obj: unknown): UserError {
+function errorOf(obj: UserFamilyEntry): UserError {
   try {
-    parseUserFamily(obj, where);
+    familyFromEntry(obj, where);
   } catch (e) {
     if (e instanceof UserError) return e;
     throw e;
@@ -28,9 +29,9 @@ function errorOf(obj: unknown): UserError {
   throw new Error('expected a UserError');
 }
 
-describe('parseUserFamily', () => {
+describe('familyFromEntry: a schema-valid entry becomes a family', () => {
   it('builds a bowing-form family with default range [0, 1]', () => {
-    const f = parseUserFamily(valid, where);
+    const f = familyFromEntry(valid, where);
     expect(f.kind).toBe('alloy');
     expect(f.compositionRange).toEqual([0, 1]);
     expect(f.variable).toEqual({ symbol: 'x', meaning: valid.variable });
@@ -43,29 +44,18 @@ describe('parseUserFamily', () => {
   });
 
   it('honours an explicit range and window reason', () => {
-    const f = parseUserFamily({ ...valid, range: [0.1, 0.6], window_reason: 'phase separation above x=0.6' }, where);
+    const f = familyFromEntry({ ...valid, range: [0.1, 0.6], window_reason: 'phase separation above x=0.6' }, where);
     expect(f.compositionRange).toEqual([0.1, 0.6]);
     expect(f.window.reason).toBe('phase separation above x=0.6');
     expect(() => gapFromComposition(f, 0.7)).toThrow(UserError);
   });
 
-  const cases: [string, unknown, RegExp][] = [
-    ['not an object', [1, 2], /must be an object/],
-    ['missing id', { ...valid, id: undefined }, /field "id" must be a non-empty string/],
-    ['id not kebab-case', { ...valid, id: 'My_Alloy' }, /field "id" must be kebab-case/],
-    ['ea_ev not a number', { ...valid, ea_ev: '1.1' }, /field "ea_ev" must be a finite number in eV/],
-    ['eb_ev not positive', { ...valid, eb_ev: -1 }, /field "eb_ev" must be a gap above 0 eV/],
-    ['bowing_ev missing', { ...valid, bowing_ev: undefined }, /field "bowing_ev"/],
-    ['window_ev missing', { ...valid, window_ev: undefined }, /field "window_ev" is required/],
-    ['window_ev not a pair', { ...valid, window_ev: [1.2] }, /field "window_ev" must be a pair/],
+  // What a schema cannot say: relations between fields.
+  const cases: [string, UserFamilyEntry, RegExp][] = [
     ['window_ev reversed', { ...valid, window_ev: [1.7, 1.2] }, /field "window_ev" must have lo < hi/],
+    ['range reversed', { ...valid, range: [0.6, 0.1] }, /field "range" must have lo < hi/],
     ['window_ev out of reach', { ...valid, window_ev: [2.5, 3] }, /field "window_ev" .* does not overlap/],
-    ['range outside [0, 1]', { ...valid, range: [0, 1.5] }, /field "range" must lie within \[0, 1\]/],
-    ['dEg/dT in meV/K by mistake', { ...valid, dEg_dT_ev_per_k: -0.3 }, /field "dEg_dT_ev_per_k" is in eV\/K/],
-    ['refractive index absurd', { ...valid, refractive_index: 0.5 }, /field "refractive_index"/],
-    ['bowing drives the gap below zero', { ...valid, bowing_ev: 20 }, /field "bowing_ev" makes the gap fall/],
-    ['unknown field (typo)', { ...valid, bowing: 0.2 }, /field "bowing" is not a material-family field; allowed: id, name/],
-    ['missing source', { ...valid, source: '' }, /field "source" must be a non-empty string/],
+    ['bowing drives the gap below zero', { ...valid, bowing_ev: 9 }, /field "bowing_ev" makes the gap fall/],
   ];
   for (const [what, obj, message] of cases) {
     it(`rejects ${what}, naming the field and where`, () => {
@@ -74,4 +64,41 @@ describe('parseUserFamily', () => {
       expect(e.message).toMatch(message);
     });
   }
+});
+
+/** The family as YAML under materials:, in a design with one bound subcell. */
+function designWith(fields: Record<string, unknown>): string {
+  const body = Object.entries(fields)
+    .filter(([, v]) => v !== undefined)
+    .map(([k, v]) => `    ${k}: ${JSON.stringify(v)}`)
+    .join('\n')
+    .replace(/^    /, '  - ');
+  return `name: family check\nmaterials:\n${body}\nsubcells:\n  - material: my-alloy\n  - gap: 1.0\n`;
+}
+
+describe('the design schema checks each field of a user family (schema/design.schema.json $defs/family)', () => {
+  const cases: [string, Record<string, unknown>, RegExp][] = [
+    ['missing id', { ...valid, id: undefined }, /materials\[0\]: missing required key "id"/],
+    ['id not kebab-case', { ...valid, id: 'My_Alloy' }, /materials\[0\]\.id: "My_Alloy" is not allowed; expected kebab-case id/],
+    ['ea_ev not a number', { ...valid, ea_ev: '1.1' }, /materials\[0\]\.ea_ev: must be a number/],
+    ['eb_ev not positive', { ...valid, eb_ev: -1 }, /materials\[0\]\.eb_ev: must be > 0/],
+    ['bowing_ev missing', { ...valid, bowing_ev: undefined }, /missing required key "bowing_ev"/],
+    ['window_ev missing', { ...valid, window_ev: undefined }, /missing required key "window_ev"/],
+    ['window_ev not a pair', { ...valid, window_ev: [1.2] }, /materials\[0\]\.window_ev: must hold at least 2 item/],
+    ['range outside [0, 1]', { ...valid, range: [0, 1.5] }, /materials\[0\]\.range\[1\]: must be ≤ 1/],
+    ['dEg/dT in meV/K by mistake', { ...valid, dEg_dT_ev_per_k: -0.3 }, /materials\[0\]\.dEg_dT_ev_per_k: must be ≥ -0\.01 .*meV\/K/],
+    ['refractive index absurd', { ...valid, refractive_index: 0.5 }, /materials\[0\]\.refractive_index: must be ≥ 1/],
+    ['unknown field (typo)', { ...valid, bowing: 0.2 }, /unknown key "bowing"; allowed here: id, name/],
+    ['empty source', { ...valid, source: '' }, /materials\[0\]\.source: must not be empty/],
+  ];
+  for (const [what, fields, message] of cases) {
+    it(`rejects ${what}, with the design line`, async () => {
+      await expect(loadDesignText('family.yaml', designWith(fields))).rejects.toThrow(message);
+      await expect(loadDesignText('family.yaml', designWith(fields))).rejects.toThrow(/^family\.yaml:\d+: /);
+    });
+  }
+  it('accepts the valid entry and binds the subcell to it', async () => {
+    const d = await loadDesignText('family.yaml', designWith({ ...valid }));
+    expect(d.subcells[0].constraint.kind).toBe('material');
+  });
 });

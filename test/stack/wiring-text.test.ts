@@ -4,7 +4,7 @@ import { am15g } from '../../src/light/sources.js';
 import { evaluateStack } from '../../src/stack/evaluate.js';
 import { idealStack } from '../../src/stack/model.js';
 import { UserError } from '../../src/errors.js';
-import { runJson } from '../helpers/cli.js';
+import { runJsonHere } from '../helpers/cli.js';
 
 describe('wiring as text', () => {
   test.each([
@@ -38,8 +38,8 @@ describe('wiring as text', () => {
     expect(eta('groups:1+2/3')).toBeGreaterThanOrEqual(eta('series') - 1e-12);
     expect(eta('groups:1+2/3')).toBeLessThanOrEqual(eta('independent') + 1e-12);
   });
-  test('the command line takes grouped wirings', () => {
-    const j = runJson(['evaluate', '--gaps', '1.9,1.37,0.93', '--wiring', 'groups:1+2/3']);
+  test('the command line takes grouped wirings', async () => {
+    const j = await runJsonHere(['evaluate', '--gaps', '1.9,1.37,0.93', '--wiring', 'groups:1+2/3']);
     expect(j.wiring).toBe('groups:1+2/3');
     expect(j.voc_v).toBeNull();
     expect(j.subcells[0].j_op_ma_cm2).toBeCloseTo(j.subcells[1].j_op_ma_cm2, 9);
