@@ -22,6 +22,8 @@ const EXAMPLES: { file: string; maxPages: number }[] = [
   { file: 'triple-junction.yaml', maxPages: 7 },
   { file: 'perovskite-silicon-year.yaml', maxPages: 9 },
   { file: 'perovskite-cigs-wirings.yaml', maxPages: 9 },
+  // Three scenarios, each with its own sections after one comparison table.
+  { file: 'three-tandems.yaml', maxPages: 16 },
 ];
 
 /** A4 at 96 CSS px per inch, less the report's @page margins (14 mm top, 16 mm bottom, 12 mm each side). */
@@ -140,8 +142,10 @@ for (const ex of EXAMPLES) {
         const layout = await page.evaluate(() => {
           const bottom = (sel: string) => (document.querySelector(sel) as HTMLElement).getBoundingClientRect().bottom + window.scrollY;
           const avoid = Array.from(document.querySelectorAll('figure, table')).map((e) => getComputedStyle(e).breakInside);
-          const before = Array.from(document.querySelectorAll('section.answer-section ~ *, section.question-section')).some((e) => getComputedStyle(e).breakBefore === 'page' && e.compareDocumentPosition(document.getElementById('answer') as Node) & Node.DOCUMENT_POSITION_FOLLOWING);
-          return { verdict: bottom('.verdict'), answer: bottom('#answer'), avoid, breakBeforeAnswer: before };
+          // A page of scenarios opens with their comparison table; a single design with its answer table.
+          const answer = document.getElementById('scenarios') ?? document.getElementById('answer');
+          const before = Array.from(document.querySelectorAll('body *')).some((e) => getComputedStyle(e).breakBefore === 'page' && e.compareDocumentPosition(answer as Node) & Node.DOCUMENT_POSITION_FOLLOWING);
+          return { verdict: bottom('.verdict'), answer: (answer as HTMLElement).getBoundingClientRect().bottom + window.scrollY, avoid, breakBeforeAnswer: before };
         });
         expect(layout.breakBeforeAnswer).toBe(false);
         expect(layout.answer).toBeLessThan(PRINT_HEIGHT_PX);
