@@ -171,7 +171,7 @@ export function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Ch
 }
 
 /** The sensitivity chart of one wiring: one gap moved at a time through the optimum; `width` [px] overrides the report's. */
-export function sensitivityChart(data: ReportData, o: WiringOutcome, width?: number): Chart {
+export function sensitivityChart(data: ReportData, o: WiringOutcome, width?: number, backdrop: 'light' | 'dark' = 'light'): Chart {
   const d = data.design;
   const labels = d.subcells.map((s) => s.label);
   const slug = o.wiring.slug;
@@ -186,7 +186,7 @@ export function sensitivityChart(data: ReportData, o: WiringOutcome, width?: num
   }
   return {
     name: `sensitivity-${slug}`,
-    svg: sensitivityChartSvg({ id: `sensitivity-${slug}`, slices: o.sensitivity, labels, best: res.best.value, threshold: res.tolerance.threshold, loss: d.loss, objective: o.search.objective.label, width }),
+    svg: sensitivityChartSvg({ id: `sensitivity-${slug}`, slices: o.sensitivity, labels, best: res.best.value, threshold: res.tolerance.threshold, loss: d.loss, objective: o.search.objective.label, width, backdrop }),
     csv: `${sensRows.join('\n')}\n`,
     json: {
       wiring: o.wiring.key,

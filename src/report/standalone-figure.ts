@@ -129,7 +129,7 @@ export function standaloneFigure(design: Design, req: FigureRequest): Standalone
   } else if (req.kind === 'sensitivity') {
     const width = req.widthMm / mmPerUnit;
     if (width < MIN_WIDTH_UNITS.sensitivity) throw new UserError(`--width-mm: a sensitivity chart at ${req.fontPt} pt needs at least ${Math.ceil(MIN_WIDTH_UNITS.sensitivity * mmPerUnit)} mm`);
-    chart = sensitivityChart(data, o, width);
+    chart = sensitivityChart(data, o, width, req.ink === 'light-on-dark' ? 'dark' : 'light');
   } else {
     const c = data.comparison;
     const w = c?.wirings[at];

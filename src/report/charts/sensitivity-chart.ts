@@ -23,6 +23,8 @@ export interface SensitivityChartInput {
   objective: string;
   /** Overall width in SVG user units [px]; SENSITIVITY_WIDTH when absent. */
   width?: number;
+  /** Backdrop the curves must stand out from (a dark slide needs the light end of the palette). */
+  backdrop?: 'light' | 'dark';
 }
 
 /** Offset ranges [meV] outside a slice's window, within [−dmax, dmax]. */
@@ -38,6 +40,7 @@ export function outsideWindowMev(s: SensitivitySlice, dmaxMev: number): [number,
 
 export function sensitivityChartSvg(inp: SensitivityChartInput): string {
   const n = inp.slices.length;
+  const colourOf = (i: number) => subcellColour(i, n, inp.backdrop);
   const width = inp.width ?? SENSITIVITY_WIDTH;
   const bestPct = inp.best * 100;
   const lo = Math.max(0, bestPct - 8);
@@ -45,7 +48,7 @@ export function sensitivityChartSvg(inp: SensitivityChartInput): string {
   const sliceMax = Math.max(bestPct, ...inp.slices.flatMap((s) => s.efficiency.filter((v): v is number => v !== null && Number.isFinite(v)).map((v) => v * 100)));
   const hi = sliceMax + 0.4;
   const dmax = Math.max(...inp.slices.flatMap((s) => s.deltaEv)) * 1000;
-  const legend: LegendItem[] = inp.slices.map((s, i) => ({ colour: subcellColour(i, n), dash: s.fixed ? '5,3' : undefined, text: `${i + 1}: ${shortLabel(inp.labels[i])} (${num(s.gapEv, 3)} eV${s.fixed ? ', fixed in the design' : ''})`, full: `${i + 1}: ${inp.labels[i]}` }));
+  const legend: LegendItem[] = inp.slices.map((s, i) => ({ colour: colourOf(i), dash: s.fixed ? '5,3' : undefined, text: `${i + 1}: ${shortLabel(inp.labels[i])} (${num(s.gapEv, 3)} eV${s.fixed ? ', fixed in the design' : ''})`, full: `${i + 1}: ${inp.labels[i]}` }));
   legend.push({ colour: '#555555', dash: '2,3', text: `tolerance threshold, −${num(inp.loss * 100, 1)} % relative` });
   if (inp.slices.some((s) => outsideWindowMev(s, dmax).length > 0)) legend.push({ colour: '#d6d6d6', kind: 'area', text: "outside the subcell's window (tint in its colour, curve faded)" });
   const plotW = width - FRAME_MARGIN.left - FRAME_MARGIN.right;
@@ -58,7 +61,7 @@ export function sensitivityChartSvg(inp: SensitivityChartInput): string {
       const outside = outsideWindowMev(s, dmax);
       if (outside.length === 0) return;
       for (const [a, b] of outside) {
-        f.plot.append('rect').attr('class', 'gs-outside-window').attr('data-subcell', i + 1).attr('x', num(f.x(a))).attr('y', 0).attr('width', num(f.x(b) - f.x(a))).attr('height', num(f.h)).attr('fill', subcellColour(i, n)).attr('fill-opacity', OUTSIDE_TINT);
+        f.plot.append('rect').attr('class', 'gs-outside-window').attr('data-subcell', i + 1).attr('x', num(f.x(a))).attr('y', 0).attr('width', num(f.x(b) - f.x(a))).attr('height', num(f.h)).attr('fill', colourOf(i)).attr('fill-opacity', OUTSIDE_TINT);
       }
       // A clip of the window's inside, for the curve's solid part.
       const id = `${inp.id}-win-${i + 1}`;
@@ -75,13 +78,13 @@ export function sensitivityChartSvg(inp: SensitivityChartInput): string {
         return v === null ? null : ([f.x(d * 1000), f.y(Math.max(lo - 5, v * 100))] as [number, number]);
       });
       const d = linePath(pts, 2);
-      const curve = (cls: string) => f.plot.append('path').attr('class', cls).attr('data-subcell', i + 1).attr('fill', 'none').attr('stroke', subcellColour(i, n)).attr('stroke-width', 2).attr('stroke-dasharray', s.fixed ? '5,3' : null).attr('d', d);
+      const curve = (cls: string) => f.plot.append('path').attr('class', cls).attr('data-subcell', i + 1).attr('fill', 'none').attr('stroke', colourOf(i)).attr('stroke-width', 2).attr('stroke-dasharray', s.fixed ? '5,3' : null).attr('d', d);
       if (!clipIds[i]) {
         curve('gs-slice');
         return;
       }
       curve('gs-slice-outside').attr('stroke-opacity', OUTSIDE_CURVE);
-      f.plot.append('g').attr('clip-path', `url(#${clipIds[i]})`).append('path').attr('class', 'gs-slice').attr('data-subcell', i + 1).attr('fill', 'none').attr('stroke', subcellColour(i, n)).attr('stroke-width', 2).attr('stroke-dasharray', s.fixed ? '5,3' : null).attr('d', d);
+      f.plot.append('g').attr('clip-path', `url(#${clipIds[i]})`).append('path').attr('class', 'gs-slice').attr('data-subcell', i + 1).attr('fill', 'none').attr('stroke', colourOf(i)).attr('stroke-width', 2).attr('stroke-dasharray', s.fixed ? '5,3' : null).attr('d', d);
     });
   });
 }
