@@ -26,6 +26,8 @@ export interface FigureArgs {
   ink?: string;
   dpi?: unknown;
   colourRange?: string;
+  /** Which scenario of a file with `scenarios:` (its name or 1-based number). */
+  scenario?: string;
   json?: boolean;
 }
 
@@ -100,8 +102,15 @@ export async function figureCommand(a: FigureArgs): Promise<string> {
     if (!(hi > lo)) throw new UserError(`--colour-range takes low:high in percent with high above low, got "${a.colourRange}"`);
     colourRange = { lo, hi };
   }
-  const { loadDesign } = await import('../design/index.js');
-  const design = await loadDesign(a.design);
+  const { loadScenarioSet } = await import('../design/index.js');
+  const set = await loadScenarioSet(a.design);
+  let design = set.scenarios[0];
+  if (set.named) {
+    const names = set.scenarios.map((d) => d.name);
+    const pick = a.scenario === undefined ? -1 : /^\d+$/.test(a.scenario) ? Number(a.scenario) - 1 : names.indexOf(a.scenario);
+    if (!(pick >= 0 && pick < names.length)) throw new UserError(`--scenario: ${a.design} holds ${names.length} scenarios; name one (${names.map((n, k) => `${k + 1}: "${n}"`).join(', ')})`);
+    design = set.scenarios[pick];
+  } else if (a.scenario !== undefined) throw new UserError(`--scenario: ${a.design} holds a single design, not scenarios`);
   const { standaloneFigure } = await import('../report/standalone-figure.js');
   const fig = standaloneFigure(design, { kind, wiring: a.wiring, pair, widthMm, heightMm, fontPt, ink, colourRange });
   const { standaloneSvg, svgToPngWidth } = await import('../report/figures.js');
@@ -121,7 +130,17 @@ export async function figureCommand(a: FigureArgs): Promise<string> {
   }
   return [
     `Wrote ${output}: ${fig.chart.name}, ${fig.widthMm.toFixed(1)} × ${fig.heightMm.toFixed(1)} mm, text ${fig.fontPt.toFixed(1)} pt, ${ink}${format === 'png' ? `, ${dpi} dpi` : ''}.`,
-    ...(range ? [`Colour scale ${range}${colourRange ? ' (as given)' : " (the report's scale for this pair, shared by every wiring's map; --colour-range low:high sets another)"}.`] : []),
+    ...(range
+      ? [
+          `Colour scale ${range}${
+            colourRange
+              ? ' (as given)'
+              : set.named
+                ? " (shared by every wiring's map of this pair in this scenario; the report shares one scale across scenarios: pass its range with --colour-range low:high to match it)"
+                : " (the report's scale for this pair, shared by every wiring's map; --colour-range low:high sets another)"
+          }.`,
+        ]
+      : []),
     CAUTION,
   ].join('\n');
 }

@@ -158,7 +158,8 @@ export async function run(argv: string[]): Promise<void> {
         .option('font-pt', { type: 'string', describe: 'printed size of the base text [pt] (default 8)' })
         .option('ink', { type: 'string', default: 'dark-on-white', describe: 'dark-on-white (paper) | light-on-dark (slides)' })
         .option('dpi', { type: 'string', describe: 'PNG resolution [dots per inch] (default 300)' })
-        .option('colour-range', { type: 'string', describe: 'fixed colour scale low:high [%], to share one scale across figures' })
+        .option('colour-range', { type: 'string', describe: "fixed colour scale low:high [%] (default: the report's scale for the pair, shared by every wiring)" })
+        .option('scenario', { type: 'string', describe: 'in a file with scenarios: which one (name or number)' })
         .option('json', { type: 'boolean', default: false }),
     async (a) => print(await (await import('./figure-command.js')).figureCommand(a as never)),
   );

@@ -95,6 +95,13 @@ describe('gapstack figure', () => {
     await expect(figureCommand({ design, output: join(dir, 'x.gif') })).rejects.toThrow(/must end in \.svg, \.png or \.pdf/);
   }, SLOW);
 
+  test('a file with scenarios needs --scenario, by name or number', async () => {
+    const tandems = join(ROOT, 'examples/three-tandems.yaml');
+    await expect(figureCommand({ design: tandems, chart: 'sensitivity', output: join(dir, 'x.svg') })).rejects.toThrow(/--scenario: .* holds 3 scenarios; name one \(1: "/);
+    const text = await figureCommand({ design: tandems, scenario: 'all-perovskite', chart: 'sensitivity', output: join(dir, 'allpk.svg'), widthMm: '140' });
+    expect(text).toMatch(/^Wrote .*allpk\.svg: sensitivity-/);
+  }, SLOW);
+
   test('a comparison straight from the synthetic-year example', async () => {
     const out = join(dir, 'compare.svg');
     const j = JSON.parse(await figureCommand({ design: join(ROOT, 'examples/perovskite-silicon-year.yaml'), chart: 'compare', wiring: 'independent', output: out, widthMm: '170', json: true }));
