@@ -91,3 +91,8 @@ function render(parts: MessageParts, name: (parameter: string) => string): strin
 export function fileParameterError(file: string, line: number | undefined, parameter: string, allowed: string, parts: MessageParts): ParameterError {
   return new ParameterError(parameter, allowed, [line === undefined ? `${file}: ` : `${file}:${line}: `, ...parts]);
 }
+
+/** The same user error with text appended, keeping a ParameterError's parameter references. */
+export function withSuffix(err: UserError, suffix: string): UserError {
+  return err instanceof ParameterError ? new ParameterError(err.parameter, err.allowed, [...err.parts, suffix]) : new UserError(`${err.message}${suffix}`);
+}

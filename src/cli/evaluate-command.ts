@@ -1,5 +1,5 @@
 /** `gapstack evaluate`: one stack, one spectrum, every number with its unit. */
-import { evaluateStack, stackWarnings, type StackResult } from '../stack/evaluate.js';
+import { evaluateStack, stackWarnings, resultWarnings, type StackResult } from '../stack/evaluate.js';
 import { bestTopAbsorptanceOfStack, withTopAbsorptance } from '../stack/top-absorptance.js';
 import { UserError } from '../errors.js';
 import { toMaCm2 } from '../physics/constants.js';
@@ -8,6 +8,9 @@ import type { Spectrum } from '../light/spectrum.js';
 import { assumptionLines, CAUTION, describeCoupling, describeAbsorptance, emissionConvention } from '../report/assumptions.js';
 import { eng, fix, pct, round, table } from './format.js';
 import { gapsFromArgs, spectrumFromArgs, stackFromArgs, type LightArgs, type StackArgs } from './options.js';
+import { finiteJson } from './guards.js';
+import { coverageWarnings } from '../light/coverage.js';
+import { CLI_EXTEND_HINT } from './spectra-options.js';
 
 export interface EvaluateArgs extends LightArgs, StackArgs {
   gaps?: unknown;
@@ -44,6 +47,7 @@ export function stackResultJson(spec: StackSpec, spectrum: Spectrum, r: StackRes
       power_w_m2: round(c.powerWm2),
       ere: spec.subcells[i].ere,
       absorptance: describeAbsorptance(spec.subcells[i].absorptance),
+      rs_ohm_cm2: spec.subcells[i].rsOhmCm2 ?? 0,
     })),
     caution: CAUTION,
   };
@@ -61,8 +65,8 @@ export function evaluateCommand(a: EvaluateArgs): string {
     spec.subcells[0] = withTopAbsorptance(spec, chosenTop).subcells[0];
   }
   const r = evaluateStack(spec, spectrum);
-  const warnings = stackWarnings(spec);
-  if (a.json) return JSON.stringify({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}), warnings }, null, 2);
+  const warnings = [...stackWarnings(spec), ...resultWarnings(r), ...coverageWarnings(spectrum, Math.min(...gaps), CLI_EXTEND_HINT)];
+  if (a.json) return finiteJson({ ...stackResultJson(spec, spectrum, r), ...(chosenTop !== undefined ? { top_absorptance: round(chosenTop, 8) } : {}), warnings }, null, 2);
   const rows = r.subcells.map((c, i) => [
     String(i + 1),
     fix(c.gapEv, 4),

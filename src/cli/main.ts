@@ -5,17 +5,16 @@
 import yargs, { type Argv } from 'yargs';
 import { hideBin } from 'yargs/helpers';
 import { UserError } from '../errors.js';
+import { assertFiniteText, checkRepeatedOptions, EXIT_INTERNAL, EXIT_USER, guardStandardStreams, joinNegativeValues, sanitiseForTerminal } from './guards.js';
 import { commandLineMessage } from './parameter-flags.js';
-
-const EXIT_USER = 2;
-const EXIT_INTERNAL = 1;
 
 function lightOptions<T>(y: Argv<T>) {
   return y
     .option('spectrum', { type: 'string', describe: 'light: am1.5g (built-in ASTM G173-03 global tilt, the default), am1.5d (direct + circumsolar), am0 (extraterrestrial), blackbody:<K>, or a table file' })
     .option('suns', { type: 'string', describe: 'concentration [suns], a number or "max" (full concentration ≈ 46 240)' })
     .option('irradiance', { type: 'string', describe: 'rescale the spectrum to this irradiance [W/m²]' })
-    .option('units', { type: 'string', describe: 'units of a headerless file: "<nm|um|eV>,<W/m2/nm|W/m2/um|W/m2/eV|photons/m2/s/nm|…>"' });
+    .option('units', { type: 'string', describe: 'units of a headerless file: "<nm|um|eV>,<W/m2/nm|W/m2/um|W/m2/eV|photons/m2/s/nm|…>"' })
+    .option('extend-spectrum', { type: 'boolean', describe: 'continue a table that ends before 4000 nm with the AM1.5G shape, scaled to join its last point (stated in the output)' });
 }
 
 function stackOptions<T>(y: Argv<T>) {
@@ -51,10 +50,14 @@ function command(cli: Argv, name: string, describe: string, builder: (y: Argv) =
 }
 
 /** Run the command line on these arguments (without node and script); prints, and sets process.exitCode. */
-export async function run(argv: string[]): Promise<void> {
-  const debug = argv.includes('--debug');
+export async function run(rawArgv: string[]): Promise<void> {
+  const debug = rawArgv.includes('--debug');
+  const argv = joinNegativeValues(rawArgv);
   const print = (text: string): void => {
-    process.stdout.write(text.endsWith("\n") ? text : `${text}\n`);
+    // JSON output is checked as it is built (finiteJson); text is checked here.
+    if (!/^\s*[[{]/.test(text)) assertFiniteText(text);
+    const safe = sanitiseForTerminal(text);
+    process.stdout.write(safe.endsWith('\n') ? safe : `${safe}\n`);
   };
   let cli: Argv = yargs(argv)
     .scriptName('gapstack')
@@ -89,7 +92,8 @@ export async function run(argv: string[]): Promise<void> {
       .option('material', { type: 'string', array: true, describe: 'bind a subcell to an absorber family: i=<id> (see gapstack materials)' })
       .option('full-range', { type: 'boolean', default: false, describe: 'let material-bound subcells use the family\'s full reach, not its practical window (warns)' })
       .option('span', { type: 'string', describe: 'global gap span [eV], low:high (default 0.5:2.6)' })
-      .option('ensemble', { type: 'string', describe: 'a set of spectra (folder, manifest or wide table): maximise the yield-weighted efficiency' });
+      .option('ensemble', { type: 'string', describe: 'a set of spectra (folder, manifest or wide table): maximise the yield-weighted efficiency' })
+      .option('accept-large', { type: 'boolean', default: false, describe: 'run even when the size check (stacks × spectra) estimates hours of work' });
   cli = command(
     cli,
     'optimize',
@@ -244,20 +248,27 @@ export async function run(argv: string[]): Promise<void> {
   try {
     // Fault injection for the test of the internal-error path (see DEVELOPERS.md).
     if (process.env.GAPSTACK_FAULT_INJECTION === 'internal') throw new Error('injected fault');
+    checkRepeatedOptions(argv);
     await cli.parseAsync();
   } catch (err) {
     if (err instanceof UserError || (err as Error)?.name === 'YError') {
-      process.stderr.write(`gapstack: ${commandLineMessage(err as Error)}\n`);
+      // One line; a design with several problems lists the others below it (its first line says so).
+      const [, ...more] = (err as Error).message.split('\n');
+      const first = commandLineMessage(err as Error);
+      const listed = err instanceof UserError && /listed below\)$/.test(first) ? more : [];
+      process.stderr.write(`${sanitiseForTerminal([`gapstack: ${first}`, ...listed.map((d) => `  ${d}`)].join('\n'))}\n`);
       process.exitCode = EXIT_USER;
       return;
     }
     const e = err as Error;
-    process.stderr.write(`gapstack: internal error: ${e?.message ?? String(e)}${debug ? `\n${e?.stack ?? ''}` : ' (rerun with --debug for details)'}\n`);
+    process.stderr.write(`gapstack: internal error: ${sanitiseForTerminal(e?.message ?? String(e))}${debug ? `\n${e?.stack ?? ''}` : ' (rerun with --debug for details)'}\n`);
     process.exitCode = EXIT_INTERNAL;
   }
 }
 
 /** The command line of this process (bin/gapstack.js calls it). */
 export async function main(): Promise<void> {
+  // A closed pipe or a full disk on this process's own output: see guardStandardStreams.
+  guardStandardStreams();
   await run(hideBin(process.argv));
 }

@@ -10,11 +10,17 @@ import { constraintBounds } from '../search/design-search.js';
 import { CAUTION, describeCoupling } from '../report/assumptions.js';
 import { round } from './format.js';
 import { startProgress } from './progress.js';
+import { checkWorkSize, mapStacks } from './work-size.js';
 import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, spanFromArgs, type ConstraintArgs } from './search-options.js';
-import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
+import { spectraFromArgs, type SpectraArgs, CLI_EXTEND_HINT } from './spectra-options.js';
+import { finiteJson } from './guards.js';
+import { coverageWarnings } from '../light/coverage.js';
+import { assertNotAnInput, forgetInputs } from '../io/inputs.js';
 
 export interface MapArgs extends StackArgs, ConstraintArgs, SpectraArgs {
+  /** Run even when the size check estimates hours of work. */
+  acceptLarge?: boolean;
   cells?: unknown;
   axes?: unknown;
   x?: unknown;
@@ -60,7 +66,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   if (!(x0 > 0 && y0 > 0)) throw new UserError('--x and --y must be positive gaps in eV');
   const out = a.out;
   if (out !== undefined && !/\.(csv|json)$/i.test(out)) throw new UserError(`--out must end in .csv or .json, got "${out}"`);
-  const constraints = constraintsFromArgs(a, cells);
+  const constraints = constraintsFromArgs(a, cells, spanFromArgs(a.span));
   const spec = stackFromArgs(Array.from({ length: cells }, (_, i) => 2.5 - 0.3 * i), a, familyIndices(constraints));
   requireMeasuredFixed(spec, constraints);
   const xCell = axes[0] - 1;
@@ -69,13 +75,20 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const allowed = constraints.map((c) => constraintBounds(c, spec.tempK));
   const fixed = allowed.map((b) => b.fixed);
   const bounds = subcellBounds({ cells, spanEv: spanFromArgs(a.span), ranges: allowed.map((b) => b.range), fixed, loss: 0.01 });
+  forgetInputs();
   const members = await spectraFromArgs(a, spec.tempK);
+  // The light is read now: an --out that would replace one of its files is refused before the work.
+  if (out !== undefined) assertNotAnInput(out, '--out');
+  const xAxis = uniformAxis(x0, x1, step);
+  const yAxis = uniformAxis(y0, y1, step);
+  const profiled = fixed.some((g, i) => g === undefined && i !== xCell && i !== yCell);
+  checkWorkSize('map', mapStacks(xAxis.length, yAxis.length, profiled), members.length, Boolean(a.acceptLarge));
   const obj = buildObjective(spec, members);
   const t0 = performance.now();
   const bar = a.json ? null : await startProgress('mapping');
   let m: GapMap;
   try {
-    m = computeMap(obj, { x: uniformAxis(x0, x1, step), y: uniformAxis(y0, y1, step), xCell, yCell, fixed, bounds, progress: bar?.update });
+    m = computeMap(obj, { x: xAxis, y: yAxis, xCell, yCell, fixed, bounds, progress: bar?.update });
   } finally {
     bar?.stop();
   }
@@ -102,7 +115,11 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     `units: gaps in eV, efficiency_percent in % (P_max / P_in × 100)`,
     `caution: ${CAUTION}`,
   ];
-  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? JSON.stringify(mapJson(m, meta)) : mapToCsv(m, free, header));
+  // The lowest gap the map uses: its axes' low ends, fixed gaps, and the span where other subcells are maximised.
+  const lowestGapEv = Math.min(x0, y0, ...fixed.filter((g): g is number => g !== undefined), ...(free.length > 0 ? [spanFromArgs(a.span)[0]] : []));
+  const warnings = members.length === 1 ? coverageWarnings(members[0].spectrum, lowestGapEv, CLI_EXTEND_HINT) : [];
+  const csv = () => withCsvWarnings(mapToCsv(m, free, header), warnings);
+  if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, { ...meta, warnings })) : csv(), '--out');
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {
     out: out ?? null,
@@ -110,13 +127,22 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     seconds: round(seconds, 4),
     best: { x_ev: m.best.x, y_ev: m.best.y, efficiency: round(m.best.value, 10) },
     profile: m.profile,
+    warnings,
     caution: CAUTION,
   };
-  if (a.json) return JSON.stringify(out ? summary : mapJson(m, meta), null, 2);
-  if (!out) return mapToCsv(m, free, header).trimEnd();
+  if (a.json) return finiteJson(out ? summary : mapJson(m, { ...meta, warnings }), null, 2);
+  if (!out) return csv().trimEnd();
   return [
     `Wrote ${points} points to ${out} (${seconds.toFixed(3)} s).`,
     `Best on the map: ${(m.best.value * 100).toFixed(3)} % at subcell ${xCell + 1} = ${m.best.x.toFixed(4)} eV, subcell ${yCell + 1} = ${m.best.y.toFixed(4)} eV${m.profile ? ' (other gaps maximised per point)' : ''}.`,
+    ...warnings.map((w) => `Warning: ${w}`),
     CAUTION,
   ].join('\n');
+}
+
+/** Warnings as `# Warning:` comment lines after the CSV's first comment line. */
+function withCsvWarnings(csv: string, warnings: string[]): string {
+  if (warnings.length === 0) return csv;
+  const cut = csv.indexOf('\n') + 1;
+  return `${csv.slice(0, cut)}${warnings.map((w) => `# Warning: ${w}\n`).join('')}${csv.slice(cut)}`;
 }

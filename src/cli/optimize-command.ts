@@ -10,8 +10,12 @@ import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '
 import { eng, fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
-import { spectraFromArgs, type SpectraArgs } from './spectra-options.js';
-import { startProgress } from './progress.js';
+import { spectraFromArgs, type SpectraArgs, CLI_EXTEND_HINT } from './spectra-options.js';
+import { startStagedProgress } from './progress.js';
+import { checkWorkSize, searchStacks } from './work-size.js';
+import { defaultStepEv } from '../search/optimize.js';
+import { finiteJson } from './guards.js';
+import { coverageWarnings } from '../light/coverage.js';
 import { toMaCm2 } from '../physics/constants.js';
 
 /** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
@@ -23,6 +27,8 @@ export function threadsFromArgs(value: unknown): number {
 }
 
 export interface OptimizeArgs extends LightArgs, StackArgs, ConstraintArgs, SpectraArgs {
+  /** Run even when the size check estimates hours of work. */
+  acceptLarge?: boolean;
   threads?: unknown;
   cells?: unknown;
   span?: unknown;
@@ -103,10 +109,14 @@ export function optimizeJson(spec: StackSpec, spectra: { label: string; spectrum
 export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   const cells = cellsFromArgs(a.cells);
   const placeholder = Array.from({ length: cells }, (_, i) => 2.5 - i * 0.3);
-  const constraints = constraintsFromArgs(a, cells);
+  const constraints = constraintsFromArgs(a, cells, spanFromArgs(a.span));
   const spec = stackFromArgs(placeholder, a, familyIndices(constraints));
   requireMeasuredFixed(spec, constraints);
   const members = await spectraFromArgs(a, spec.tempK);
+  // The spectra are counted now: refuse an hours-long run over an ensemble unless asked for
+  // (one spectrum: the search's own grid limit speaks).
+  const openCells = constraints.filter((c) => c.kind !== 'fixed').length;
+  if (members.length > 1) checkWorkSize('search', searchStacks(constraints, spanFromArgs(a.span), stepFromArgs(a.step) ?? defaultStepEv(openCells)), members.length + (a.ensemble !== undefined ? 1 : 0), Boolean(a.acceptLarge));
   const question: DesignSearchRequest = {
     template: spec,
     spectra: members,
@@ -117,17 +127,26 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
     freeTopAbsorptance: Boolean(a.freeTopAbsorptance),
   };
   const threads = threadsFromArgs(a.threads);
-  const bar = a.json ? null : await startProgress('searching');
+  const bar = a.json ? null : await startStagedProgress('optimize', a.ensemble !== undefined ? 2 : 1);
   let d: DesignSearchResult;
   try {
-    d = await runDesignSearchParallel({ ...question, progress: bar?.update }, threads);
-  } finally {
+    d = await runDesignSearchParallel({ ...question, progress: bar?.stage(a.ensemble !== undefined ? `search over ${members.length} spectra` : 'search') }, threads);
+  } catch (err) {
     bar?.stop();
+    throw err;
   }
+  if (a.ensemble === undefined) bar?.stop();
+  // One spectrum that stops short of the lowest gap's edge makes η meaningless (docs/PHYSICS.md §11); ensembles say so in their summary.
+  if (a.ensemble === undefined) d = { ...d, warnings: [...d.warnings, ...coverageWarnings(members[0].spectrum, Math.min(...d.result.best.gapsEv), CLI_EXTEND_HINT)] };
   // Under an ensemble, also answer: does the AM1.5G winner still win here?
   let comparison: Record<string, unknown> | null = null;
   if (a.ensemble !== undefined) {
-    const c = compareAnswers(d, await runDesignSearchParallel(questionUnderReference(question), threads));
+    let c: ReturnType<typeof compareAnswers>;
+    try {
+      c = compareAnswers(d, await runDesignSearchParallel({ ...questionUnderReference(question), progress: bar?.stage('AM1.5G comparison') }, threads));
+    } finally {
+      bar?.stop();
+    }
     comparison = {
       am15g_best: { gaps_ev: c.referenceOptimal.gapsEv.map((g) => round(g, 7)), efficiency: round(c.referenceOptimal.referenceEfficiency, 10) },
       am15g_design_yield_efficiency: round(c.referenceOptimal.yieldEfficiency, 10),
@@ -136,7 +155,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       gap_shift_ev: c.shiftEv.map((x) => round(x, 6)),
     };
   }
-  if (a.json) return JSON.stringify({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
+  if (a.json) return finiteJson({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
   const r = d.result;
   const first = members[0].spectrum;
   // The optimum as a stack, the free top absorptance included, so its per-cell table is printed too.

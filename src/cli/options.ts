@@ -67,6 +67,7 @@ function perItem(option: string, values: number[], count: number, what: string):
 
 export interface LightArgs {
   spectrum?: string;
+  extendSpectrum?: boolean;
   suns?: unknown;
   irradiance?: unknown;
   units?: string;
@@ -78,6 +79,7 @@ export function spectrumFromArgs(a: LightArgs): Spectrum {
     suns: parseSuns(a.suns),
     irradianceWm2: a.irradiance === undefined ? undefined : parseNumber('irradiance', a.irradiance),
     units: a.units === undefined ? undefined : parseUnitDeclaration(a.units),
+    extendWithAm15g: Boolean(a.extendSpectrum),
   });
 }
 

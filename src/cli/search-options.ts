@@ -12,8 +12,8 @@ export interface ConstraintArgs {
   fullRange?: boolean;
 }
 
-/** Per-subcell constraints from --fix, --range and --material. */
-export function constraintsFromArgs(a: ConstraintArgs, cells: number): SubcellConstraint[] {
+/** Per-subcell constraints from --fix, --range and --material; fixed gaps and ranges must meet the search span, as in design files. */
+export function constraintsFromArgs(a: ConstraintArgs, cells: number, spanEv?: [number, number]): SubcellConstraint[] {
   const out: SubcellConstraint[] = Array.from({ length: cells }, () => ({ kind: 'free' }) as SubcellConstraint);
   const taken = new Map<number, string>();
   const claim = (i: number, opt: string) => {
@@ -24,12 +24,14 @@ export function constraintsFromArgs(a: ConstraintArgs, cells: number): SubcellCo
     claim(i, 'fix');
     const g = parseNumber('fix', v);
     if (!(g > 0)) throw new UserError(`--fix ${i + 1}=${v}: gap must be a positive number of eV`);
+    if (spanEv && (g < spanEv[0] || g > spanEv[1])) throw new UserError(`--fix ${i + 1}=${v}: the gap lies outside the search span ${spanEv[0]}–${spanEv[1]} eV (--span)`);
     out[i] = { kind: 'fixed', gapEv: g };
   }
   for (const [i, v] of parseIndexed('range', a.range, cells)) {
     claim(i, 'range');
     const [lo, hi] = parseRange('range', v);
     if (!(lo > 0)) throw new UserError(`--range ${i + 1}=${v}: gaps must be positive eV`);
+    if (spanEv && (hi < spanEv[0] || lo > spanEv[1])) throw new UserError(`--range ${i + 1}=${v}: the range lies outside the search span ${spanEv[0]}–${spanEv[1]} eV (--span)`);
     out[i] = { kind: 'range', loEv: lo, hiEv: hi };
   }
   for (const [i, v] of parseIndexed('material', a.material, cells)) {

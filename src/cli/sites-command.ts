@@ -132,5 +132,9 @@ export async function sitesMapCommand(a: SitesMapArgs): Promise<string> {
   const base = a.out.replace(/\.(svg|png)$/i, '');
   writeFileAtomic(`${base}.svg`, svg);
   writeFileAtomic(`${base}.png`, svgToPng(svg));
-  return `site map of ${points.length} sites coloured by ${column.label} → ${base}.svg, ${base}.png`;
+  // The drawn numbers beside the picture, as every figure has them.
+  const q = (t: string) => (/[",\n]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t);
+  writeFileAtomic(`${base}.csv`, `site,lat_deg,lon_deg,value\n${points.map((p) => `${q(p.site)},${p.latDeg},${p.lonDeg},${p.value ?? ''}`).join('\n')}\n`);
+  writeFileAtomic(`${base}.json`, `${JSON.stringify({ value: column.label, question_sha256: file.questionSha256, gapstack_version: file.version, points: points.map((p) => ({ site: p.site, lat_deg: p.latDeg, lon_deg: p.lonDeg, value: p.value })), caution: CAUTION }, null, 2)}\n`);
+  return `site map of ${points.length} sites coloured by ${column.label} → ${base}.svg, ${base}.png (data: ${base}.csv, ${base}.json)`;
 }

@@ -22,3 +22,6 @@ export async function spectraFromArgs(a: SpectraArgs, tempK: number): Promise<La
   const spectrum = spectrumFromArgs(a);
   return [{ spectrum, weight: 1, tempK, label: spectrum.name }];
 }
+
+/** What to do about a spectrum that stops short of the lowest gap's edge, in the command line's words. */
+export const CLI_EXTEND_HINT = 'use a spectrum that reaches it, or rerun with --extend-spectrum to continue the table with the AM1.5G shape joined at its last point';

@@ -4,6 +4,7 @@ import { CAUTION } from '../report/assumptions.js';
 import { fix, round, table } from './format.js';
 import { parseNumberList, parseRange, spectrumFromArgs, type LightArgs } from './options.js';
 import { UserError } from '../errors.js';
+import { finiteJson } from './guards.js';
 import { toMaCm2 } from '../physics/constants.js';
 
 export interface SpectrumArgs extends LightArgs {
@@ -24,7 +25,7 @@ export function spectrumCommand(a: SpectrumArgs): string {
   const range: [number, number] = [s.wavelengthNm[0], s.wavelengthNm[s.wavelengthNm.length - 1]];
   const above = gaps.map((g) => ({ gap_ev: g, jsc_ma_cm2: round(toMaCm2(stepJscAm2(s, g))) }));
   if (a.json) {
-    return JSON.stringify(
+    return finiteJson(
       {
         name: s.name,
         sha256: s.sha256,

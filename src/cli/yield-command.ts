@@ -13,6 +13,7 @@ import { isSeriesString, type StackSpec } from '../stack/model.js';
 import { CAUTION, describeAbsorptance, describeCoupling, EMISSION_CONVENTION } from '../report/assumptions.js';
 import { fix, pct, round, table } from './format.js';
 import { gapsFromArgs, parseRange, stackFromArgs, type StackArgs } from './options.js';
+import { finiteJson } from './guards.js';
 import { toMaCm2 } from '../physics/constants.js';
 
 export interface YieldArgs extends StackArgs {
@@ -123,7 +124,7 @@ export function yieldCommand(a: YieldArgs): string {
   const s = ensembleSummary(e, window, { lowestGapEv });
   const y = yieldForStack(spec, e.members);
   const ref = evaluateStack(spec, am15g()).efficiency;
-  if (a.json) return JSON.stringify(yieldJson(spec, e, s, y, ref), null, 2);
+  if (a.json) return finiteJson(yieldJson(spec, e, s, y, ref), null, 2);
 
   const hours = e.weightUnit === 'hours';
   const wUnit = hours ? 'h' : 'share';

@@ -4,7 +4,7 @@
  * JSON is parsed strictly with JSON.parse; its locations come from the YAML
  * parser, which reads JSON as a subset.
  */
-import { readFileSync } from 'node:fs';
+import { readUserText } from '../io/read-user-file.js';
 import { extname } from 'node:path';
 import { isMap, isSeq, LineCounter, parseDocument, type Document, type Node as YamlNode } from 'yaml';
 import { fileError, UserError } from '../errors.js';
@@ -68,8 +68,58 @@ function locator(doc: Document | undefined, lc: LineCounter): DesignSource['line
   };
 }
 
+/** Deepest nesting of lists and mappings accepted in a design file (real designs stay below 10). */
+export const MAX_DESIGN_NESTING = 64;
+
+/**
+ * Refuse flow nesting deeper than MAX_DESIGN_NESTING before any parser
+ * recurses into it (a 200 000-deep `[[[…` would overflow the stack). Brackets
+ * inside quoted strings and comments are skipped.
+ */
+function checkNesting(path: string, text: string): void {
+  let depth = 0;
+  let line = 1;
+  let quote = '';
+  let comment = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text[i];
+    if (c === '\n') {
+      line++;
+      comment = false;
+      continue;
+    }
+    if (comment) continue;
+    if (quote) {
+      if (c === '\\' && quote === '"') i++;
+      else if (c === quote) quote = '';
+      continue;
+    }
+    if (c === '"' || (c === "'" && /[\s[{,:]/.test(text[i - 1] ?? ' '))) quote = c;
+    else if (c === '#' && /\s/.test(text[i - 1] ?? '\n')) comment = true;
+    else if (c === '[' || c === '{') {
+      if (++depth > MAX_DESIGN_NESTING) throw fileError(path, line, `nested more than ${MAX_DESIGN_NESTING} levels deep; a design file is refused there`);
+    } else if (c === ']' || c === '}') depth = Math.max(0, depth - 1);
+  }
+}
+
 /** Parse design text; `path` is used for messages and to choose YAML or JSON (by extension). */
 export function parseDesignText(path: string, text: string, sha256 = sha256Hex(text)): DesignSource {
+  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+  checkNesting(path, text);
+  try {
+    return parseDesignTextChecked(path, text, sha256);
+  } catch (err) {
+    if (err instanceof UserError) throw err;
+    // The parsers' own limits (alias expansion, recursion) are limits on the input.
+    const msg = (err as Error)?.message ?? String(err);
+    if (err instanceof RangeError || err instanceof ReferenceError || /alias|call stack/i.test(msg)) {
+      throw fileError(path, undefined, `refused: ${msg.split('\n')[0]} (aliases or nesting beyond what a design file needs)`);
+    }
+    throw err;
+  }
+}
+
+function parseDesignTextChecked(path: string, text: string, sha256: string): DesignSource {
   const format = extname(path).toLowerCase() === '.json' ? 'json' : 'yaml';
   const lc = new LineCounter();
   if (format === 'json') {
@@ -101,14 +151,8 @@ export function parseDesignText(path: string, text: string, sha256 = sha256Hex(t
   return { path, sha256, format, data, lineOf: locator(doc, lc) };
 }
 
-/** Read and parse a design file. */
+/** Read and parse a design file (a regular file of at most MAX_DESIGN_FILE_BYTES, checked before and while reading). */
 export function readDesignSource(path: string): DesignSource {
-  let bytes: Buffer;
-  try {
-    bytes = readFileSync(path);
-  } catch (err) {
-    throw new UserError(`${path}: cannot read the design file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  if (bytes.length > MAX_DESIGN_FILE_BYTES) throw new UserError(`${path}: a design file is at most ${MAX_DESIGN_FILE_BYTES} bytes, this one has ${bytes.length}`);
-  return parseDesignText(path, bytes.toString('utf8'), sha256Hex(bytes));
+  const { bytes, text } = readUserText(path, { what: 'design file', maxBytes: MAX_DESIGN_FILE_BYTES });
+  return parseDesignText(path, text, sha256Hex(bytes));
 }

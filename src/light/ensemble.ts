@@ -25,10 +25,11 @@
  * of a gap's wavelength under-counts that subcell's photons, so the summary
  * warns about it.
  */
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readdirSync, statSync } from 'node:fs';
+import { codeAndWords, readUserText } from '../io/read-user-file.js';
 import { basename, dirname, extname, isAbsolute, join, resolve } from 'node:path';
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode } from 'yaml';
-import { UserError, fileError } from '../errors.js';
+import { UserError, fileError, withSuffix } from '../errors.js';
 import { HC_EV_NM } from '../physics/constants.js';
 import type { LabelledSpectrum } from './weighted-spectrum.js';
 import { DEFAULT_APE_WINDOW_NM, averagePhotonEnergyEv, makeSpectrum, sha256Hex, sha256OfTable, type Spectrum } from './spectrum.js';
@@ -88,6 +89,8 @@ export interface LoadEnsembleOptions {
 export const ENSEMBLE_TEMP_RANGE_K: readonly [number, number] = [150, 500];
 /** Largest wide table or manifest read [bytes]. */
 export const MAX_ENSEMBLE_FILE_BYTES = 4 * MAX_SPECTRUM_FILE_BYTES;
+/** Largest total size of the member files of one ensemble [bytes], checked before any is read. */
+export const MAX_ENSEMBLE_TOTAL_BYTES = 1024 * 1024 * 1024;
 /** Most members in one ensemble (an hourly year is 8760). */
 export const MAX_ENSEMBLE_MEMBERS = 100_000;
 /** APE window used by the summary unless told otherwise [nm]; the same as the spectrum command's (common practice: a usual spectroradiometer range). */
@@ -185,19 +188,7 @@ function timestampOf(label: string): string | undefined {
 }
 
 function readTextFile(file: string, what: string): { bytes: Buffer; text: string } {
-  let size: number;
-  try {
-    const st = statSync(file);
-    if (!st.isFile()) throw fileError(file, undefined, `is not a regular file (expected ${what})`);
-    size = st.size;
-  } catch (err) {
-    if (err instanceof UserError) throw err;
-    throw new UserError(`${file}: cannot open ${what} (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  if (size > MAX_ENSEMBLE_FILE_BYTES) throw fileError(file, undefined, `is ${(size / 2 ** 20).toFixed(0)} MiB; files above ${MAX_ENSEMBLE_FILE_BYTES / 2 ** 20} MiB are refused`);
-  const bytes = readFileSync(file);
-  if (bytes.includes(0)) throw fileError(file, undefined, 'contains binary data (NUL bytes); expected text');
-  return { bytes, text: bytes.toString('utf8') };
+  return readUserText(file, { what, maxBytes: MAX_ENSEMBLE_FILE_BYTES });
 }
 
 // ---------------------------------------------------------------------------
@@ -237,7 +228,27 @@ interface FileEntry {
   listedAt?: string;
 }
 
+/** Refuse an ensemble whose distinct member files together exceed MAX_ENSEMBLE_TOTAL_BYTES, before reading any. */
+function checkMembersTotalSize(entries: FileEntry[]): void {
+  let total = 0;
+  const seen = new Set<string>();
+  for (const e of entries) {
+    if (seen.has(e.path)) continue;
+    seen.add(e.path);
+    try {
+      total += statSync(e.path).size;
+    } catch {
+      // unreadable: reading the member names the file and the reason
+    }
+    if (total > MAX_ENSEMBLE_TOTAL_BYTES) {
+      throw new UserError(`${e.listedAt ?? e.path}: the ensemble's spectrum files add up to more than ${MAX_ENSEMBLE_TOTAL_BYTES / 2 ** 20} MiB; split the set or thin it`);
+    }
+  }
+}
+
 function readMembers(entries: FileEntry[], units: TableUnits | undefined): { members: EnsembleMember[]; fileShas: string[] } {
+  if (entries.length > MAX_ENSEMBLE_MEMBERS) throw new UserError(`the ensemble lists ${entries.length} spectra; at most ${MAX_ENSEMBLE_MEMBERS} are accepted`);
+  checkMembersTotalSize(entries);
   const cache = new Map<string, Spectrum>();
   const members: EnsembleMember[] = [];
   const fileShas: string[] = [];
@@ -247,7 +258,7 @@ function readMembers(entries: FileEntry[], units: TableUnits | undefined): { mem
       try {
         s = readSpectrumFile(e.path, units);
       } catch (err) {
-        if (err instanceof UserError && e.listedAt) throw new UserError(`${err.message} (listed at ${e.listedAt})`);
+        if (err instanceof UserError && e.listedAt) throw withSuffix(err, ` (listed at ${e.listedAt})`);
         throw err;
       }
       cache.set(e.path, s);
@@ -274,7 +285,13 @@ function resolveListed(manifest: string, line: number | undefined, name: string)
 const stem = (p: string) => basename(p, extname(p));
 
 function loadFolder(dir: string, opts: LoadEnsembleOptions): Ensemble {
-  const names = readdirSync(dir).sort(collator.compare);
+  let listing: string[];
+  try {
+    listing = readdirSync(dir);
+  } catch (err) {
+    throw new UserError(`${dir}: cannot list the ensemble folder (${codeAndWords(err)})`);
+  }
+  const names = listing.sort(collator.compare);
   const manifests = names.filter((n) => FOLDER_MANIFESTS.includes(n.toLowerCase()));
   if (manifests.length > 1) throw fileError(dir, undefined, `holds more than one manifest (${manifests.join(', ')}); name the one to use`);
   if (manifests.length === 1) return loadEnsemble(join(dir, manifests[0]), opts);
@@ -393,7 +410,7 @@ function loadCsvManifest(file: string, bytes: Buffer, rows: Row[], directives: M
 }
 
 function loadYamlManifest(file: string, opts: LoadEnsembleOptions): Ensemble {
-  const { bytes, text } = readTextFile(file, 'a YAML manifest');
+  const { bytes, text } = readTextFile(file, 'YAML manifest');
   const lc = new LineCounter();
   const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false });
   if (doc.errors.length > 0) {
@@ -679,12 +696,12 @@ export function loadEnsemble(path: string, opts: LoadEnsembleOptions): Ensemble 
   try {
     isDir = statSync(path).isDirectory();
   } catch (err) {
-    throw new UserError(`${path}: cannot open the ensemble (${(err as NodeJS.ErrnoException).code ?? 'error'}); give a folder of spectra, a manifest (.csv or .yaml) or a wide table`);
+    throw new UserError(`${path}: cannot open the ensemble (${codeAndWords(err)}); give a folder of spectra, a manifest (.csv or .yaml) or a wide table`);
   }
   if (isDir) return loadFolder(path, opts);
   const ext = extname(path).toLowerCase();
   if (ext === '.yaml' || ext === '.yml') return loadYamlManifest(path, opts);
-  const { bytes, text } = readTextFile(path, 'an ensemble file');
+  const { bytes, text } = readTextFile(path, 'ensemble file');
   const { rows, directives } = readDelimited(path, text);
   if (rows.length === 0) throw fileError(path, undefined, `holds no rows; expected a manifest with a "file" column or a wide table (${WIDE_HELP})`);
   const titles = rows[0].cells.map((c) => c.trim().toLowerCase());

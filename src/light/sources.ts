@@ -8,6 +8,7 @@ import { DILUTION_ONE_SUN, MAX_CONCENTRATION } from '../physics/constants.js';
 import { ParameterError, ref, says, UserError } from '../errors.js';
 import { blackbodySpectrum } from './blackbody.js';
 import { scaleSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
+import { extendWithReferenceShape } from './coverage.js';
 import { readSpectrumFile, spectrumFromText, type TableUnits } from './table-file.js';
 
 /** Path of a file shipped in the package's spectra/ folder. */
@@ -61,6 +62,26 @@ export interface LightOptions {
   irradianceWm2?: number;
   /** Units declared for a headerless file. */
   units?: TableUnits;
+  /** Extend a table that ends before 4000 nm with the AM1.5G shape, joined at its last point (docs/PHYSICS.md §11). */
+  extendWithAm15g?: boolean;
+}
+
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * Refuse a rescale to an irradiance beyond full concentration of the source
+ * (the bound --suns has): `factor` is the requested irradiance over the
+ * source's own one-sun irradiance.
+ */
+function checkIrradianceBound(irradianceWm2: number, oneSunWm2: number): void {
+  const factor = irradianceWm2 / oneSunWm2;
+  if (!(factor <= MAX_CONCENTRATION * (1 + 1e-9))) {
+    throw new ParameterError(
+      'irradianceWm2',
+      `a positive irradiance [W/m²] up to full concentration (${MAX_CONCENTRATION.toFixed(0)} suns) of the light`,
+      says`${ref('irradianceWm2')} ${irradianceWm2} W/m2 is ${factor.toPrecision(3)} times this light's ${oneSunWm2.toFixed(1)} W/m2, beyond full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`,
+    );
+  }
 }
 
 const SUNS_ALLOWED = `a number from 1e-6 to ${MAX_CONCENTRATION.toFixed(0)} [suns], or "max"`;
@@ -69,7 +90,8 @@ const SUNS_ALLOWED = `a number from 1e-6 to ${MAX_CONCENTRATION.toFixed(0)} [sun
 export function parseSuns(value: unknown): number | 'max' | undefined {
   if (value === undefined) return undefined;
   if (value === 'max') return 'max';
-  const x = typeof value === 'number' ? value : Number(value);
+  // Decimal only: Number() would also take 0x10 and 0b101, which no other option accepts.
+  const x = typeof value === 'number' ? value : typeof value === 'string' && DECIMAL.test(value.trim()) ? Number(value) : NaN;
   if (!Number.isFinite(x) || !(x > 0)) throw new ParameterError('suns', SUNS_ALLOWED, says`${ref('suns')} must be a positive number or "max", got "${String(value)}"`);
   if (x < 1e-6) throw new ParameterError('suns', SUNS_ALLOWED, says`${ref('suns')} ${x} is below 1e-6 suns; the detailed-balance numbers mean little there`);
   if (x > MAX_CONCENTRATION * (1 + 1e-9)) throw new ParameterError('suns', SUNS_ALLOWED, says`${ref('suns')} ${x} exceeds full concentration (${MAX_CONCENTRATION.toFixed(0)} suns)`);
@@ -93,16 +115,24 @@ export function resolveSpectrum(name: string, opts: LightOptions = {}): Spectrum
   if (builtin) {
     s = builtin();
   } else if (key.startsWith('blackbody:') || key.startsWith('bb:')) {
-    const t = Number(key.slice(key.indexOf(':') + 1).replace(/k$/, ''));
+    const word = key.slice(key.indexOf(':') + 1).replace(/k$/, '').trim();
+    const t = DECIMAL.test(word) ? Number(word) : NaN;
     if (!Number.isFinite(t)) throw new UserError(`"${name}": blackbody temperature must be a number of kelvin, e.g. blackbody:5778`);
     const dilution = suns === undefined ? DILUTION_ONE_SUN : Math.min(1, suns * DILUTION_ONE_SUN);
     s = blackbodySpectrum({ tempK: t, dilution });
-    if (opts.irradianceWm2 !== undefined) s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+    if (opts.irradianceWm2 !== undefined) {
+      checkIrradianceBound(opts.irradianceWm2, s.pinWm2 / (dilution / DILUTION_ONE_SUN));
+      s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+    }
     return s;
   } else {
     s = readSpectrumFile(name, opts.units);
+    if (opts.extendWithAm15g) s = extendWithReferenceShape(s, am15g(), 'AM1.5G (ASTM G173-03)');
   }
   if (suns !== undefined) s = scaleSpectrum(s, suns);
-  if (opts.irradianceWm2 !== undefined) s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+  if (opts.irradianceWm2 !== undefined) {
+    checkIrradianceBound(opts.irradianceWm2, s.pinWm2);
+    s = scaleSpectrum(s, opts.irradianceWm2 / s.pinWm2);
+  }
   return s;
 }

@@ -64,7 +64,10 @@ export function makeSpectrum(input: SpectrumInput): Spectrum {
     cumulativePhotons[i] = cumulativePhotons[i - 1] + 0.5 * (photonFlux[i] + photonFlux[i - 1]) * (wavelengthNm[i] - wavelengthNm[i - 1]);
   }
   const pinWm2 = input.pinWm2 ?? trapezoid(wavelengthNm, irradiance);
-  if (!(pinWm2 > 0) || !Number.isFinite(pinWm2)) throw new UserError(`${input.name}: the spectrum carries no power (P_in = ${pinWm2} W/m²)`);
+  if (!Number.isFinite(pinWm2) || !Number.isFinite(cumulativePhotons[n - 1])) {
+    throw new UserError(`${input.name}: the spectrum's values are too large to integrate (its irradiance or photon flux overflows); check the units`);
+  }
+  if (!(pinWm2 > 0)) throw new UserError(`${input.name}: the spectrum carries no power (P_in = ${pinWm2} W/m²)`);
   return {
     name: input.name,
     sha256: input.sha256,

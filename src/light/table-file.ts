@@ -4,7 +4,7 @@
  * the caller. A wrong guess is worse than an error, so units must be stated
  * or unambiguous, and every rejected value names its file and line.
  */
-import { readFileSync, statSync } from 'node:fs';
+import { readUserText } from '../io/read-user-file.js';
 import { createRequire } from 'node:module';
 import { HC_EV_NM, HC_J_NM } from '../physics/constants.js';
 import { UserError, fileError, fileParameterError, ParameterError, ref, says } from '../errors.js';
@@ -140,21 +140,7 @@ const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 /** Read a spectrum file into a Spectrum. `declared` overrides or replaces the header units. */
 export function readSpectrumFile(file: string, declared?: TableUnits): Spectrum {
-  let size: number;
-  try {
-    const st = statSync(file);
-    if (!st.isFile()) throw fileError(file, undefined, 'is not a regular file');
-    size = st.size;
-  } catch (err) {
-    if (err instanceof UserError) throw err;
-    throw new UserError(`${file}: cannot open spectrum file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  if (size > MAX_SPECTRUM_FILE_BYTES) {
-    throw fileError(file, undefined, `is ${(size / 2 ** 20).toFixed(0)} MiB; spectrum tables above ${MAX_SPECTRUM_FILE_BYTES / 2 ** 20} MiB are refused`);
-  }
-  const bytes = readFileSync(file);
-  if (bytes.includes(0)) throw fileError(file, undefined, 'contains binary data (NUL bytes); expected a text table');
-  const text = bytes.toString('utf8');
+  const { bytes, text } = readUserText(file, { what: 'spectrum file', maxBytes: MAX_SPECTRUM_FILE_BYTES });
   return spectrumFromText(file, text, declared, sha256Hex(bytes));
 }
 

@@ -8,8 +8,9 @@ import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import Handlebars from 'handlebars';
 import type { Design } from '../design/index.js';
+import { coverageWarnings } from '../light/coverage.js';
 import { toolVersion } from './version.js';
-import { computeReport, type ReportData } from './compute.js';
+import { computeReport, type ReportData, type StageReporter } from './compute.js';
 import { compareColourRange } from './charts/compare-chart.js';
 import { sharedColourDomain, type ColourDomain } from './charts/map-layers.js';
 import { apeChart, colourScaleWords, compareChart, detailCharts, figureMeta, mapChart, r6, r8, wiringComparisonJson, type Chart } from './figure-data.js';
@@ -83,9 +84,21 @@ function comparisonSection(data: ReportData, charts: Chart[]): Record<string, un
   };
 }
 
+/**
+ * A single spectrum that stops short of the lowest optimum gap's absorption
+ * edge (docs/PHYSICS.md §11); an ensemble says so in its own summary.
+ */
+function lightCoverageWarnings(data: ReportData): string[] {
+  const light = data.design.light;
+  if (light.kind !== 'spectrum' || data.outcomes.length === 0) return [];
+  const lowest = Math.min(...data.outcomes.flatMap((o) => o.search.result.best.gapsEv));
+  return coverageWarnings(light.spectrum, lowest, 'list a spectrum in the design that reaches it');
+}
+
 function summaryJson(data: ReportData, version: string, generated: string): Record<string, unknown> {
   const d = data.design;
   return {
+    light_warnings: lightCoverageWarnings(data),
     name: d.name,
     tool: `gapstack ${version}`,
     design_sha256: d.sha256,
@@ -138,8 +151,8 @@ export interface SharedScales {
 export const pairKey = (m: { pair: { xCell: number; yCell: number } }): string => `${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
 
 /** Build the report of a design: compute (or take `data` already computed), draw, format; `scales` sets maps' colour scales shared with other reports. */
-export function buildReport(design: Design, opts: { date: Date; data?: ReportData; scales?: SharedScales }): BuiltReport {
-  const data = opts.data ?? computeReport(design);
+export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter; data?: ReportData; scales?: SharedScales }): BuiltReport {
+  const data = opts.data ?? computeReport(design, opts.stage);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
   const charts: Chart[] = [];
@@ -202,7 +215,7 @@ export function buildReport(design: Design, opts: { date: Date; data?: ReportDat
     };
   });
   const comparison = comparisonSection(data, charts);
-  const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
+  const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...lightCoverageWarnings(data), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
   const html = pageTemplate()({
     version,
     title: design.name,

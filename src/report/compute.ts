@@ -10,6 +10,7 @@ import { UserError } from '../errors.js';
 import { thermalVoltageV } from '../physics/constants.js';
 import { computeMap, uniformAxis } from '../search/map.js';
 import { runDesignSearch, type DesignSearchResult } from '../search/design-search.js';
+import { compositionAxis } from '../search/composition-tolerance.js';
 import { StepObjective } from '../stack/step-objective.js';
 import { evaluateStack, type StackResult } from '../stack/evaluate.js';
 import { isSeriesString, stackWithGaps, type StackSpec } from '../stack/model.js';
@@ -72,7 +73,7 @@ function defaultStep(fast: boolean, profile: boolean, xr: [number, number], yr: 
   return step;
 }
 
-function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: DesignMapPair, optimaAll: number[][]): MapOutcome {
+function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: DesignMapPair, optimaAll: number[][], progress?: (fraction: number) => void): MapOutcome {
   const { xCell, yCell } = pair;
   const n = design.subcells.length;
   const bounds = d.result.bounds;
@@ -92,7 +93,7 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
       throw new UserError(`${design.path}: map.step: ${a.length} points along the default ${axis} axis (${a[0].toFixed(3)}–${a[a.length - 1].toFixed(3)} eV) of pair [${xCell + 1}, ${yCell + 1}]; at most ${MAX_MAP_AXIS_POINTS}: use a coarser step or give the axis range in map.pairs`);
     }
   }
-  const map = computeMap(d.objective, { x, y, xCell, yCell, fixed, bounds });
+  const map = computeMap(d.objective, { x, y, xCell, yCell, fixed, bounds, progress });
   if (!(map.best.value > 0)) {
     throw new UserError(`${design.path}: map of subcells ${xCell + 1} and ${yCell + 1} (${w.key}): no point with the upper gap above the lower produces power; widen map.pairs x or y`);
   }
@@ -123,7 +124,19 @@ function mapFor(design: Design, w: DesignWiring, d: DesignSearchResult, pair: De
       }
     }
   }
-  return { pair, map, stepEv: step, optimum, threshold: best.value * (1 - design.loss), matching, marks, profiled, warnings };
+  const compositionAxes = mapCompositionAxes(design, xCell, yCell, xr, yr);
+  return { pair, map, stepEv: step, optimum, threshold: best.value * (1 - design.loss), matching, marks, profiled, warnings, ...(compositionAxes ? { compositionAxes } : {}) };
+}
+
+/** Composition axes for mapped subcells bound to alloy families, or undefined when neither is. */
+function mapCompositionAxes(design: Design, xCell: number, yCell: number, xr: [number, number], yr: [number, number]): MapOutcome['compositionAxes'] {
+  const axis = (cell: number, r: [number, number]) => {
+    const c = design.subcells[cell].constraint;
+    return c.kind === 'material' ? compositionAxis(c.family, cell, r[0], r[1], design.tempK) : undefined;
+  };
+  const x = axis(xCell, xr);
+  const y = axis(yCell, yr);
+  return x || y ? { ...(x ? { x } : {}), ...(y ? { y } : {}) } : undefined;
 }
 
 /** The practical window or allowed range [eV] of subcell i, when its constraint has one (not free, not fixed). */
@@ -202,16 +215,28 @@ export interface ReportSelection {
 }
 
 /**
+ * Named stages of the report's work for a progress display: called once per
+ * stage with its name, returns that stage's 0–1 progress callback.
+ */
+export type StageReporter = (name: string) => ((fraction: number) => void) | undefined;
+
+/** How many stages `computeReport` announces: one search per wiring and one map per wiring and pair. */
+export function reportStageCount(design: Design): number {
+  return design.wirings.length * (1 + design.pairs.length);
+}
+
+/**
  * Run every wiring of a design: search, detail at the optimum, curves and
  * maps; under an ensemble, the AM1.5G comparison. With a selection, every
  * wiring is still searched (default map axes span all wirings' optima, so a
  * figure matches the report's) but only the selected wirings get their curves
  * and the selected maps.
  */
-export function computeReport(design: Design, only?: ReportSelection): ReportData {
+export function computeReport(design: Design, stage?: StageReporter, only?: ReportSelection): ReportData {
   const searches = design.wirings.map((w, k) => {
     try {
       return runDesignSearch({
+        progress: stage?.(`search ${w.key}`),
         template: w.template,
         spectra: design.spectra,
         constraints: design.subcells.map((s) => s.constraint),
@@ -244,7 +269,7 @@ export function computeReport(design: Design, only?: ReportSelection): ReportDat
       stackFf,
       sensitivity: sensitivity(design, d, d.result.bounds),
       jv: jvCurves(design, stackWithGaps(template, d.result.best.gapsEv, ref.tempK), detail),
-      maps: pairs.map((p) => mapFor(design, w, d, p, optimaAll)),
+      maps: pairs.map((p) => mapFor(design, w, d, p, optimaAll, stage?.(`map ${w.key} ${p.xCell + 1},${p.yCell + 1}`))),
     };
   });
   return { design, outcomes, comparison: only && !only.comparison ? null : compareWithReference(design, outcomes) };

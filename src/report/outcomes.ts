@@ -4,6 +4,7 @@
  */
 import type { DesignMapPair, DesignWiring } from '../design/index.js';
 import type { DesignSearchResult } from '../search/design-search.js';
+import type { CompositionAxis } from '../search/composition-tolerance.js';
 import type { GapMap } from '../search/map.js';
 import type { StackResult } from '../stack/evaluate.js';
 import type { StackSpec } from '../stack/model.js';
@@ -31,6 +32,8 @@ export interface MapOutcome {
   /** Subcells maximised per pixel (0-based). */
   profiled: number[];
   warnings: string[];
+  /** Secondary composition axes of mapped subcells bound to alloy families. */
+  compositionAxes?: { x?: CompositionAxis; y?: CompositionAxis };
 }
 
 export interface SensitivitySlice {

@@ -12,6 +12,7 @@ import { sharedColourDomain } from './charts/map-layers.js';
 import { computeReport } from './compute.js';
 import { CAUTION } from './assumptions.js';
 import { pc, wiringTitle } from './view.js';
+import type { StageReporter } from './compute.js';
 
 export interface ScenarioRow {
   scenario: string;
@@ -52,9 +53,9 @@ function scopedBody(html: string, prefix: string): string {
 }
 
 /** The combined page, its charts (names prefixed per scenario) and a JSON summary. */
-export function buildScenarioReport(set: ScenarioSet, opts: { date: Date }): { html: string; charts: Chart[]; summary: Record<string, unknown>; built: BuiltReport[] } {
+export function buildScenarioReport(set: ScenarioSet, opts: { date: Date; stage?: StageReporter }): { html: string; charts: Chart[]; summary: Record<string, unknown>; built: BuiltReport[] } {
   // Scenarios are compared: maps of the same gap pair share one colour scale across every scenario and wiring.
-  const datas = set.scenarios.map((d) => computeReport(d));
+  const datas = set.scenarios.map((d) => computeReport(d, opts.stage));
   const byKey = new Map<string, GapMap[]>();
   for (const data of datas) for (const o of data.outcomes) for (const m of o.maps) byKey.set(pairKey(m), [...(byKey.get(pairKey(m)) ?? []), m.map]);
   const scales = { byPair: new Map([...byKey].map(([k, maps]) => [k, sharedColourDomain(maps)])), sharedBy: 'every scenario and wiring' };

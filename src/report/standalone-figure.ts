@@ -113,7 +113,7 @@ export function standaloneFigure(design: Design, req: FigureRequest): Standalone
   // Maps and comparisons share the report's colour scale (every wiring's map of the pair) unless a range is given.
   const shared = req.kind !== 'sensitivity' && req.colourRange === undefined;
   const wirings = shared ? design.wirings.map((_, k) => k) : [wiring];
-  const data = computeReport(design, { wirings, pairs, comparison: req.kind === 'compare' });
+  const data = computeReport(design, undefined, { wirings, pairs, comparison: req.kind === 'compare' });
   const at = wirings.indexOf(wiring);
   const o = data.outcomes[at];
   let chart: Chart;

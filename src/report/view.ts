@@ -11,6 +11,7 @@ import { constraintRangeEv } from '../design/index.js';
 import { CAUTION, describeAbsorptance, describeCoupling, emissionConvention } from './assumptions.js';
 import type { MapOutcome, ReportData, WiringOutcome } from './compute.js';
 import type { EnsembleComparison, WiringComparison } from './ensemble-compare.js';
+import { filmAssumptionLines } from './film-assumptions.js';
 
 export const fx = (x: number | null | undefined, d: number): string => (x === null || x === undefined || !Number.isFinite(x) ? '–' : x.toFixed(d));
 export const pc = (x: number, d = 2): string => `${(x * 100).toFixed(d)} %`;
@@ -306,6 +307,7 @@ export function assumptionList(data: ReportData): string[] {
   const inter = t.interlayerTransmittance.length === 0 ? 'none' : t.interlayerTransmittance.map((v) => (typeof v === 'number' ? String(v) : 'tabulated')).join(', ');
   lines.push(`Optics: ${t.subcells.map((c, i) => `${i + 1}: ${describeAbsorptance(c.absorptance)}`).join('; ')}; front reflectance ${refl}; interlayer transmittance ${inter}.`);
   lines.push(`Coupling: ${describeCoupling(t.coupling)}.`);
+  lines.push(...filmAssumptionLines(design));
   const fams = design.subcells.flatMap((s) => (s.constraint.kind === 'material' ? [s.constraint.family] : []));
   for (const f of fams) {
     lines.push(`Material ${f.name} (${f.id}): ${f.citation}; practical window ${f.window.gapEv[0]}–${f.window.gapEv[1]} eV at 300 K (${f.window.reason}); dE_g/dT = ${f.dEgDtEvPerK.toExponential(1)} eV/K applied from 300 K.`);

@@ -45,3 +45,39 @@ export function compositionInterval(family: AbsorberFamily, subcell: number, opt
   const b = nearest(highEv);
   return { subcell, family: family.id, variable: family.variable.meaning, x, lowX: Math.min(a.x, b.x), highX: Math.max(a.x, b.x), clipped: a.clipped || b.clipped };
 }
+
+/** One tick of a secondary composition axis: the gap [eV at tempK] where the composition is x. */
+export interface CompositionTick {
+  gapEv: number;
+  x: number;
+}
+
+/** A secondary axis in composition units for a gap axis of a bound subcell. */
+export interface CompositionAxis {
+  subcell: number;
+  family: string;
+  /** Axis title, e.g. "x: Br fraction … (perovskite-i-br)". */
+  label: string;
+  ticks: CompositionTick[];
+}
+
+/**
+ * Ticks every `stepX` of composition whose gap (at tempK) lies on a gap axis [loEv, hiEv], on the
+ * branch of the family's practical window (the lower-composition branch where a gap has two).
+ * @returns undefined for fixed compounds or when fewer than two ticks fall on the axis
+ */
+export function compositionAxis(family: AbsorberFamily, subcell: number, loEv: number, hiEv: number, tempK: number, stepX = 0.05): CompositionAxis | undefined {
+  if (family.kind !== 'alloy' || !family.variable) return undefined;
+  const [x0, x1] = family.compositionRange;
+  const window = family.window.composition ?? [x0, x1];
+  const ticks: CompositionTick[] = [];
+  for (let k = Math.ceil(x0 / stepX - 1e-9); k * stepX <= x1 + 1e-9; k++) {
+    const x = Number((k * stepX).toFixed(10));
+    if (x < window[0] - 1e-9 || x > window[1] + 1e-9) continue;
+    // The gap at tempK: the reference gap moved by dE_g/dT (inverse of gapAtReference).
+    const g = gapFromComposition(family, x) + (gapAtReference(family, 0, 300) - gapAtReference(family, 0, tempK));
+    if (g >= loEv - 1e-9 && g <= hiEv + 1e-9) ticks.push({ gapEv: g, x });
+  }
+  if (ticks.length < 2) return undefined;
+  return { subcell, family: family.id, label: `x: ${family.variable.meaning} (${family.id})`, ticks };
+}

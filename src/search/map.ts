@@ -143,6 +143,8 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
       warm = bestLocal.x;
       free.forEach((_, k) => (profileGaps[k][iy * nx + ix] = bestLocal.x[k]));
       note(ix, iy, bestLocal.value);
+      // A profile point is a whole local search: report each one, not only whole rows.
+      req.progress?.((iy * nx + ix + 1) / (nx * ny));
     }
     req.progress?.((iy + 1) / ny);
   }

@@ -170,7 +170,14 @@ export async function runSites(opts: SitesRunOptions): Promise<SitesRunSummary> 
   opts.onProgress?.(resumed, mine.length);
   let computed = 0;
   for (const site of mine.slice(resumed)) {
-    const answer = await opts.question.evaluate(site.path);
+    let answer: Awaited<ReturnType<SiteQuestion['evaluate']>>;
+    try {
+      answer = await opts.question.evaluate(site.path);
+    } catch (err) {
+      // Stop at the first site that cannot be answered, naming its file; the rows so far stay, and a rerun resumes.
+      if (err instanceof UserError && !err.message.includes(site.path)) throw new UserError(`${site.path}: ${err.message}`);
+      throw err;
+    }
     const row: SiteResult = { ...answer, key: site.key, file: basename(site.path) };
     // JSON first, then CSV: a cut between the two leaves the CSV one row short, which a rerun trims to match.
     appendFileSync(paths.jsonl, jsonRow(row, id.columns));

@@ -5,7 +5,8 @@
  * TSV, whitespace, `#` comments), a header naming the abscissa unit (nm, um or
  * eV) and the quantity, and errors that name the file and line.
  */
-import { readFileSync, statSync } from 'node:fs';
+import { statSync } from 'node:fs';
+import { readUserFile } from '../io/read-user-file.js';
 import { HC_EV_NM } from '../physics/constants.js';
 import { UserError, fileError } from '../errors.js';
 import { abscissaUnitOf, splitTableRows, type AbscissaUnit } from '../light/table-file.js';
@@ -92,7 +93,8 @@ export function readCurveFile(file: string, quantity: CurveQuantity): MeasuredCu
     throw new UserError(`${file}: cannot open ${quantity} file (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
   }
   if (size > MAX_CURVE_FILE_BYTES) throw fileError(file, undefined, `is above ${MAX_CURVE_FILE_BYTES / 2 ** 20} MiB; a measured curve is a few kB`);
-  const bytes = readFileSync(file);
+  // Opened through the safe reader: a read failure (EACCES, EIO) names the file, and the file counts as an input.
+  const bytes = readUserFile(file, { what: `${quantity} file`, maxBytes: MAX_CURVE_FILE_BYTES });
   if (bytes.includes(0)) throw fileError(file, undefined, 'contains binary data (NUL bytes); expected a text table');
   return curveFromText(file, bytes.toString('utf8'), quantity);
 }

@@ -138,6 +138,26 @@ export function stackWarnings(spec: StackSpec): string[] {
   return out;
 }
 
+/**
+ * Warnings about a computed result: a subcell whose Voc [V] reaches its gap
+ * [eV] (small gaps at high concentration). There the ideal-diode form, with
+ * Voc rising by kT/q·ln(C) without bound, has left its range: carriers become
+ * degenerate and the emission is no longer the gap-edge blackbody the model
+ * assumes (common practice; qV must stay below E_g for the Bose–Einstein
+ * emission term to remain finite).
+ */
+export function resultWarnings(result: StackResult): string[] {
+  const out: string[] = [];
+  result.subcells.forEach((c, i) => {
+    if (c.vocV >= c.gapEv) {
+      out.push(
+        `subcell ${i + 1}: Voc ${c.vocV.toFixed(3)} V reaches its ${c.gapEv.toFixed(3)} eV gap; the diode form breaks down there (degenerate carriers), so this subcell's numbers are outside the model's range`,
+      );
+    }
+  });
+  return out;
+}
+
 /** Saturation currents with ERE and the coupling model applied, plus per-interface η. */
 function electricalInputs(spec: StackSpec, jgen: Float64Array, j0Rad: Float64Array): StackElectrical {
   const n = spec.subcells.length;

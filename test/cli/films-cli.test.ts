@@ -58,6 +58,9 @@ describe('series resistance from --rs', () => {
     const i = evalJson({ gaps: '1.73,1.12', rs: '1.0,0.5', wiring: 'independent' });
     expect(Math.abs(s.efficiency - ref.rs_two[0].efficiency)).toBeLessThan(1e-7);
     expect(Math.abs(i.efficiency - ref.rs_two[1].efficiency)).toBeLessThan(1e-7);
+    expect(s.subcells.map((c: { rs_ohm_cm2: number }) => c.rs_ohm_cm2)).toEqual([1.0, 0.5]);
+    // each independent subcell's voltage is its diode voltage less J·R_s (films.json rs_two operation)
+    ref.rs_two[1].operation.forEach((o: { v_v: number }, k: number) => expect(Math.abs(i.subcells[k].v_op_v - o.v_v)).toBeLessThan(1e-6));
   });
   test('negative or non-numeric resistance is refused with the unit', () => {
     expect(() => evaluateCommand({ gaps: '1.73,1.12', rs: '-1' } as never)).toThrow(/--rs must be within 0–1000 Ω·cm²/);

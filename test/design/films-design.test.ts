@@ -64,6 +64,13 @@ describe('per-subcell films, measured data and resistance in a design file', () 
     expect(four.coupling).toEqual({ model: 'none' });
     expect(two.subcells.map((c) => c.rsOhmCm2 ?? 0)).toEqual([0, 0.5]);
     expect(four.subcells.map((c) => c.rsOhmCm2 ?? 0)).toEqual([1.0, 0.7]);
+    // and the report's assumptions say so, per wiring
+    const { filmAssumptionLines } = await import('../../src/report/film-assumptions.js');
+    const lines = filmAssumptionLines(d).join('\n');
+    expect(lines).toContain('Series resistance, series: 1: 0 Ω·cm²; 2: 0.5 Ω·cm²');
+    expect(lines).toContain('Series resistance, independent: 1: 1 Ω·cm²; 2: 0.7 Ω·cm²');
+    expect(lines).toContain('Optics between subcells, independent: transmittance 0.8820');
+    expect(lines).toContain('Coupling, independent: isolated subcells');
   });
 
   test('absorptance: best lets a series search thin the top cell (reference.json top_absorptance_optimum: A = 0.8032 at 1.55/1.12 eV)', async () => {
@@ -75,6 +82,24 @@ describe('per-subcell films, measured data and resistance in a design file', () 
     expect(Math.abs((r.topAbsorptance as number) - ref.best_top_absorptance)).toBeLessThan(2e-4);
     expect(Math.abs(r.result.best.value - ref.efficiency)).toBeLessThan(1e-7);
   });
+});
+
+describe('absorptance: best reaches the report', () => {
+  test(
+    'the report evaluates its detail at the top absorptance the search chose, and its η is the search optimum',
+    async () => {
+      const d = await loadDesign(file('best-report.yaml', 'name: best in a report\nsubcells:\n  - range: [1.5, 1.56]\n    absorptance: best\n  - gap: 1.12\nwirings: [series]\nmap: { step: 0.05 }\n'));
+      const { computeReport } = await import('../../src/report/compute.js');
+      const o = computeReport(d).outcomes[0];
+      const top = o.bestSpec.subcells[0].absorptance;
+      expect(top.kind).toBe('step');
+      // a thinned top (A < 0.9; at 1.55/1.12 eV the reference optimum is A = 0.803)
+      expect(o.search.topAbsorptance as number).toBeLessThan(0.9);
+      expect(top.kind === 'step' && top.value).toBe(o.search.topAbsorptance);
+      expect(Math.abs(o.detail.efficiency - o.search.result.best.value)).toBeLessThan(1e-7);
+    },
+    120_000,
+  );
 });
 
 describe('mistakes name the field and its line', () => {

@@ -6,7 +6,7 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { ParameterError, UserError, ref, says } from '../../src/errors.js';
+import { ParameterError, UserError, ref, says, withSuffix } from '../../src/errors.js';
 import { resolveSpectrum, parseSuns } from '../../src/light/sources.js';
 import { parseUnitDeclaration, spectrumFromText } from '../../src/light/table-file.js';
 import { idealStack, seriesWiring } from '../../src/stack/model.js';
@@ -96,6 +96,13 @@ describe('renaming', () => {
     const e = new ParameterError('suns', 'positive', says`${ref('suns')} 0 is too few`);
     expect(e.messageWith(() => 'spectrum.suns', { omitLeading: () => true })).toBe('0 is too few');
     expect(e.messageWith(() => 'spectrum.suns', { omitLeading: () => false })).toBe('spectrum.suns 0 is too few');
+  });
+
+  it('keeps parameter references when context is appended (an ensemble names where a file was listed)', () => {
+    const e = withSuffix(new ParameterError('units', 'u', says`no header; declare ${ref('units')}`), ' (listed at m.csv:3)');
+    expect(e).toBeInstanceOf(ParameterError);
+    expect(commandLineMessage(e)).toBe('no header; declare --units (listed at m.csv:3)');
+    expect(withSuffix(new UserError('plain'), '!').message).toBe('plain!');
   });
 
   it('keeps interpolated text literal, even when it looks like a reference', () => {

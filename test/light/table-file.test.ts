@@ -82,7 +82,7 @@ describe('bad tables are refused with file:line', () => {
     const p = file(`bad-${_name.replace(/\W+/g, '-')}.csv`, header + lines.join('\n'));
     expect(() => readSpectrumFile(p)).toThrow(message);
   });
-  test('missing file', () => expect(() => readSpectrumFile(join(dir, 'nope.csv'))).toThrow(/nope\.csv: cannot open spectrum file \(ENOENT\)/));
+  test('missing file', () => expect(() => readSpectrumFile(join(dir, 'nope.csv'))).toThrow(/nope\.csv: cannot open spectrum file \(ENOENT/));
   test('binary garbage', () => {
     const p = join(dir, 'garbage.bin');
     writeFileSync(p, Buffer.from([0x89, 0x50, 0x4e, 0x47, 0, 1, 2, 3]));

@@ -165,3 +165,28 @@ describe('part rows', () => {
     });
   });
 });
+
+describe('sites batch edge cases', () => {
+  it('identical weather files are one site; a site that cannot be answered stops the run naming its file, and a rerun resumes', async () => {
+    const dir = join(work, 'dup-sites');
+    cpSync(SITES, dir, { recursive: true });
+    cpSync(join(dir, 'orvale.epw'), join(dir, 'zz-orvale-copy.epw'));
+    const out = join(work, 'dup-out');
+    const s = await run(out, WHOLE, fakeQuestion(), listWeatherFiles([dir]));
+    expect(s.sitesTotal).toBe(12);
+    expect(s.duplicates).toEqual([join(dir, 'zz-orvale-copy.epw')]);
+
+    const failing = fakeQuestion('e'.repeat(64));
+    const good = failing.evaluate;
+    let calls = 0;
+    failing.evaluate = async (path) => {
+      if (++calls === 4) throw new UserError('no daylight hours to weigh');
+      return good(path);
+    };
+    const out2 = join(work, 'fail-out');
+    await expect(run(out2, WHOLE, failing)).rejects.toThrow(/\.epw: no daylight hours to weigh/);
+    const again = await run(out2, WHOLE, fakeQuestion('e'.repeat(64)));
+    expect(again.resumed).toBe(3);
+    expect(again.computed).toBe(9);
+  }, 120_000);
+});

@@ -27,7 +27,7 @@ describe('scheduler examples', () => {
   it('the Slurm script runs `sites` without --shard, and its default array covers every shard once', () => {
     const text = readFileSync(join(ROOT, 'examples/slurm/sites-array.sbatch'), 'utf8');
     expect(text.startsWith('#!/bin/bash\n')).toBe(true);
-    expect(text).toMatch(/^\$GAPSTACK sites "\$DESIGN" "\$SITES" --out "\$OUT"$/m);
+    expect(text).toMatch(/^\$GAPSTACK sites "\$DESIGN" "\$SITES" --tilt "\$TILT" --azimuth "\$AZIMUTH" --out "\$OUT"$/m);
     expect(text).not.toMatch(/--shard/);
     const m = /^#SBATCH --array=(\d+)-(\d+)$/m.exec(text)!;
     const [lo, hi] = [Number(m[1]), Number(m[2])];

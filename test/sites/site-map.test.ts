@@ -96,6 +96,10 @@ describe('site map drawing', () => {
     expect(r.code, r.stderr).toBe(0);
     expect(readFileSync(join(work, 'gain.svg'), 'utf8')).toMatch(/^<\?xml[^]*<svg[^]*4T over 2T yield/);
     expect(readFileSync(join(work, 'gain.png')).subarray(0, 8).toString('hex')).toBe('89504e470d0a1a0a'); // PNG signature (ISO/IEC 15948)
+    const data = JSON.parse(readFileSync(join(work, 'gain.json'), 'utf8'));
+    expect(data.points.map((p: { site: string }) => p.site)).toEqual(['Gullhaven', 'Redmarsh', 'Sunfold']);
+    expect(data.points[0].value).toBeCloseTo(2, 9);
+    expect(readFileSync(join(work, 'gain.csv'), 'utf8').split('\n')[0]).toBe('site,lat_deg,lon_deg,value');
     const bad = runCli(['sites', 'map', csvPath, '--colour', 'nonsense', '--out', join(work, 'bad')]);
     expect(bad.code).toBe(2);
   }, 60_000);

@@ -8,6 +8,7 @@
 import type { MapOutcome } from '../compute.js';
 import { buildSvg, num, svgText } from '../svg.js';
 import { drawAxes } from './frame.js';
+import { drawCompositionAxes } from './composition-axis.js';
 import {
   besideCandidates,
   clippedPlot,
@@ -142,6 +143,7 @@ export function mapChartSvg(inp: MapChartInput): string {
       // Axes and frame.
       g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1);
       drawAxes(g, { x: xs, y: ys, w, h, xTicks: 8, yTicks: 8, xLabel: inp.xLabel, yLabel: inp.yLabel });
+      drawCompositionAxes(g, o.compositionAxes, xs, ys, w);
       drawColourBar(g, w + 22, 0, h, lo, hi);
       drawMapLegend(g.append('g').attr('class', 'gs-legend').attr('transform', `translate(0,${h + 58})`), items, legendSpan);
       // Hover readout (the page's script fills it; inert in a standalone file).
