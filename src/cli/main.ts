@@ -44,15 +44,33 @@ function stackOptions<T>(y: Argv<T>) {
 
 type Handler = (a: Record<string, unknown>) => Promise<void>;
 
+/**
+ * yargs lays out and caches a command's whole help text every time it runs
+ * the command's handler, shown or not. Unless help was asked for, every
+ * option is hidden from that layout (it still parses and validates) and the
+ * descriptions are left out, so help text is built only when it is shown.
+ */
+/** Whether this call asks for help (set by run from its own arguments). */
+let HELP_SHOWN = false;
+
+function hideFromHelpLayout(y: Argv): Argv {
+  if (HELP_SHOWN) return y;
+  // getOptions() is public on the yargs instance but missing from its type declarations.
+  const keys = Object.keys((y as unknown as { getOptions(): { key: Record<string, unknown> } }).getOptions().key);
+  for (const key of keys) y.hide(key);
+  return y;
+}
+
 /** Register a command; yargs' inferred option types are not needed past this point. */
 function command(cli: Argv, name: string, describe: string, builder: (y: Argv) => Argv, handler: Handler): Argv {
-  return cli.command(name, describe, builder as never, handler as never);
+  return cli.command(name, HELP_SHOWN ? describe : '', ((y: Argv) => hideFromHelpLayout(builder(y))) as never, handler as never);
 }
 
 /** Run the command line on these arguments (without node and script); prints, and sets process.exitCode. */
 export async function run(rawArgv: string[]): Promise<void> {
   const debug = rawArgv.includes('--debug');
   const argv = joinNegativeValues(rawArgv);
+  HELP_SHOWN = argv.some((a) => a === '--help' || a === '-h');
   const print = (text: string): void => {
     // JSON output is checked as it is built (finiteJson); text is checked here.
     if (!/^\s*[[{]/.test(text)) assertFiniteText(text);
@@ -61,7 +79,7 @@ export async function run(rawArgv: string[]): Promise<void> {
   };
   let cli: Argv = yargs(argv)
     .scriptName('gapstack')
-    .usage('$0 <command> [options]\n\nDetailed-balance design of multijunction solar-cell stacks. Results are theoretical limits.');
+    .usage(HELP_SHOWN ? '$0 <command> [options]\n\nDetailed-balance design of multijunction solar-cell stacks. Results are theoretical limits.' : '$0');
   cli = command(
       cli,
       'evaluate',
@@ -103,7 +121,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('step', { type: 'string', describe: 'coarse grid step [eV] (default 5–40 meV by free subcells); refinement goes below 1 meV' })
         .option('loss', { type: 'string', describe: 'relative efficiency loss that bounds the tolerance region (default 0.01)' })
         .option('free-top-absorptance', { type: 'boolean', default: false, describe: '2T: let the search thin the top cell (constant absorptance above its gap)' })
-        .option('threads', { type: 'string', describe: 'worker threads for large searches (default: the number of cores)' })
+        .option('threads', { type: 'string', describe: 'most worker threads for large searches (default: the number of cores; the size of the work decides)' })
         .option('json', { type: 'boolean', default: false }),
     async (a) => print(await (await import('./optimize-command.js')).optimizeCommand(a as never)),
   );

@@ -1,10 +1,8 @@
 /** `gapstack map`: efficiency over two gaps, as CSV or JSON for reports and slides. */
-import { createHash } from 'node:crypto';
 import { UserError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { buildObjective } from '../stack/objectives.js';
-import { toolVersion } from '../report/version.js';
-import { computeMap, mapToCsv, uniformAxis, type GapMap } from '../search/map.js';
+import { computeMap, mapToCsvBytes, uniformAxis, type GapMap } from '../search/map.js';
 import { subcellBounds } from '../search/optimize.js';
 import { constraintBounds } from '../search/design-search.js';
 import { CAUTION, describeCoupling } from '../report/assumptions.js';
@@ -35,7 +33,7 @@ export function mapJson(m: GapMap, meta: Record<string, unknown>): Record<string
   const nx = m.x.length;
   const rows = Array.from({ length: m.y.length }, (_, iy) => Array.from({ length: nx }, (_, ix) => {
     const v = m.values[iy * nx + ix];
-    return Number.isNaN(v) ? null : round(v * 100, 8);
+    return Number.isNaN(v) ? null : round(v, 8);
   }));
   return {
     ...meta,
@@ -43,10 +41,10 @@ export function mapJson(m: GapMap, meta: Record<string, unknown>): Record<string
     y_subcell: m.yCell + 1,
     x_ev: Array.from(m.x),
     y_ev: Array.from(m.y),
-    efficiency_percent: rows,
+    efficiency: rows,
     profile: m.profile,
-    best: { x_ev: m.best.x, y_ev: m.best.y, efficiency: round(m.best.value, 10), efficiency_percent: round(m.best.value * 100, 8) },
-    layout: 'efficiency_percent[iy][ix] is the value at (x_ev[ix], y_ev[iy]) in percent; null where the upper gap is not above the lower',
+    best: { x_ev: m.best.x, y_ev: m.best.y, efficiency: round(m.best.value, 10) },
+    layout: 'efficiency[iy][ix] is the value at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
     caution: CAUTION,
   };
 }
@@ -94,8 +92,6 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   }
   const seconds = (performance.now() - t0) / 1000;
   const meta = {
-    tool: `gapstack ${toolVersion()}`,
-    units: { gaps: 'eV', efficiency_percent: '%', temp_k: 'K', pin_w_m2: 'W/m²' },
     wiring: spec.wiring.label,
     cells,
     temp_k: spec.tempK,
@@ -105,20 +101,10 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     spectra: members.map((s) => ({ label: s.label, sha256: s.spectrum.sha256, pin_w_m2: round(s.spectrum.pinWm2) })),
   };
   const free = Array.from({ length: cells }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && fixed[i] === undefined);
-  const header = [
-    `tool: gapstack ${toolVersion()}`,
-    `wiring: ${spec.wiring.label}`,
-    ...(members.length <= 4
-      ? members.map((s) => `light: ${s.label}, P_in ${round(s.spectrum.pinWm2, 8)} W/m², SHA-256 ${s.spectrum.sha256}`)
-      : [`light: ${members.length} weighted spectra (yield-weighted); SHA-256 of their SHA-256s in order ${createHash('sha256').update(members.map((s) => s.spectrum.sha256).join('\n')).digest('hex')}`]),
-    `cell temperature: ${spec.tempK} K`,
-    `units: gaps in eV, efficiency_percent in % (P_max / P_in × 100)`,
-    `caution: ${CAUTION}`,
-  ];
   // The lowest gap the map uses: its axes' low ends, fixed gaps, and the span where other subcells are maximised.
   const lowestGapEv = Math.min(x0, y0, ...fixed.filter((g): g is number => g !== undefined), ...(free.length > 0 ? [spanFromArgs(a.span)[0]] : []));
   const warnings = members.length === 1 ? coverageWarnings(members[0].spectrum, lowestGapEv, CLI_EXTEND_HINT) : [];
-  const csv = () => withCsvWarnings(mapToCsv(m, free, header), warnings);
+  const csv = () => withCsvWarnings(mapToCsvBytes(m, free), warnings);
   if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, { ...meta, warnings })) : csv(), '--out');
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {
@@ -131,7 +117,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
     caution: CAUTION,
   };
   if (a.json) return finiteJson(out ? summary : mapJson(m, { ...meta, warnings }), null, 2);
-  if (!out) return csv().trimEnd();
+  if (!out) return new TextDecoder().decode(csv()).trimEnd();
   return [
     `Wrote ${points} points to ${out} (${seconds.toFixed(3)} s).`,
     `Best on the map: ${(m.best.value * 100).toFixed(3)} % at subcell ${xCell + 1} = ${m.best.x.toFixed(4)} eV, subcell ${yCell + 1} = ${m.best.y.toFixed(4)} eV${m.profile ? ' (other gaps maximised per point)' : ''}.`,
@@ -140,9 +126,10 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   ].join('\n');
 }
 
-/** Warnings as `# Warning:` comment lines after the CSV's first comment line. */
-function withCsvWarnings(csv: string, warnings: string[]): string {
+/** Warnings as `# Warning:` comment lines after the CSV's first comment line (bytes, as mapToCsvBytes writes them). */
+function withCsvWarnings(csv: Uint8Array, warnings: string[]): Uint8Array {
   if (warnings.length === 0) return csv;
-  const cut = csv.indexOf('\n') + 1;
-  return `${csv.slice(0, cut)}${warnings.map((w) => `# Warning: ${w}\n`).join('')}${csv.slice(cut)}`;
+  const cut = csv.indexOf(10) + 1;
+  const lines = Buffer.from(warnings.map((w) => `# Warning: ${w}\n`).join(''), 'utf8');
+  return Buffer.concat([csv.subarray(0, cut), lines, csv.subarray(cut)]);
 }

@@ -18,7 +18,7 @@ import { finiteJson } from './guards.js';
 import { coverageWarnings } from '../light/coverage.js';
 import { toMaCm2 } from '../physics/constants.js';
 
-/** --threads: worker threads for the enumeration (default: the machine's cores, at most 8). */
+/** --threads: most worker threads the enumeration may use (default: the machine's cores, at most 8); the size of the work decides how many it does use. */
 export function threadsFromArgs(value: unknown): number {
   if (value === undefined) return Math.min(8, availableParallelism());
   const t = Number(value);
@@ -43,7 +43,7 @@ function ensembleAware(lines: string[], members: { label: string; tempK: number;
   if (members.length === 1) return lines;
   const temps = members.map((m) => m.tempK);
   return [
-    `ensemble of ${members.length} spectra (${members[0].label} … ${members[members.length - 1].label}); yield-weighted efficiency = Σ w·P_max / Σ w·P_in, each spectrum solved on its own`,
+    `ensemble of ${members.length} spectra (${members[0].label} … ${members[members.length - 1].label}); yield-weighted efficiency = Σ Δt·P_max / Σ Δt·P_in for hours, Σ s·η / Σ s for energy shares, each spectrum solved on its own`,
     `cell temperatures ${Math.min(...temps)}–${Math.max(...temps)} K as the ensemble gives them`,
     ...lines.filter((l) => !l.startsWith('spectrum:') && !l.startsWith('cell temperature:')),
   ];

@@ -16,8 +16,11 @@ export async function spectraFromArgs(a: SpectraArgs, tempK: number): Promise<La
     if (a.spectrum !== undefined) throw new UserError('give either --spectrum or --ensemble, not both');
     if (a.suns !== undefined || a.irradiance !== undefined) throw new UserError('--suns and --irradiance apply to one spectrum; an ensemble carries its own irradiance');
     const { loadEnsemble } = await import('../light/ensemble.js');
+    const { withPowerWeights } = await import('../light/ensemble-weights.js');
     const units = a.units === undefined ? undefined : parseUnitDeclaration(a.units);
-    return loadEnsemble(a.ensemble, { defaultTempK: tempK, units }).members;
+    const e = loadEnsemble(a.ensemble, { defaultTempK: tempK, units });
+    // The search maximises Σ w·P_max / Σ w·P_in: shares enter as s/P_in (docs/PHYSICS.md §10).
+    return withPowerWeights(e.members, e.weightUnit);
   }
   const spectrum = spectrumFromArgs(a);
   return [{ spectrum, weight: 1, tempK, label: spectrum.name }];

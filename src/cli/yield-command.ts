@@ -1,6 +1,7 @@
 /**
  * `gapstack yield`: one stack re-solved under every spectrum of an ensemble,
- * the yield-weighted efficiency Σ w·P_max / Σ w·P_in, and what the ensemble
+ * the yield-weighted efficiency (Σ Δt·P_max / Σ Δt·P_in for hours, Σ s·η / Σ s
+ * for energy shares, docs/PHYSICS.md §10), and what the ensemble
  * holds (docs/PHYSICS.md §8).
  */
 import { UserError } from '../errors.js';
@@ -122,7 +123,7 @@ export function yieldCommand(a: YieldArgs): string {
   const window = a.apeWindow === undefined ? undefined : parseRange('ape-window', a.apeWindow);
   const lowestGapEv = Math.min(...gaps);
   const s = ensembleSummary(e, window, { lowestGapEv });
-  const y = yieldForStack(spec, e.members);
+  const y = yieldForStack(spec, e.members, e.weightUnit);
   const ref = evaluateStack(spec, am15g()).efficiency;
   if (a.json) return finiteJson(yieldJson(spec, e, s, y, ref), null, 2);
 
@@ -140,7 +141,7 @@ export function yieldCommand(a: YieldArgs): string {
     ...p.subcells.map((c) => fix(toMaCm2(c.jOpAm2), 2)),
   ]);
   const out = [
-    `Yield-weighted efficiency ${pct(y.yieldEfficiency, 3)} over ${e.members.length} spectra (Σ w·P_max / Σ w·P_in), wiring: ${spec.wiring.label}, gaps ${gaps.join(' / ')} eV`,
+    `Yield-weighted efficiency ${pct(y.yieldEfficiency, 3)} over ${e.members.length} spectra (${hours ? 'Σ Δt·P_max / Σ Δt·P_in' : 'Σ s·η / Σ s'}), wiring: ${spec.wiring.label}, gaps ${gaps.join(' / ')} eV`,
     `Same stack under AM1.5G at ${spec.tempK} K: ${pct(ref, 3)}`,
   ];
   if (hours) {

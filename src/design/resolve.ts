@@ -7,6 +7,7 @@
  */
 import { dirname, isAbsolute, resolve } from 'node:path';
 import { ParameterError, UserError } from '../errors.js';
+import { powerWeight } from '../light/ensemble-weights.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
@@ -86,7 +87,8 @@ async function resolveLight(src: Located, f: DesignFile, tempK: number, spanEv: 
       s.ape.weightedMeanEv === null ? `average photon energy: not available over ${s.ape.windowNm[0]}–${s.ape.windowNm[1]} nm` : `average photon energy ${s.ape.weightedMeanEv.toFixed(4)} eV (weighted mean, ${s.ape.windowNm[0]}–${s.ape.windowNm[1]} nm)`,
       `cell temperatures ${s.tempK.min}–${s.tempK.max} K`,
     ];
-    const spectra = e.members.map((m) => ({ spectrum: m.spectrum, weight: m.weight, tempK: m.tempK, label: m.label }));
+    // Σ w·P_max / Σ w·P_in with shares entering as s/P_in (docs/PHYSICS.md §10).
+    const spectra = e.members.map((m) => ({ spectrum: m.spectrum, weight: powerWeight(m.weight, e.weightUnit, m.spectrum), tempK: m.tempK, label: m.label }));
     return {
       light: { kind: 'ensemble', name: e.name, sha256: e.sha256, source: e.source, summaryLines, summary: s, warnings: s.warnings, request: f.ensemble },
       spectra,

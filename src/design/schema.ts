@@ -5,15 +5,16 @@
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
+import type { ErrorObject, ValidateFunction } from 'ajv';
 import { UserError } from '../errors.js';
 import { designError, fieldName, type DesignSource, type FieldPath } from './source.js';
 import type { DesignFile } from './types.js';
+// ajv's standalone code for schema/design.schema.json, generated at build time by
+// scripts/compile-design-schema.mjs: loading a design neither imports ajv's compiler nor compiles.
+import compiledValidator from './validate-design.generated.js';
 
 /** Where the schema ships: schema/ at the package root (from src/ and dist/ alike). */
 export const DESIGN_SCHEMA_PATH = fileURLToPath(new URL('../../schema/design.schema.json', import.meta.url));
-
-let compiled: ValidateFunction | undefined;
 
 /** The schema as data. */
 export function designSchema(): Record<string, unknown> {
@@ -21,11 +22,7 @@ export function designSchema(): Record<string, unknown> {
 }
 
 function validator(): ValidateFunction {
-  if (!compiled) {
-    const ajv = new Ajv2020({ allErrors: true, verbose: true, strict: true });
-    compiled = ajv.compile(designSchema());
-  }
-  return compiled;
+  return compiledValidator as ValidateFunction;
 }
 
 function pathOf(instancePath: string): (string | number)[] {

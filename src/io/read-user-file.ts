@@ -56,11 +56,20 @@ function sizeText(bytes: number): string {
   return bytes >= 2 ** 20 ? `${(bytes / 2 ** 20).toFixed(0)} MiB` : `${bytes} bytes`;
 }
 
+/** A user's file opened for reading after the checks of openUserFile. */
+export interface OpenedUserFile {
+  fd: number;
+  /** Size when opened [bytes]; reading may find more (checkGrowth) or less. */
+  size: number;
+}
+
 /**
- * Read a user's file into memory, refusing anything but a regular file and
- * anything above `maxBytes`, before and while reading.
+ * Open a user's file for reading: only a regular file no larger than
+ * `maxBytes`, noted as an input of the run. Every failure is a UserError that
+ * names the file. The caller reads with readUserChunk, checks the running
+ * total with checkGrowth, and closes the descriptor.
  */
-export function readUserFile(path: string, opts: ReadUserFileOptions): Buffer {
+export function openUserFile(path: string, opts: ReadUserFileOptions): OpenedUserFile {
   injectedReadFault(path, opts.what);
   let fd: number;
   try {
@@ -75,19 +84,42 @@ export function readUserFile(path: string, opts: ReadUserFileOptions): Buffer {
     if (!st.isFile()) throw fileError(path, undefined, `is not a regular file (a FIFO, socket or device); a ${opts.what} must be a file`);
     if (st.size > opts.maxBytes) throw fileError(path, undefined, `is ${sizeText(st.size)}; a ${opts.what} above ${sizeText(opts.maxBytes)} is refused`);
     noteInput(path, st);
+    return { fd, size: st.size };
+  } catch (err) {
+    closeSync(fd);
+    throw err;
+  }
+}
+
+/** readSync on an opened user file; a failure (EIO, …) is a UserError naming the file. */
+export function readUserChunk(path: string, what: string, fd: number, buf: Uint8Array, offset: number, length: number, position: number | null): number {
+  try {
+    return readSync(fd, buf, offset, length, position);
+  } catch (err) {
+    throw new UserError(`${path}: cannot read ${what} (${codeAndWords(err)})`);
+  }
+}
+
+/** Refuse a file found, while being read, to hold more than `maxBytes` (it grew, or its size was not reported). */
+export function checkGrowth(path: string, opts: ReadUserFileOptions, bytesSoFar: number): void {
+  if (bytesSoFar > opts.maxBytes) throw fileError(path, undefined, `grew past ${sizeText(opts.maxBytes)} while being read; a ${opts.what} above that is refused`);
+}
+
+/**
+ * Read a user's file into memory, refusing anything but a regular file and
+ * anything above `maxBytes`, before and while reading.
+ */
+export function readUserFile(path: string, opts: ReadUserFileOptions): Buffer {
+  const { fd } = openUserFile(path, opts);
+  try {
     const chunks: Buffer[] = [];
     let total = 0;
     const chunk = Buffer.allocUnsafe(Math.min(1 << 20, opts.maxBytes + 1));
     for (;;) {
-      let n: number;
-      try {
-        n = readSync(fd, chunk, 0, chunk.length, null);
-      } catch (err) {
-        throw new UserError(`${path}: cannot read ${opts.what} (${codeAndWords(err)})`);
-      }
+      const n = readUserChunk(path, opts.what, fd, chunk, 0, chunk.length, null);
       if (n === 0) break;
       total += n;
-      if (total > opts.maxBytes) throw fileError(path, undefined, `grew past ${sizeText(opts.maxBytes)} while being read; a ${opts.what} above that is refused`);
+      checkGrowth(path, opts, total);
       chunks.push(Buffer.from(chunk.subarray(0, n)));
     }
     return Buffer.concat(chunks, total);

@@ -30,9 +30,9 @@ import { codeAndWords, readUserText } from '../io/read-user-file.js';
 import { basename, dirname, extname, isAbsolute, join, resolve } from 'node:path';
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode } from 'yaml';
 import { UserError, fileError, withSuffix } from '../errors.js';
-import { HC_EV_NM } from '../physics/constants.js';
 import type { LabelledSpectrum } from './weighted-spectrum.js';
-import { DEFAULT_APE_WINDOW_NM, averagePhotonEnergyEv, makeSpectrum, sha256Hex, sha256OfTable, type Spectrum } from './spectrum.js';
+import { makeSpectrum, sha256Hex, sha256OfTable, spectrumOfArrays, type Spectrum } from './spectrum.js';
+import { readWideColumns } from './wide-table-reader.js';
 import {
   abscissaUnitOf,
   MAX_SPECTRUM_FILE_BYTES,
@@ -55,8 +55,8 @@ export interface EnsembleMember extends LabelledSpectrum {
   timestamp?: string;
 }
 
-/** How the weights are meant: hours (so Σ w·P is energy [Wh/m²]) or relative energy shares [-]. */
-export type WeightUnit = 'hours' | 'share';
+import type { WeightUnit } from './ensemble-weights.js';
+export type { WeightUnit } from './ensemble-weights.js';
 
 export type EnsembleLayout = 'folder' | 'csv-manifest' | 'yaml-manifest' | 'wide-columns' | 'wide-rows';
 
@@ -83,6 +83,8 @@ export interface LoadEnsembleOptions {
   defaultTempK: number;
   /** Units of member files, overriding their headers (as --units does for one spectrum file); for a wide table, its units. */
   units?: TableUnits;
+  /** Read a column-wise wide table through the streaming reader (default true; false reads it row by row, for checks). */
+  streaming?: boolean;
 }
 
 /** Cell temperatures accepted for a member [K]. */
@@ -93,17 +95,6 @@ export const MAX_ENSEMBLE_FILE_BYTES = 4 * MAX_SPECTRUM_FILE_BYTES;
 export const MAX_ENSEMBLE_TOTAL_BYTES = 1024 * 1024 * 1024;
 /** Most members in one ensemble (an hourly year is 8760). */
 export const MAX_ENSEMBLE_MEMBERS = 100_000;
-/** APE window used by the summary unless told otherwise [nm]; the same as the spectrum command's (common practice: a usual spectroradiometer range). */
-export const ENSEMBLE_APE_WINDOW_NM: readonly [number, number] = DEFAULT_APE_WINDOW_NM;
-/** Lowest gap the summary checks member ranges against unless told otherwise [eV] (2480 nm). */
-export const ENSEMBLE_LOWEST_GAP_EV = 0.5;
-/** A member starting above this wavelength [nm] is warned about: its ultraviolet counts as zero. */
-export const ENSEMBLE_UV_START_NM = 300;
-
-/** How photons outside a member's table are treated; carried into every summary. */
-export const OUT_OF_RANGE_POLICY =
-  "photons outside a member's table count as zero: N(E) is constant beyond the table's long-wavelength end and zero above its short end; P_in is the integral over the member's own table";
-
 /** Files in a folder that are clearly not spectrum tables (skipped, and listed). */
 const NOT_SPECTRUM_EXTENSIONS = new Set([
   '.md', '.markdown', '.rst', '.html', '.htm', '.pdf', '.json', '.yaml', '.yml', '.toml', '.ini', '.xml',
@@ -682,6 +673,104 @@ function loadWideTable(file: string, bytes: Buffer, rows: Row[], directives: Map
   };
 }
 
+/**
+ * The column-wise wide table through the streaming reader (typed arrays, no
+ * per-cell objects; see wide-table-reader.ts), or undefined when the file is
+ * anything but the plain well-formed case, which loadWideTable then reads
+ * (and reports on) row by row. Both give the same members and numbers.
+ */
+function loadWideStreaming(file: string, opts: LoadEnsembleOptions): Ensemble | undefined {
+  const t = readWideColumns(file, isMetaTitle, { what: 'ensemble file', maxBytes: MAX_ENSEMBLE_FILE_BYTES });
+  if (!t) return undefined;
+  try {
+    const directives = new Map<string, Directive>();
+    const body: Row[] = [];
+    let delimiter: string | null | undefined;
+    for (const p of t.preamble) {
+      const m = DIRECTIVE.exec(p.text);
+      if (m) {
+        const key = m[1].toLowerCase();
+        if (directives.has(key)) return undefined;
+        directives.set(key, { value: m[2], line: p.line });
+      } else if (!p.text.startsWith('#')) {
+        // The header's delimiter is the table's, as in the row-by-row reader.
+        if (delimiter === undefined) delimiter = p.text.includes(',') ? ',' : p.text.includes(';') ? ';' : null;
+        body.push({ line: p.line, cells: delimiter ? p.text.split(delimiter).map((c) => c.trim()) : p.text.split(/[ \t]+/) });
+      }
+    }
+    const header = body[0];
+    const titles = header.cells.map((c) => c.trim().toLowerCase());
+    if (titles.includes('file') || titles.includes('path')) return undefined;
+    if (header.cells.length !== t.columns + 1 || header.cells.slice(1).some((l) => l === '')) return undefined;
+    const labels = header.cells.slice(1);
+    const weights: (number | undefined)[] = new Array(t.columns).fill(undefined);
+    const temps: (number | undefined)[] = new Array(t.columns).fill(undefined);
+    let weightTitle: string | undefined;
+    let weightLine: number | undefined;
+    let tempSeen = false;
+    for (const r of body.slice(1)) {
+      if (r.cells.length !== header.cells.length) return undefined;
+      const ti = r.cells[0].trim().toLowerCase();
+      if (WEIGHT_TITLES.has(ti)) {
+        if (weightTitle !== undefined) return undefined;
+        weightTitle = ti;
+        weightLine = r.line;
+        for (let k = 0; k < t.columns; k++) weights[k] = weightOf(file, r.line, r.cells[k + 1]);
+      } else {
+        if (tempSeen) return undefined;
+        tempSeen = true;
+        for (let k = 0; k < t.columns; k++) temps[k] = r.cells[k + 1] === '' ? undefined : tempOf(file, r.line, r.cells[k + 1]);
+      }
+    }
+    const single = t.columns === 1 ? labels[0] : undefined;
+    const units = tableUnits(file, directives, header.cells[0], header.line, opts, single);
+    const directive = directives.get('weight_unit');
+    const declared = directive ? parseWeightUnit(file, directive.line, directive.value) : undefined;
+    const weightUnit = settleWeightUnit(file, weightLine ?? header.line, weightTitle, declared);
+    const canonical = units.x === 'nm' && units.y === 'W/m2/nm';
+    const unitText = `${units.x}, ${units.y}`;
+    const grids = new Map<string, Float64Array>();
+    const members: EnsembleMember[] = [];
+    for (let k = 0; k < t.columns; k++) {
+      const a = t.first[k];
+      const b = t.last[k];
+      if (a < 0 || b - a + 1 < MIN_SPECTRUM_POINTS) return undefined;
+      const key = `${a}:${b}`;
+      let xs = grids.get(key);
+      if (!xs) {
+        xs = t.abscissa.subarray(a, b + 1);
+        grids.set(key, xs);
+      }
+      const ys = t.values.subarray(k * t.stride + a, k * t.stride + b + 1);
+      const { wavelengthNm, irradiance } = canonical ? { wavelengthNm: xs, irradiance: ys } : toCanonical(xs, ys, units);
+      const label = labels[k];
+      const spectrum = spectrumOfArrays({
+        name: label,
+        sha256: sha256OfTable(wavelengthNm, irradiance),
+        source: `column ${k + 2} "${label}" of ${file} (${unitText})`,
+        wavelengthNm,
+        irradiance,
+      });
+      const ts = timestampOf(label);
+      members.push({ spectrum, weight: weights[k] ?? 1, tempK: temps[k] ?? opts.defaultTempK, label, ...(ts ? { timestamp: ts } : {}) });
+    }
+    checkCount(file, members.length);
+    return {
+      name: directives.get('name')?.value || stem(file),
+      source: `wide table ${file} (one spectrum per column, ${members.length} spectra, weights ${weightUnit === 'hours' ? 'in hours' : 'as energy shares'})`,
+      sha256: t.sha256,
+      members,
+      layout: 'wide-columns',
+      weightUnit,
+      skipped: [],
+    };
+  } catch (err) {
+    // Let the row-by-row reader find and word the problem.
+    if (err instanceof UserError) return undefined;
+    throw err;
+  }
+}
+
 // ---------------------------------------------------------------------------
 
 /**
@@ -701,6 +790,8 @@ export function loadEnsemble(path: string, opts: LoadEnsembleOptions): Ensemble 
   if (isDir) return loadFolder(path, opts);
   const ext = extname(path).toLowerCase();
   if (ext === '.yaml' || ext === '.yml') return loadYamlManifest(path, opts);
+  const streamed = opts.streaming === false ? undefined : loadWideStreaming(path, opts);
+  if (streamed) return streamed;
   const { bytes, text } = readTextFile(path, 'ensemble file');
   const { rows, directives } = readDelimited(path, text);
   if (rows.length === 0) throw fileError(path, undefined, `holds no rows; expected a manifest with a "file" column or a wide table (${WIDE_HELP})`);
@@ -710,142 +801,6 @@ export function loadEnsemble(path: string, opts: LoadEnsembleOptions): Ensemble 
 }
 
 // ---------------------------------------------------------------------------
-// Summary
+// What an ensemble holds (statistics, ranges, warnings): ensemble-summary.ts.
 
-export interface MemberRange {
-  label: string;
-  fromNm: number;
-  toNm: number;
-  points: number;
-}
-
-export interface EnsembleSummary {
-  count: number;
-  totalWeight: number;
-  weightUnit: WeightUnit;
-  /** Σ w·P_in / Σ w [W/m²]. */
-  weightedMeanIrradianceWm2: number;
-  /** Member P_in [W/m²]: smallest, weighted median (each member counted by its weight), largest. */
-  irradianceWm2: { min: number; median: number; max: number };
-  ape: {
-    windowNm: [number, number];
-    /** APE per member [eV]; null where the member's table does not cover the window. */
-    perMember: { label: string; apeEv: number | null }[];
-    /** Weighted mean over members with an APE [eV]. */
-    weightedMeanEv: number | null;
-    /** Histogram of APE: bin edges [eV] (one more than bins) and the summed weight in each bin. */
-    histogram: { edgesEv: number[]; weights: number[] };
-  };
-  tempK: { min: number; max: number };
-  ranges: MemberRange[];
-  /** Longest wavelength every member should reach [nm], from the lowest gap checked. */
-  requiredToNm: number;
-  lowestGapEv: number;
-  outOfRangePolicy: string;
-  warnings: string[];
-}
-
-export interface SummaryOptions {
-  /** Lowest gap a design or search may use [eV]; members must reach hc/E_g (default 0.5 eV, 2480 nm). */
-  lowestGapEv?: number;
-}
-
-const BIN_WIDTHS_EV = [0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1];
-const MAX_HISTOGRAM_BINS = 24;
-
-function histogram(values: { x: number; w: number }[]): { edgesEv: number[]; weights: number[] } {
-  if (values.length === 0) return { edgesEv: [], weights: [] };
-  const lo = Math.min(...values.map((v) => v.x));
-  const hi = Math.max(...values.map((v) => v.x));
-  let width = BIN_WIDTHS_EV[BIN_WIDTHS_EV.length - 1];
-  for (const w of BIN_WIDTHS_EV) {
-    if (Math.floor(hi / w) - Math.floor(lo / w) + 1 <= MAX_HISTOGRAM_BINS) {
-      width = w;
-      break;
-    }
-  }
-  const k0 = Math.floor(lo / width);
-  const bins = Math.floor(hi / width) - k0 + 1;
-  const edgesEv = Array.from({ length: bins + 1 }, (_, i) => Number(((k0 + i) * width).toFixed(6)));
-  const weights = new Array<number>(bins).fill(0);
-  for (const v of values) weights[Math.min(bins - 1, Math.max(0, Math.floor(v.x / width) - k0))] += v.w;
-  return { edgesEv, weights };
-}
-
-function weightedMedian(values: { x: number; w: number }[]): number {
-  const s = [...values].sort((a, b) => a.x - b.x);
-  const half = s.reduce((a, v) => a + v.w, 0) / 2;
-  let acc = 0;
-  for (let i = 0; i < s.length; i++) {
-    acc += s[i].w;
-    if (acc > half * (1 + 1e-12)) return s[i].x;
-    if (Math.abs(acc - half) <= half * 1e-12) return i + 1 < s.length ? 0.5 * (s[i].x + s[i + 1].x) : s[i].x;
-  }
-  return s[s.length - 1].x;
-}
-
-/**
- * What an ensemble holds: irradiance statistics, average photon energy (APE,
- * Jardine et al., Prog. Photovolt. 2002) per member over a window (default
- * 350–1050 nm) with a weighted histogram, the temperature range, each
- * member's wavelength range and warnings where a range stops short.
- */
-export function ensembleSummary(e: Ensemble, apeWindowNm: [number, number] = [...ENSEMBLE_APE_WINDOW_NM] as [number, number], opts: SummaryOptions = {}): EnsembleSummary {
-  const [wlo, whi] = apeWindowNm;
-  if (!(wlo > 0 && whi > wlo)) throw new UserError(`APE window must be low:high in nm with 0 < low < high, got ${wlo}:${whi}`);
-  const lowestGapEv = opts.lowestGapEv ?? ENSEMBLE_LOWEST_GAP_EV;
-  if (!(lowestGapEv > 0)) throw new UserError(`lowest gap must be a positive number of eV, got ${lowestGapEv}`);
-  const requiredToNm = HC_EV_NM / lowestGapEv;
-  const m = e.members;
-  const totalWeight = m.reduce((a, x) => a + x.weight, 0);
-  const pins = m.map((x) => ({ x: x.spectrum.pinWm2, w: x.weight }));
-  const warnings: string[] = [];
-  const ranges: MemberRange[] = m.map((x) => {
-    const w = x.spectrum.wavelengthNm;
-    return { label: x.label, fromNm: w[0], toNm: w[w.length - 1], points: w.length };
-  });
-  const short = ranges.filter((r) => r.toNm < requiredToNm * (1 - 1e-9));
-  if (short.length > 0) {
-    const worst = short.reduce((a, r) => (r.toNm < a.toNm ? r : a));
-    warnings.push(
-      `${short.length} of ${m.length} spectra end before ${requiredToNm.toFixed(0)} nm (the wavelength of a ${lowestGapEv} eV gap), shortest "${worst.label}" at ${worst.toNm.toFixed(0)} nm: ` +
-        `photons beyond a table count as zero, so subcells with gaps below ${(HC_EV_NM / worst.toNm).toFixed(3)} eV are under-counted there`,
-    );
-  }
-  const lateUv = ranges.filter((r) => r.fromNm > ENSEMBLE_UV_START_NM);
-  if (lateUv.length > 0) {
-    const worst = lateUv.reduce((a, r) => (r.fromNm > a.fromNm ? r : a));
-    warnings.push(
-      `${lateUv.length} of ${m.length} spectra start above ${ENSEMBLE_UV_START_NM} nm, latest "${worst.label}" at ${worst.fromNm.toFixed(0)} nm: photons above ${(HC_EV_NM / worst.fromNm).toFixed(2)} eV count as zero there`,
-    );
-  }
-  const perMember = m.map((x, i) => {
-    const r = ranges[i];
-    const covers = r.fromNm <= wlo && r.toNm >= whi;
-    return { label: x.label, apeEv: covers ? averagePhotonEnergyEv(x.spectrum, wlo, whi) : null };
-  });
-  const missingApe = perMember.filter((p) => p.apeEv === null || !Number.isFinite(p.apeEv)).length;
-  if (missingApe > 0) warnings.push(`${missingApe} of ${m.length} spectra do not cover the APE window ${wlo}–${whi} nm (or hold no photons there); their APE is not given`);
-  const apeValues = perMember.flatMap((p, i) => (p.apeEv !== null && Number.isFinite(p.apeEv) ? [{ x: p.apeEv, w: m[i].weight }] : []));
-  const apeWeight = apeValues.reduce((a, v) => a + v.w, 0);
-  const temps = m.map((x) => x.tempK);
-  return {
-    count: m.length,
-    totalWeight,
-    weightUnit: e.weightUnit,
-    weightedMeanIrradianceWm2: pins.reduce((a, p) => a + p.x * p.w, 0) / totalWeight,
-    irradianceWm2: { min: Math.min(...pins.map((p) => p.x)), median: weightedMedian(pins), max: Math.max(...pins.map((p) => p.x)) },
-    ape: {
-      windowNm: [wlo, whi],
-      perMember,
-      weightedMeanEv: apeWeight > 0 ? apeValues.reduce((a, v) => a + v.x * v.w, 0) / apeWeight : null,
-      histogram: histogram(apeValues),
-    },
-    tempK: { min: Math.min(...temps), max: Math.max(...temps) },
-    ranges,
-    requiredToNm,
-    lowestGapEv,
-    outOfRangePolicy: OUT_OF_RANGE_POLICY,
-    warnings,
-  };
-}
+export { ENSEMBLE_APE_WINDOW_NM, ENSEMBLE_LOWEST_GAP_EV, ENSEMBLE_UV_START_NM, OUT_OF_RANGE_POLICY, ensembleSummary, type EnsembleSummary, type MemberRange, type SummaryOptions } from './ensemble-summary.js';

@@ -55,8 +55,19 @@ export function trapezoid(x: ArrayLike<number>, y: ArrayLike<number>): number {
 export function makeSpectrum(input: SpectrumInput): Spectrum {
   const n = input.wavelengthNm.length;
   if (n < 2 || input.irradiance.length !== n) throw new UserError('a spectrum needs at least two points with one irradiance each');
-  const wavelengthNm = Float64Array.from(input.wavelengthNm);
-  const irradiance = Float64Array.from(input.irradiance);
+  return spectrumOfArrays({ ...input, wavelengthNm: Float64Array.from(input.wavelengthNm), irradiance: Float64Array.from(input.irradiance) });
+}
+
+/**
+ * makeSpectrum for arrays the spectrum may keep as they are (no copy): a large
+ * ensemble's members are views into one table, and members with the same rows
+ * share one wavelength array. The arrays must not change afterwards.
+ */
+export function spectrumOfArrays(input: SpectrumInput & { wavelengthNm: Float64Array; irradiance: Float64Array }): Spectrum {
+  const n = input.wavelengthNm.length;
+  if (n < 2 || input.irradiance.length !== n) throw new UserError('a spectrum needs at least two points with one irradiance each');
+  const wavelengthNm = input.wavelengthNm;
+  const irradiance = input.irradiance;
   const photonFlux = new Float64Array(n);
   for (let i = 0; i < n; i++) photonFlux[i] = (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
   const cumulativePhotons = new Float64Array(n);

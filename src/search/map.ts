@@ -151,12 +151,15 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   return { x, y, xCell, yCell, values, profileGaps, profile: free.length > 0, best };
 }
 
-/** CSV text of a map: one row per pixel, gaps [eV] and efficiency [%]; `header` lines (who, what light, which units) go first as # comments. */
-export function mapToCsv(m: GapMap, freeCells: number[] = [], header: string[] = []): string {
-  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency_percent'];
+/**
+ * CSV text of a map: one row per pixel, gaps [eV] and efficiency [-]. The
+ * plain form, kept as the definition of the format; commands write
+ * mapToCsvBytes, which gives the same bytes faster.
+ */
+export function mapToCsv(m: GapMap, freeCells: number[] = []): string {
+  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
   const lines = [
-    '# gapstack map: detailed-balance efficiency [%] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
-    ...header.map((h) => `# ${h}`),
+    '# gapstack map: detailed-balance efficiency [-] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
     head.join(','),
   ];
   const nx = m.x.length;
@@ -165,9 +168,86 @@ export function mapToCsv(m: GapMap, freeCells: number[] = [], header: string[] =
       const v = m.values[iy * nx + ix];
       if (Number.isNaN(v)) continue;
       const extra = m.profileGaps.map((g) => g[iy * nx + ix].toFixed(5));
-      // Percent to 1e-6 pp: far below any difference worth reading, and stable across platforms.
-      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, (v * 100).toFixed(6)].join(','));
+      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, v.toFixed(8)].join(','));
     }
   }
   return `${lines.join('\n')}\n`;
+}
+
+const DIGITS = 8;
+const SCALE = 10 ** DIGITS;
+
+/** ASCII bytes of each axis value as toFixed(5), formatted once per axis rather than once per pixel. */
+function fixedAxis(values: ArrayLike<number>): Buffer[] {
+  return Array.from(values as ArrayLike<number>, (v) => Buffer.from(v.toFixed(5), 'latin1'));
+}
+
+/**
+ * Write v.toFixed(8) at buf[pos] and return the new position. For 0 < v < 1e7
+ * the nearest integer to v·1e8 is found by rounding the product, whose error
+ * (below 2e-8) cannot change it unless v·1e8 lies within 1e-6 of a half,
+ * where toFixed itself decides; other values go through toFixed too.
+ */
+function writeFixed8(buf: Buffer, pos: number, v: number): number {
+  const scaled = v * SCALE;
+  const frac = scaled - Math.floor(scaled);
+  if (!(v > 0 && v < 1e7) || Math.abs(frac - 0.5) < 1e-6) return pos + buf.write(v.toFixed(DIGITS), pos, 'latin1');
+  const n = Math.round(scaled);
+  let int = Math.floor(n / SCALE);
+  let fr = n - int * SCALE;
+  // Integer part.
+  if (int === 0) buf[pos++] = 48;
+  else {
+    const start = pos;
+    while (int > 0) {
+      buf[pos++] = 48 + (int % 10);
+      int = Math.floor(int / 10);
+    }
+    buf.subarray(start, pos).reverse();
+  }
+  buf[pos++] = 46;
+  for (let d = DIGITS - 1; d >= 0; d--) {
+    buf[pos + d] = 48 + (fr % 10);
+    fr = Math.floor(fr / 10);
+  }
+  return pos + DIGITS;
+}
+
+/** mapToCsv as bytes, for writing large maps: the same bytes, without a string per cell. */
+export function mapToCsvBytes(m: GapMap, freeCells: number[] = []): Uint8Array {
+  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
+  const preamble = Buffer.from(
+    `# gapstack map: detailed-balance efficiency [-] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions\n${head.join(',')}`,
+    'utf8',
+  );
+  const nx = m.x.length;
+  const xs = fixedAxis(m.x);
+  const ys = fixedAxis(m.y);
+  let count = 0;
+  for (let k = 0; k < m.values.length; k++) if (!Number.isNaN(m.values[k])) count++;
+  // Room for every line: the widest x and y, each profile gap as toFixed(5) of up to 1e6, the value up to 1e7.
+  const widest = (a: Buffer[]) => a.reduce((w, b) => Math.max(w, b.length), 0);
+  const perLine = widest(xs) + widest(ys) + m.profileGaps.length * 16 + 20 + 4 + m.profileGaps.length;
+  const buf = Buffer.allocUnsafe(preamble.length + count * perLine + 2);
+  let pos = preamble.copy(buf, 0);
+  for (let iy = 0; iy < m.y.length; iy++) {
+    const yb = ys[iy];
+    for (let ix = 0; ix < nx; ix++) {
+      const k = iy * nx + ix;
+      const v = m.values[k];
+      if (Number.isNaN(v)) continue;
+      buf[pos++] = 10;
+      pos += xs[ix].copy(buf, pos);
+      buf[pos++] = 44;
+      pos += yb.copy(buf, pos);
+      buf[pos++] = 44;
+      for (const g of m.profileGaps) {
+        pos += buf.write(g[k].toFixed(5), pos, 'latin1');
+        buf[pos++] = 44;
+      }
+      pos = writeFixed8(buf, pos, v);
+    }
+  }
+  buf[pos++] = 10;
+  return buf.subarray(0, pos);
 }

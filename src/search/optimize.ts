@@ -5,10 +5,13 @@
  * seeds locally to sub-meV, and report the best, the runner-up basins and the
  * tolerance region.
  */
+import { availableParallelism } from 'node:os';
 import { ParameterError, ref, says } from '../errors.js';
+import { enumerationThreads } from './thread-plan.js';
 import { bandEdgeEnergiesEv, gapAxis } from './axis.js';
 import { enumerateGeneric, enumerateStep, type Candidate, type EnumerationResult } from './enumerate.js';
 import { compassMax, nelderMeadMax, type Box } from './refine.js';
+import { goldenSectionMax } from '../numerics/golden.js';
 import type { GapObjective } from '../stack/gap-objective.js';
 import { StepObjective } from '../stack/step-objective.js';
 
@@ -125,6 +128,8 @@ interface PreparedSearch {
   ranges: [number, number][];
   margin: number;
   edgeCount: number;
+  /** Ordered combinations on the coarse axis (an estimate of the leaves). */
+  combinations: number;
   t0: number;
 }
 
@@ -162,7 +167,7 @@ function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: numb
       says`about ${combinations.toExponential(1)} gap combinations at a ${step * 1000} meV grid step; use a coarser ${ref('stepEv')} (refinement goes below 1 meV anyway) or narrower ranges`,
     );
   }
-  return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, t0 };
+  return { n, bounds, freeIdx, fast, step, axis, ranges, margin: p.margin ?? 0.01, edgeCount: edges.length, combinations, t0 };
 }
 
 /**
@@ -176,6 +181,7 @@ export function searchGaps(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: 
 }
 
 function searchPrepared(obj: GapObjective, p: SearchProblem, prep: PreparedSearch, incumbent?: number): SearchResult {
+  if (prep.freeIdx.length === 1) return searchOneGap(obj, p, prep);
   let evaluations = 0;
   const value = (gaps: number[]) => {
     evaluations++;
@@ -189,25 +195,98 @@ function searchPrepared(obj: GapObjective, p: SearchProblem, prep: PreparedSearc
 }
 
 /**
- * Threads pay for their start-up (about 0.1–0.2 s here) only on long
- * enumerations: use them when the coarse pass, a few times cheaper than the
- * full one, already took this long [s].
+ * A question with one free gap, as a one-dimensional maximisation: bracket
+ * every local maximum on the axis (which holds the spectrum's band edges, so
+ * narrow basins at an edge are seen), then refine each bracket within the
+ * margin of the best by golden section to 1 µeV. No enumeration tree, no
+ * simplex: a few hundred evaluations in all.
  */
-export const PARALLEL_MIN_COARSE_SECONDS = 0.08;
+function searchOneGap(obj: GapObjective, p: SearchProblem, prep: PreparedSearch): SearchResult {
+  const { bounds, freeIdx, step, axis, ranges, margin, t0 } = prep;
+  const cell = freeIdx[0];
+  let evaluations = 0;
+  const gaps = bounds.map((b) => b[0]);
+  const at = (e: number): number => {
+    evaluations++;
+    gaps[cell] = e;
+    return obj.value(gaps);
+  };
+  const value = (g: number[]) => {
+    evaluations++;
+    return obj.value(g);
+  };
+  // Bracket: the value at every axis point in the cell's range strictly between its fixed neighbours.
+  const above = cell > 0 ? bounds[cell - 1][0] : Infinity;
+  const below = cell < bounds.length - 1 ? bounds[cell + 1][0] : -Infinity;
+  let [lo, hi] = ranges[cell];
+  while (lo <= hi && !(axis[lo] > below)) lo++;
+  while (hi >= lo && !(axis[hi] < above)) hi--;
+  if (hi < lo) throw new ParameterError('spanEv', 'gaps at which some stack produces power', says`no stack in the allowed ranges produces power; check ${ref('spanEv')}, ${ref('rangesEv')} and ${ref('fixedEv')}`);
+  const xs = axis.subarray(lo, hi + 1);
+  const vs = new Float64Array(xs.length);
+  for (let k = 0; k < xs.length; k++) {
+    vs[k] = at(xs[k]);
+    if (p.progress && k % 16 === 0) p.progress((0.8 * k) / xs.length);
+  }
+  let bestScan = 0;
+  for (let k = 0; k < vs.length; k++) if (vs[k] > bestScan) bestScan = vs[k];
+  if (!(bestScan > 0)) throw new ParameterError('spanEv', 'gaps at which some stack produces power', says`no stack in the allowed ranges produces power; check ${ref('spanEv')}, ${ref('rangesEv')} and ${ref('fixedEv')}`);
+  const peaks: number[] = [];
+  for (let k = 0; k < vs.length; k++) {
+    const left = k === 0 ? -Infinity : vs[k - 1];
+    const right = k === vs.length - 1 ? -Infinity : vs[k + 1];
+    if (vs[k] >= left && vs[k] >= right && vs[k] >= bestScan * (1 - margin)) peaks.push(k);
+  }
+  peaks.sort((a, b) => vs[b] - vs[a]);
+  const seeds = peaks.slice(0, p.seeds ?? 40);
+  // Refine: golden section inside the neighbouring axis points, never worse than the scan.
+  const [blo, bhi] = bounds[cell];
+  const refined: Basin[] = seeds.map((k) => {
+    const a = Math.max(blo, xs[Math.max(0, k - 1)]);
+    const b = Math.min(bhi, xs[Math.min(xs.length - 1, k + 1)]);
+    const x = b > a ? goldenSectionMax(at, a, b, 1e-6) : xs[k];
+    const v = at(x);
+    const g = bounds.map((bb) => bb[0]);
+    g[cell] = v >= vs[k] ? x : xs[k];
+    return { gapsEv: g, value: Math.max(v, vs[k]) };
+  });
+  refined.sort((a, b) => b.value - a.value);
+  const basins: Basin[] = [];
+  for (const r of refined) if (basins.every((b) => Math.abs(b.gapsEv[cell] - r.gapsEv[cell]) > 0.003)) basins.push(r);
+  const best = basins[0];
+  p.progress?.(0.9);
+  const tolerance = toleranceIntervals(value, best, bounds, p.loss);
+  return {
+    best,
+    basins: basins.slice(1, 8),
+    tolerance,
+    bounds,
+    stats: { stepEv: step, axisPoints: axis.length, edgePoints: prep.edgeCount, leaves: xs.length, pruned: 0, seeds: seeds.length, evaluations, seconds: (performance.now() - t0) / 1000 },
+  };
+}
 
 /**
  * The global search with the enumeration shared across worker threads (a
- * piscina pool) when it is long enough to gain. Each worker takes
- * interleaved values of the top gap and starts from the best of the coarser
- * pass, so pruning bites at once. The answer does not depend on the threads.
+ * piscina pool) when the work is large enough for the machine's cores
+ * (`enumerationThreads`; `'force'` uses `maxThreads` whatever the size).
+ * Each worker takes interleaved values of the top gap and starts from the
+ * best of the coarser pass, so pruning bites at once. The answer does not
+ * depend on the threads.
  */
-export async function searchGapsParallel(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[] = [], threads = 2, minCoarseSeconds = PARALLEL_MIN_COARSE_SECONDS): Promise<SearchResult> {
+export async function searchGapsParallel(
+  obj: GapObjective,
+  p: SearchProblem,
+  edgeEnergiesEv: number[] = [],
+  maxThreads = 2,
+  plan: 'auto' | 'force' = 'auto',
+  cores = availableParallelism(),
+): Promise<SearchResult> {
   const prep = prepareSearch(obj, p, edgeEnergiesEv);
-  if (!prep.fast || threads < 2) return searchPrepared(obj, p, prep);
+  if (!prep.fast) return searchPrepared(obj, p, prep);
   const so = obj as StepObjective;
-  const t0 = performance.now();
+  const threads = plan === 'force' ? maxThreads : enumerationThreads({ combinations: prep.combinations, spectra: so.spectra.length, cores, maxThreads });
+  if (threads < 2) return searchPrepared(obj, p, prep);
   const incumbent = coarseIncumbent(so, prep.axis, prep.ranges);
-  if ((performance.now() - t0) / 1000 < minCoarseSeconds) return searchPrepared(obj, p, prep, incumbent);
   const [lo0, hi0] = prep.ranges[0];
   const tops: number[][] = Array.from({ length: threads }, () => []);
   for (let g = hi0, k = 0; g >= lo0; g--, k++) tops[k % threads].push(g);

@@ -96,7 +96,18 @@ export class StepObjective implements GapObjective {
   private readonly pinTotal: number;
   private readonly jph: Float64Array;
   private readonly j0: Float64Array;
-  private readonly n: Float64Array;
+  /** Index of each spectrum's cell temperature in `temps` (an ensemble often has one temperature). */
+  private readonly tempOf: Int32Array;
+  private readonly temps: number[];
+  /**
+   * Caches for valueAt, which a search calls with one gap moving and the rest
+   * fixed: q·N(E_i) per cell and spectrum [A/m²] for the gap last seen in that
+   * cell, and J0 per cell and temperature [A/m²] likewise.
+   */
+  private readonly lastGapQn: Float64Array;
+  private readonly qnCache: Float64Array;
+  private readonly lastGapJ0: Float64Array;
+  private readonly j0Cache: Float64Array;
 
   constructor(opts: StepObjectiveOptions) {
     this.opts = opts;
@@ -105,8 +116,18 @@ export class StepObjective implements GapObjective {
     this.pinTotal = opts.spectra.reduce((a, s) => a + s.weight * s.spectrum.pinWm2, 0);
     this.jph = new Float64Array(opts.cells);
     this.j0 = new Float64Array(opts.cells);
-    this.n = new Float64Array(opts.cells);
     this.label = opts.spectra.length === 1 ? 'efficiency' : 'yield-weighted efficiency';
+    const index = new Map<number, number>();
+    this.tempOf = Int32Array.from(opts.spectra, (s) => {
+      if (!index.has(s.tempK)) index.set(s.tempK, index.size);
+      return index.get(s.tempK)!;
+    });
+    this.temps = [...index.keys()];
+    const ns = opts.spectra.length;
+    this.lastGapQn = new Float64Array(opts.cells).fill(NaN);
+    this.qnCache = new Float64Array(opts.cells * ns);
+    this.lastGapJ0 = new Float64Array(opts.cells).fill(NaN);
+    this.j0Cache = new Float64Array(opts.cells * this.temps.length);
   }
 
   /** Power [W/m²] from photons-above values q·N(E_i) [A/m²] and radiative J0 [A/m²] of each cell, under spectrum k. */
@@ -141,9 +162,11 @@ export class StepObjective implements GapObjective {
    * of an ideal step at E [A/m²] (Shockley & Queisser 1961).
    */
   axisTables(axisEv: ArrayLike<number>): { qnAm2: Float64Array; j0RadAm2: Float64Array }[] {
-    return this.opts.spectra.map((ws) => ({
+    // J0 depends on the temperature only: one table per temperature, shared by its spectra.
+    const j0ByTemp = this.temps.map((t) => Float64Array.from(axisEv, (e) => j0RadStepAm2(e, t)));
+    return this.opts.spectra.map((ws, k) => ({
       qnAm2: Float64Array.from(axisEv, (e) => ELEMENTARY_CHARGE_C * photonsAboveEv(ws.spectrum, e)),
-      j0RadAm2: Float64Array.from(axisEv, (e) => j0RadStepAm2(e, ws.tempK)),
+      j0RadAm2: j0ByTemp[this.tempOf[k]],
     }));
   }
 
@@ -152,12 +175,26 @@ export class StepObjective implements GapObjective {
 
   /** Efficiency at a fixed top absorptance [-]. */
   valueAt(gapsEv: ArrayLike<number>, topA: number): number {
-    let p = 0;
     const spectra = this.opts.spectra;
-    for (let k = 0; k < spectra.length; k++) {
+    const ns = spectra.length;
+    const nt = this.temps.length;
+    for (let i = 0; i < this.cells; i++) {
+      const g = gapsEv[i];
+      if (g !== this.lastGapQn[i]) {
+        for (let k = 0; k < ns; k++) this.qnCache[i * ns + k] = ELEMENTARY_CHARGE_C * photonsAboveEv(spectra[k].spectrum, g);
+        this.lastGapQn[i] = g;
+      }
+      if (g !== this.lastGapJ0[i]) {
+        for (let t = 0; t < nt; t++) this.j0Cache[i * nt + t] = j0RadStepAm2(g, this.temps[t]);
+        this.lastGapJ0[i] = g;
+      }
+    }
+    let p = 0;
+    for (let k = 0; k < ns; k++) {
+      const t = this.tempOf[k];
       for (let i = 0; i < this.cells; i++) {
-        this.qnScratch[i] = ELEMENTARY_CHARGE_C * photonsAboveEv(spectra[k].spectrum, gapsEv[i]);
-        this.j0Scratch[i] = j0RadStepAm2(gapsEv[i], spectra[k].tempK);
+        this.qnScratch[i] = this.qnCache[i * ns + k];
+        this.j0Scratch[i] = this.j0Cache[i * nt + t];
       }
       p += spectra[k].weight * this.powerFromTables(k, this.qnScratch, this.j0Scratch, topA);
     }

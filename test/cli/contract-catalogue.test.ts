@@ -29,7 +29,7 @@ import {
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, test } from 'vitest';
-import { BIN, ROOT, runCli, type CliResult } from '../helpers/cli.js';
+import { BIN, ROOT, runCli, runCliHere, type CliResult } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'gapstack-contract-'));
 chmodSync(dir, 0o755);
@@ -72,20 +72,20 @@ describe('options', () => {
     ['--fix outside the search span, as in design files', ['optimize', '--cells', '2', '--fix', '1=3'], /--fix 1=3: the gap lies outside the search span 0\.5–2\.6 eV/],
     ['--range outside the search span', ['optimize', '--cells', '2', '--range', '1=2.7:2.9'], /outside the search span/],
   ];
-  test.each(cases)('%s', (what, args, message) => expectUserError(runCli(args), message, what));
+  test.each(cases)('%s', async (what, args, message) => expectUserError(await runCliHere(args), message, what));
 
-  test('report -o twice is refused before any work, and writes nothing', () => {
+  test('report -o twice is refused before any work, and writes nothing', async () => {
     const d = file('twice/d.yaml', QUICK_DESIGN());
     const t0 = Date.now();
-    const r = runCli(['report', d, '-o', join(dir, 'twice/a.html'), '-o', join(dir, 'twice/b.html')]);
+    const r = runCli(['report', d, '-o', join(dir, 'twice/a.html'), '-o', join(dir, 'twice/b.html')]); // spawned: the binary itself
     expectUserError(r, /--output is given twice \(-o and -o\)/);
     expect(Date.now() - t0).toBeLessThan(60_000);
     expect(readdirSync(join(dir, 'twice'))).toEqual(['d.yaml']);
   });
 
-  test('--x -1:2 is no longer an unknown argument; --x=-1:2 the same', () => {
+  test('--x -1:2 is no longer an unknown argument; --x=-1:2 the same', async () => {
     for (const args of [['--x', '-1:2'], ['--x=-1:2']]) {
-      const r = runCli(['map', ...args, '--y', '0.5:1', '--step', '0.1']);
+      const r = await runCliHere(['map', ...args, '--y', '0.5:1', '--step', '0.1']);
       expect(r.stderr).not.toMatch(/Unknown argument/);
       expect(r.code).toBe(2);
     }
@@ -128,17 +128,17 @@ describe('files that are not what they claim', () => {
     ['a folder as a design', ['report', dir, '-o', join(dir, 'x.html')], /is a folder, not a design file/],
     ['a spectrum of 1e300 values (its integral overflows)', ['evaluate', '--gaps', '1.34', '--spectrum', hugeValues], /too large to integrate/],
   ];
-  test.each(cases)('%s', (what, args, message) => expectUserError(runCli(args), message, what));
+  test.each(cases)('%s', async (what, args, message) => expectUserError(await runCliHere(args), message, what));
 
-  test('a JSON design with a byte-order mark is read (the mark is dropped; lines still count)', () => {
+  test('a JSON design with a byte-order mark is read (the mark is dropped; lines still count)', async () => {
     const p = file('bom.json', `\ufeff{\n  "name": "bom",\n  "subcells": [{"gap": 1.7}, {"gap": 9}],\n  "wirings": ["series"]\n}\n`);
-    const r = runCli(['report', p, '-o', join(dir, 'bom.html')]);
+    const r = await runCliHere(['report', p, '-o', join(dir, 'bom.html')]);
     expectUserError(r, /bom\.json:3: subcells\[1\]\.gap/);
   });
 
-  test('a design with five problems lists the other four below the first line', () => {
+  test('a design with five problems lists the other four below the first line', async () => {
     const p = file('five.yaml', 'name: five\ntemperature: 900\nsubcells:\n  - gap: -1\n    ere: 2\n  - gap: 1.1\n    ere: 0\nwirings: [sideways]\n');
-    const r = runCli(['report', p, '-o', join(dir, 'five.html')]);
+    const r = await runCliHere(['report', p, '-o', join(dir, 'five.html')]);
     expect(r.code).toBe(2);
     const lines = r.stderr.trim().split('\n');
     const more = /\(and (\d+) more problems?, listed below\)/.exec(lines[0]);
@@ -150,33 +150,33 @@ describe('files that are not what they claim', () => {
 });
 
 describe('terminal control codes from users\' files are shown, not obeyed', () => {
-  test('a label with ESC in an ensemble manifest, in yield text output', () => {
+  test('a label with ESC in an ensemble manifest, in yield text output', async () => {
     const table = readFileSync(join(ROOT, 'examples/ensemble-demo/spectra/01-winter-clear-midday.tsv'));
     file('esc/a.tsv', table);
     file('esc/b.tsv', table);
     const m = file('esc/m.csv', '# weight_unit: hours\nfile,label,weight,temp_k\na.tsv,red\x1b[31mlabel\x07,10,299\nb.tsv,plain,20,300\n');
-    const r = runCli(['yield', '--gaps', '1.73,1.12', '--ensemble', m]);
+    const r = await runCliHere(['yield', '--gaps', '1.73,1.12', '--ensemble', m]);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).not.toMatch(/[\x1b\x07]/);
     expect(r.stdout).toContain('red\\x1b[31mlabel\\x07');
   });
 
-  test('a spectrum cell with ESC, quoted in the error line', () => {
+  test('a spectrum cell with ESC, quoted in the error line', async () => {
     const p = file('esc-cell.csv', `wavelength_nm,irradiance_W_m2_nm\n300,1\n500,\x1b[2Jx\n700,1\n900,1\n1100,1\n`);
-    const r = runCli(['spectrum', p]);
+    const r = await runCliHere(['spectrum', p]);
     expectUserError(r, /esc-cell\.csv:3: /);
     expect(r.stderr).not.toMatch(/\x1b/);
   });
 });
 
 describe('results that are not numbers are internal faults, never printed', () => {
-  test('an ensemble weight of 1e308 overflows the weighted sums: exit 1, nothing on stdout, in text and JSON', () => {
+  test('an ensemble weight of 1e308 overflows the weighted sums: exit 1, nothing on stdout, in text and JSON', async () => {
     const table = readFileSync(join(ROOT, 'examples/ensemble-demo/spectra/01-winter-clear-midday.tsv'));
     file('big-w/a.tsv', table);
     file('big-w/b.tsv', table);
     const m = file('big-w/m.csv', '# weight_unit: hours\nfile,weight\na.tsv,1e308\nb.tsv,1e308\n');
     for (const json of [[], ['--json']]) {
-      const r = runCli(['yield', '--gaps', '1.73,1.12', '--ensemble', m, ...json]);
+      const r = await runCliHere(['yield', '--gaps', '1.73,1.12', '--ensemble', m, ...json]);
       expect(r.code, r.stderr).toBe(1);
       expect(r.stdout).toBe('');
       expect(r.stderr).toMatch(/internal error: a computed value is not finite/);
@@ -186,28 +186,28 @@ describe('results that are not numbers are internal faults, never printed', () =
 });
 
 describe('warnings where the model leaves its range', () => {
-  test('Voc above the gap at full concentration on a 0.3 eV gap is warned about (text and JSON)', () => {
-    const r = runCli(['evaluate', '--gaps', '0.3', '--suns', 'max']);
+  test('Voc above the gap at full concentration on a 0.3 eV gap is warned about (text and JSON)', async () => {
+    const r = await runCliHere(['evaluate', '--gaps', '0.3', '--suns', 'max']);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/Warning: subcell 1: Voc [\d.]+ V reaches its 0\.300 eV gap; the diode form breaks down/);
-    const j = JSON.parse(runCli(['evaluate', '--gaps', '0.3', '--suns', 'max', '--json']).stdout);
+    const j = JSON.parse((await runCliHere(['evaluate', '--gaps', '0.3', '--suns', 'max', '--json'])).stdout);
     expect(j.warnings.some((w: string) => /reaches its 0\.300 eV gap/.test(w))).toBe(true);
   });
 
-  test('no such warning at one sun on 1.34 eV', () => {
-    const j = JSON.parse(runCli(['evaluate', '--gaps', '1.34', '--json']).stdout);
+  test('no such warning at one sun on 1.34 eV', async () => {
+    const j = JSON.parse((await runCliHere(['evaluate', '--gaps', '1.34', '--json'])).stdout);
     expect(j.warnings).toEqual([]);
   });
 
-  test('a spectrum that stops at 1050 nm is warned about for a 1.12 eV bottom cell, in text, JSON and map CSV; --extend-spectrum states the extension', () => {
+  test('a spectrum that stops at 1050 nm is warned about for a 1.12 eV bottom cell, in text, JSON and map CSV; --extend-spectrum states the extension', async () => {
     const p = file('short.csv', `wavelength_nm,irradiance_W_m2_nm\n${Array.from({ length: 71 }, (_, i) => `${350 + 10 * i},1.2`).join('\n')}\n`);
-    const text = runCli(['evaluate', '--gaps', '1.73,1.12', '--spectrum', p]);
+    const text = await runCliHere(['evaluate', '--gaps', '1.73,1.12', '--spectrum', p]);
     expect(text.stdout).toMatch(/Warning: the spectrum "short\.csv" stops at 1050 nm, short of the 1\.120 eV gap's absorption edge at 1107 nm/);
-    const json = JSON.parse(runCli(['evaluate', '--gaps', '1.73,1.12', '--spectrum', p, '--json']).stdout);
+    const json = JSON.parse((await runCliHere(['evaluate', '--gaps', '1.73,1.12', '--spectrum', p, '--json'])).stdout);
     expect(json.warnings.join('\n')).toMatch(/stops at 1050 nm/);
-    const csv = runCli(['map', '--x', '1.6:1.8', '--y', '1.0:1.2', '--step', '0.1', '--spectrum', p]);
+    const csv = await runCliHere(['map', '--x', '1.6:1.8', '--y', '1.0:1.2', '--step', '0.1', '--spectrum', p]);
     expect(csv.stdout.split('\n')[1]).toMatch(/^# Warning: the spectrum "short\.csv" stops at 1050 nm/);
-    const ext = runCli(['evaluate', '--gaps', '1.73,1.12', '--spectrum', p, '--extend-spectrum', '--json']);
+    const ext = await runCliHere(['evaluate', '--gaps', '1.73,1.12', '--spectrum', p, '--extend-spectrum', '--json']);
     const e = JSON.parse(ext.stdout);
     expect(e.warnings).toEqual([]);
     expect(JSON.stringify(e)).toMatch(/extended past 1050 nm with the AM1\.5G \(ASTM G173-03\) shape/);
@@ -217,15 +217,15 @@ describe('warnings where the model leaves its range', () => {
 });
 
 describe('a short spectrum in a design: the report says so in its text, JSON and page', () => {
-  test('report of a quick design under a table ending at 1050 nm', () => {
+  test('report of a quick design under a table ending at 1050 nm', async () => {
     file('short-design/short.csv', `wavelength_nm,irradiance_W_m2_nm\n${Array.from({ length: 71 }, (_, i) => `${350 + 10 * i},1.2`).join('\n')}\n`);
     const d = file('short-design/d.yaml', QUICK_DESIGN('short.csv'));
     const out = join(dir, 'short-design', 'r.html');
-    const text = runCli(['report', d, '-o', out]);
+    const text = await runCliHere(['report', d, '-o', out]);
     expect(text.code, text.stderr).toBe(0);
     expect(text.stdout).toMatch(/Warning: the spectrum "short\.csv" stops at 1050 nm, short of the 1\.120 eV gap's absorption edge at 1107 nm/);
     expect(readFileSync(out, 'utf8')).toMatch(/stops at 1050 nm, short of the 1\.120 eV gap(&#x27;|')s absorption edge at 1107 nm/);
-    const json = JSON.parse(runCli(['report', d, '-o', out, '--json']).stdout);
+    const json = JSON.parse((await runCliHere(['report', d, '-o', out, '--json'])).stdout);
     expect(json.light_warnings.join('\n')).toMatch(/stops at 1050 nm/);
   }, 180_000);
 });
@@ -381,6 +381,7 @@ describe('files the user cannot read: exit 2 naming the file (as an unprivileged
   const memberManifest = open('m2/manifest.csv', '# weight_unit: hours\nfile,weight\na.tsv,1\nb.tsv,2\n');
   open('m2/a.tsv', table);
   const member = locked('m2/b.tsv', table);
+  const wide = locked('w1/year.csv', `wavelength_nm,A,B\n${Array.from({ length: 40 }, (_, i) => `${300 + 100 * i},1,2`).join('\n')}\n`);
   const design = locked('d1/design.yaml', QUICK_DESIGN());
   const referencing = open('d2/design.yaml', QUICK_DESIGN('light.csv'));
   const referenced = locked('d2/light.csv', GOOD_TABLE);
@@ -392,6 +393,7 @@ describe('files the user cannot read: exit 2 naming the file (as an unprivileged
     ['a spectrum (evaluate)', ['evaluate', '--gaps', '1.3', '--spectrum', spectrum], spectrum],
     ['a manifest', ['yield', '--gaps', '1.73,1.12', '--ensemble', manifest], manifest],
     ['an ensemble member', ['yield', '--gaps', '1.73,1.12', '--ensemble', memberManifest], member],
+    ['a wide table (the streaming reader)', ['yield', '--gaps', '1.73,1.12', '--ensemble', wide], wide],
     ['a design', ['report', design, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], design],
     ['a file a design names', ['report', referencing, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], referenced],
     ['a measured curve a design names', ['report', filmDesign, '-o', join(tmpdir(), `gapstack-never-${process.pid}.html`)], filmCurve],
@@ -404,9 +406,9 @@ describe('files the user cannot read: exit 2 naming the file (as an unprivileged
 });
 
 describe('outputs never replace inputs', () => {
-  test('map --out onto its own --spectrum: exit 2 before the work; the spectrum is untouched', () => {
+  test('map --out onto its own --spectrum: exit 2 before the work; the spectrum is untouched', async () => {
     const p = file('own/light.csv', GOOD_TABLE);
-    const r = runCli(['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.05', '--spectrum', p, '--out', p]);
+    const r = await runCliHere(['map', '--x', '1.5:1.9', '--y', '0.9:1.2', '--step', '0.05', '--spectrum', p, '--out', p]);
     expectUserError(r, /--out .*light\.csv is an input of this run/);
     expect(readFileSync(p, 'utf8')).toBe(GOOD_TABLE);
   });
@@ -421,20 +423,20 @@ describe('outputs never replace inputs', () => {
     expect(existsSync(d)).toBe(true);
   });
 
-  test('report -o onto an input through another name (a hard link): refused', () => {
+  test('report -o onto an input through another name (a hard link): refused', async () => {
     const d = file('link/d.html', QUICK_DESIGN());
     // A design file with an .html name is still YAML to the reader; the point is the same inode.
-    const r = runCli(['report', d, '-o', d]);
+    const r = await runCliHere(['report', d, '-o', d]);
     expectUserError(r, /is an input of this run/);
     expect(readFileSync(d, 'utf8')).toBe(QUICK_DESIGN());
   });
 
-  test('a figures folder holding files the report does not write is refused, not replaced', () => {
+  test('a figures folder holding files the report does not write is refused, not replaced', async () => {
     const d = file('foreign/d.yaml', QUICK_DESIGN());
     const figs = join(dir, 'foreign-figs');
     mkdirSync(figs, { recursive: true });
     writeFileSync(join(figs, 'notes.txt'), 'mine\n');
-    const r = runCli(['report', d, '-o', join(dir, 'foreign/r.html'), '--figures', figs]);
+    const r = await runCliHere(['report', d, '-o', join(dir, 'foreign/r.html'), '--figures', figs]);
     expectUserError(r, /holds files this report does not write \(notes\.txt\)/);
     expect(readdirSync(figs)).toEqual(['notes.txt']);
     expect(existsSync(join(dir, 'foreign/r.html'))).toBe(false);
@@ -453,9 +455,11 @@ describe('interrupted reports: the page and its figures are published together o
     writeFileSync(out, 'previous page\n');
     writeFileSync(join(figs, 'map-series-1-2.svg'), 'previous figure\n');
     const child = spawn(process.execPath, [BIN, 'report', design, '-o', out, '--figures', figs], { cwd: ROOT, stdio: 'ignore' });
+    // Listen from the start: on an idle machine the report may finish before the signal is sent.
+    const closed = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on('close', (code, sig) => resolve({ code, signal: sig })));
     await new Promise((r) => setTimeout(r, ms));
-    child.kill(signal);
-    const status = await new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on('close', (code, sig) => resolve({ code, signal: sig })));
+    if (child.exitCode === null && child.signalCode === null) child.kill(signal);
+    const status = await closed;
     const page = readFileSync(out, 'utf8');
     const names = readdirSync(figs).sort();
     const hidden = readdirSync(root).filter((n) => n.startsWith('.'));
@@ -516,11 +520,11 @@ describe('interrupted reports: the page and its figures are published together o
 });
 
 describe('long work: a size check that counts spectra, and progress on a terminal', () => {
-  test('optimize --cells 4 over 10 000 spectra is refused with an estimate before any work; --accept-large is the way through', () => {
+  test('optimize --cells 4 over 10 000 spectra is refused with an estimate before any work; --accept-large is the way through', async () => {
     const table = readFileSync(join(ROOT, 'examples/ensemble-demo/spectra/01-winter-clear-midday.tsv'));
     file('big/a.tsv', table);
     const m = file('big/m.csv', `# weight_unit: hours\nfile,weight\n${'a.tsv,1\n'.repeat(10_000)}`);
-    const r = runCli(['optimize', '--cells', '4', '--ensemble', m]);
+    const r = await runCliHere(['optimize', '--cells', '4', '--ensemble', m]);
     expectUserError(r, /this search would evaluate about [\d.]+e\d+ stack–spectrum pairs \([\d.]+e\d+ stacks × 10001 spectra\).*--accept-large/);
   });
 
@@ -537,8 +541,8 @@ describe('long work: a size check that counts spectra, and progress on a termina
     expect(() => checkWorkSize('search', 1e5, 1000, false)).not.toThrow();
   });
 
-  test('ordinary runs pass the check untouched', () => {
-    expect(runCli(['optimize', '--cells', '2', '--fix', '2=1.12', '--json']).code).toBe(0);
+  test('ordinary runs pass the check untouched', async () => {
+    expect((await runCliHere(['optimize', '--cells', '2', '--fix', '2=1.12', '--json'])).code).toBe(0);
   });
 
   const script = spawnSync('script', ['--version'], { encoding: 'utf8' }).status === 0;

@@ -71,7 +71,7 @@ describe('gapstack map', () => {
     const all = readFileSync(out, 'utf8').trim().split('\n');
     expect(all[0]).toMatch(/^# .*theoretical limits/);
     const lines = all.filter((l) => !l.startsWith('#'));
-    expect(lines[0]).toBe('gap1_ev,gap2_ev,efficiency_percent');
+    expect(lines[0]).toBe('gap1_ev,gap2_ev,efficiency');
     expect(lines.length - 1).toBe(summary.points);
     const e = await runJsonHere(['evaluate', '--gaps', `${summary.best.x_ev},${summary.best.y_ev}`]);
     expect(e.efficiency).toBeCloseTo(summary.best.efficiency, 9);
@@ -82,8 +82,8 @@ describe('gapstack map', () => {
     expect((await runCliHere(['map', '--x', '1.0:1.4', '--y', '1.0:1.4', '--step', '0.1', '--wiring', 'independent', '--out', out])).code).toBe(0);
     const j = JSON.parse(readFileSync(out, 'utf8'));
     expect(j.x_ev).toHaveLength(5);
-    expect(j.efficiency_percent[0][0]).toBeNull();
-    expect(j.efficiency_percent[0][4]).toBeGreaterThan(0);
+    expect(j.efficiency[0][0]).toBeNull();
+    expect(j.efficiency[0][4]).toBeGreaterThan(0);
   });
 
   test('a failing map leaves an existing output untouched', async () => {
@@ -151,7 +151,7 @@ describe('profile maps', () => {
     expect(s.profile).toBe(true);
     expect(Math.abs(s.best.efficiency - 0.5162)).toBeLessThan(3e-4);
     const [head, first] = readFileSync(out, 'utf8').split('\n').filter((l) => !l.startsWith('#'));
-    expect(head).toBe('gap1_ev,gap2_ev,gap3_ev_profile,efficiency_percent');
+    expect(head).toBe('gap1_ev,gap2_ev,gap3_ev_profile,efficiency');
     const bottom = Number(first.split(',')[2]);
     expect(bottom).toBeGreaterThan(0.5);
     expect(bottom).toBeLessThan(1.33);

@@ -55,7 +55,7 @@ describe('worker threads', () => {
     const problem = { cells: 3, spanEv: [0.5, 2.6], ranges: [], fixed: [], loss: 0.01 };
     const edges = bandEdgeEnergiesEv(s, 0.5, 2.6);
     const one = searchGaps(obj, problem, edges);
-    const two = await searchGapsParallel(obj, problem, edges, 2, 0);
+    const two = await searchGapsParallel(obj, problem, edges, 2, 'force');
     expect(two.best).toEqual(one.best);
     expect(two.basins).toEqual(one.basins);
     expect(two.tolerance).toEqual(one.tolerance);

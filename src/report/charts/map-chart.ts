@@ -102,6 +102,8 @@ export function mapChartSvg(inp: MapChartInput): string {
       const showMax = Math.abs(m.best.x - o.optimum.x) > 1.5 * o.stepEv || Math.abs(m.best.y - o.optimum.y) > 1.5 * o.stepEv;
       // Markers first, then the optimum's label, then the map maximum's: every later label keeps clear of them.
       const board = mapBoard(p, [{ x: optX, y: optY, r: 9 }, ...(showMax ? [{ x: bx, y: by, r: 7 }] : [])]);
+      // The lower subcell's composition axis writes its ticks inside the right edge: keep labels off that strip.
+      if (o.compositionAxes?.y) board.reserve({ x0: w - 36, y0: 0, x1: w, y1: h });
       const opt = optimumGroup(g, inp.id, o.optimum);
       const eff = `${num(o.optimum.value * 100, 2)} %`;
       const gapsText = `${num(o.optimum.x, 3)} / ${num(o.optimum.y, 3)} eV`;

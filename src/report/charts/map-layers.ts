@@ -440,7 +440,8 @@ export function drawColourBar(parent: Sel, x: number, y: number, h: number, lo: 
   const ticks = cs.ticks(8).filter((t) => cs(t) < h - 12);
   cax.call(d3().axisRight(cs).tickValues(ticks).tickSizeOuter(0));
   styleAxis(cax);
-  cb.append('text').attr('x', 7).attr('y', -12).attr('text-anchor', 'middle').attr('font-size', 11).text('η [%]');
+  // The title sits right of the bar's centre, clear of a composition axis's ticks above the plot's right corner.
+  cb.append('text').attr('x', 0).attr('y', -12).attr('text-anchor', 'start').attr('font-size', 11).text('η [%]');
 }
 
 /** The group of a map's optimum marker, `id` optimum-<chart id>, carrying the optimum's gaps and value as data attributes. */
