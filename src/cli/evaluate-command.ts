@@ -6,7 +6,7 @@ import { toMaCm2 } from '../physics/constants.js';
 import type { StackSpec } from '../stack/model.js';
 import type { Spectrum } from '../light/spectrum.js';
 import { assumptionLines, CAUTION, describeCoupling, describeAbsorptance, emissionConvention } from '../report/assumptions.js';
-import { fix, pct, round, table } from './format.js';
+import { eng, fix, pct, round, table } from './format.js';
 import { gapsFromArgs, spectrumFromArgs, stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { finiteJson } from './guards.js';
 import { coverageWarnings } from '../light/coverage.js';
@@ -70,19 +70,19 @@ export function evaluateCommand(a: EvaluateArgs): string {
   const rows = r.subcells.map((c, i) => [
     String(i + 1),
     fix(c.gapEv, 4),
-    fix(toMaCm2(c.jphAm2), 2),
-    fix(toMaCm2(c.lcInAm2), 2),
+    eng(toMaCm2(c.jphAm2), 2),
+    eng(toMaCm2(c.lcInAm2), 2),
     fix(c.vocV, 4),
     fix(c.ff, 4),
-    fix(toMaCm2(c.jOpAm2), 2),
+    eng(toMaCm2(c.jOpAm2), 2),
     fix(c.vOpV, 4),
-    fix(c.powerWm2, 2),
+    eng(c.powerWm2, 2),
   ]);
   const out = [
     ...(chosenTop !== undefined ? [`Best top-cell absorptance: ${chosenTop.toFixed(4)} (constant above the top gap; the rest of its band passes down)`] : []),
-    `Efficiency ${pct(r.efficiency, 3)}  (P_max ${r.pmaxWm2.toFixed(2)} W/m² of P_in ${r.pinWm2.toFixed(2)} W/m²), wiring: ${spec.wiring.label}`,
+    `Efficiency ${pct(r.efficiency, 3)}  (P_max ${eng(r.pmaxWm2, 2)} W/m² of P_in ${eng(r.pinWm2, 2)} W/m²), wiring: ${spec.wiring.label}`,
   ];
-  if (r.stackVocV !== null && r.stackJscAm2 !== null) out.push(`Stack terminals: Voc ${r.stackVocV.toFixed(4)} V, Jsc ${toMaCm2(r.stackJscAm2).toFixed(2)} mA/cm²`);
+  if (r.stackVocV !== null && r.stackJscAm2 !== null) out.push(`Stack terminals: Voc ${r.stackVocV.toFixed(4)} V, Jsc ${eng(toMaCm2(r.stackJscAm2), 2)} mA/cm²`);
   out.push(
     '',
     table(['cell', 'gap [eV]', 'Jph [mA/cm²]', 'LC in [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]', 'P [W/m²]'], rows),

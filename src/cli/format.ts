@@ -1,4 +1,5 @@
 /** Plain-text tables for the terminal. */
+import { engineering } from '../report/numbers.js';
 
 export function table(headers: string[], rows: (string | number)[][]): string {
   const cells = [headers, ...rows.map((r) => r.map((c) => String(c)))];
@@ -13,6 +14,9 @@ export const fix = (x: number | null | undefined, digits: number) => {
   const s = x.toFixed(digits);
   return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
 };
+
+/** Fixed decimals below 1e5, engineering notation above (see report/numbers.ts). */
+export const eng = engineering;
 
 /** Round for JSON output without losing meaningful digits. */
 export function round(x: number, sig = 10): number {

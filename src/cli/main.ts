@@ -218,6 +218,27 @@ export async function run(rawArgv: string[]): Promise<void> {
   );
   cli = command(
     cli,
+    'figure <design>',
+    'one chart of a design for a proposal (map, comparison or sensitivity) as SVG, PNG or PDF at a printed size, without the whole report',
+    (y) =>
+      y
+        .positional('design', { type: 'string', describe: 'design file (see examples/)' })
+        .option('chart', { type: 'string', default: 'map', describe: 'map | compare (AM1.5G beside an ensemble) | sensitivity' })
+        .option('wiring', { type: 'string', describe: "one of the design's wirings (default: the first)" })
+        .option('pair', { type: 'string', describe: 'mapped subcells "i,j", upper first (default: the first map pair)' })
+        .option('output', { alias: 'o', type: 'string', describe: 'file to write: .svg, .png or .pdf (PDF needs Chromium)' })
+        .option('width-mm', { type: 'string', describe: 'printed width [mm] (default 120)' })
+        .option('height-mm', { type: 'string', describe: 'printed height of a map [mm] (default keeps its aspect)' })
+        .option('font-pt', { type: 'string', describe: 'printed size of the base text [pt] (default 8)' })
+        .option('ink', { type: 'string', default: 'dark-on-white', describe: 'dark-on-white (paper) | light-on-dark (slides)' })
+        .option('dpi', { type: 'string', describe: 'PNG resolution [dots per inch] (default 300)' })
+        .option('colour-range', { type: 'string', describe: "fixed colour scale low:high [%] (default: the report's scale for the pair, shared by every wiring)" })
+        .option('scenario', { type: 'string', describe: 'in a file with scenarios: which one (name or number)' })
+        .option('json', { type: 'boolean', default: false }),
+    async (a) => print(await (await import('./figure-command.js')).figureCommand(a as never)),
+  );
+  cli = command(
+    cli,
     'materials [id] [file]',
     'absorber families: composition ↔ gap and practical windows; "materials fit FILE" fits a gap model to your measured points',
     (y) =>

@@ -7,7 +7,7 @@ import { stackWithGaps, type StackSpec } from '../stack/model.js';
 import { evaluateStack } from '../stack/evaluate.js';
 import { compareAnswers, questionUnderReference } from '../report/ensemble-compare.js';
 import { assumptionLines, CAUTION, describeCoupling, emissionConvention } from '../report/assumptions.js';
-import { fix, pct, round, table } from './format.js';
+import { eng, fix, pct, round, table } from './format.js';
 import { stackFromArgs, type LightArgs, type StackArgs } from './options.js';
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, lossFromArgs, spanFromArgs, stepFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs, CLI_EXTEND_HINT } from './spectra-options.js';
@@ -159,8 +159,11 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   if (a.json) return finiteJson({ ...optimizeJson(spec, members, d), ...(comparison ? { am15g_comparison: comparison } : {}) }, null, 2);
   const r = d.result;
   const first = members[0].spectrum;
-  const bestSpec = stackWithGaps(spec, r.best.gapsEv);
-  const detail = members.length === 1 && d.topAbsorptance === undefined ? evaluateStack(bestSpec, first) : null;
+  // The optimum as a stack, the free top absorptance included, so its per-cell table is printed too.
+  const top = d.topAbsorptance;
+  const withGaps = stackWithGaps(spec, r.best.gapsEv);
+  const bestSpec = top === undefined ? withGaps : { ...withGaps, subcells: withGaps.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step' as const, value: top } } : c)) };
+  const detail = members.length === 1 ? evaluateStack(bestSpec, first) : null;
   const lines = [
     `Best ${d.objective.label}: ${pct(r.best.value, 3)}  wiring ${spec.wiring.label}, ${cells} subcell(s)`,
     `Gaps [eV], top first: ${gapsText(r.best.gapsEv)}${d.topAbsorptance !== undefined ? `   top absorptance ${d.topAbsorptance.toFixed(3)}` : ''}`,
@@ -172,7 +175,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
       '',
       table(
         ['cell', 'gap [eV]', 'Jph [mA/cm²]', 'Voc [V]', 'FF', 'J op [mA/cm²]', 'V op [V]'],
-        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), fix(toMaCm2(c.jphAm2), 2), fix(c.vocV, 4), fix(c.ff, 4), fix(toMaCm2(c.jOpAm2), 2), fix(c.vOpV, 4)]),
+        detail.subcells.map((c, i) => [String(i + 1), fix(c.gapEv, 4), eng(toMaCm2(c.jphAm2), 2), fix(c.vocV, 4), fix(c.ff, 4), eng(toMaCm2(c.jOpAm2), 2), fix(c.vOpV, 4)]),
       ),
     );
   }

@@ -2,6 +2,7 @@
  * The words that travel with every number: what was assumed, and the caution
  * that detailed-balance results are limits, not device predictions.
  */
+import { engineering } from './numbers.js';
 import type { Spectrum } from '../light/spectrum.js';
 import type { Coupling, StackSpec, AbsorptanceModel } from '../stack/model.js';
 
@@ -36,7 +37,7 @@ export function describeCoupling(c: Coupling): string {
 export function describeAbsorptance(a: AbsorptanceModel): string {
   switch (a.kind) {
     case 'step':
-      return a.value === 1 ? 'ideal step' : `step, absorptance ${a.value}`;
+      return a.value === 1 ? 'ideal step' : `step, absorptance ${Number(a.value.toPrecision(4))}`;
     case 'beer-lambert':
       return `Beer–Lambert ${a.passes === 2 ? 'double' : 'single'} pass, ${a.thicknessNm} nm`;
     case 'lambertian':
@@ -53,7 +54,7 @@ export function assumptionLines(spec: StackSpec, spectrum: Spectrum): string[] {
   const eres = spec.subcells.map((c) => c.ere);
   const optics = spec.subcells.map((c, i) => `${i + 1}: ${describeAbsorptance(c.absorptance)}`).join('; ');
   return [
-    `spectrum: ${spectrum.name}, P_in = ${spectrum.pinWm2.toFixed(2)} W/m², SHA-256 ${spectrum.sha256.slice(0, 16)}…`,
+    `spectrum: ${spectrum.name}, P_in = ${engineering(spectrum.pinWm2, 2)} W/m², SHA-256 ${spectrum.sha256.slice(0, 16)}…`,
     `cell temperature: ${spec.tempK} K${spec.tempK === 300 ? ' (the detailed-balance convention)' : ''}`,
     `emission: ${emissionConvention(spec.coupling)}`,
     `ERE: ${eres.every((e) => e === 1) ? '1 (fully radiative)' : eres.join(', ')}`,

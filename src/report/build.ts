@@ -9,22 +9,19 @@ import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import Handlebars from 'handlebars';
 import type { Design } from '../design/index.js';
-import { mapToCsv } from '../search/map.js';
-import { stackOptics } from '../stack/optics.js';
-import { computeReport, type MapOutcome, type StageReporter, type ReportData, type WiringOutcome } from './compute.js';
-import { mapChartSvg } from './charts/map-chart.js';
-import { spectrumChartData, spectrumChartSvg } from './charts/spectrum-chart.js';
-import { jvChartSvg } from './charts/jv-chart.js';
-import { sensitivityChartSvg } from './charts/sensitivity-chart.js';
-import { compareChartSvg, compareColourRange } from './charts/compare-chart.js';
-import { apeChartSvg } from './charts/ape-chart.js';
-import type { ComparedMap, EnsembleComparison, WiringComparison } from './ensemble-compare.js';
 import { coverageWarnings } from '../light/coverage.js';
+import { toolVersion } from './version.js';
+import { computeReport, type ReportData, type StageReporter } from './compute.js';
+import { compareColourRange } from './charts/compare-chart.js';
+import { sharedColourDomain, type ColourDomain } from './charts/map-layers.js';
+import { apeChart, colourScaleWords, compareChart, detailCharts, figureMeta, mapChart, r6, r8, wiringComparisonJson, type Chart } from './figure-data.js';
 import {
   answerRows,
   assumptionList,
   CAUTION,
   comparisonIntro,
+  edgeNotes,
+  edgeSentence,
   ensembleIdentity,
   fx,
   generatedLine,
@@ -35,27 +32,16 @@ import {
   questionText,
   shiftTable,
   subcellTable,
+  threeTerminalTwin,
   verdict,
   wiringPatternText,
   wiringTitle,
 } from './view.js';
 
 export const TEMPLATE_PATH = fileURLToPath(new URL('../../templates/report.hbs', import.meta.url));
-const PACKAGE_JSON = fileURLToPath(new URL('../../package.json', import.meta.url));
-
-/** The tool's version from package.json. */
-export function toolVersion(): string {
-  return (JSON.parse(readFileSync(PACKAGE_JSON, 'utf8')) as { version: string }).version;
-}
-
-/** One chart: its SVG and the data drawn, for the figures folder. */
-export interface Chart {
-  /** File stem, e.g. "map-series-1-2". */
-  name: string;
-  svg: string;
-  csv: string;
-  json: Record<string, unknown>;
-}
+export { toolVersion } from './version.js';
+export type { Chart, FigureMeta } from './figure-data.js';
+export { colourScaleWords, figureMeta } from './figure-data.js';
 
 export interface BuiltReport {
   html: string;
@@ -65,281 +51,23 @@ export interface BuiltReport {
   data: ReportData;
 }
 
-const r6 = (x: number) => Number(x.toFixed(6));
-const r8 = (x: number) => Number(x.toPrecision(8));
-
-function subcellLabel(design: Design, i: number): string {
-  const s = design.subcells[i];
-  return s.labelled ? `subcell ${i + 1} (${s.label})` : `subcell ${i + 1}`;
-}
-
-/** Longest map axis title that fits along the shorter (y) axis of a map or compare panel. */
-const AXIS_TITLE_CHARS = 40;
-
-/** A map axis title: "gap of subcell i (label) [eV]", or "gap of subcell i [eV]" when the label would run off the axis. */
-function gapAxisTitle(design: Design, i: number): string {
-  const full = `gap of ${subcellLabel(design, i)} [eV]`;
-  return [...full].length <= AXIS_TITLE_CHARS ? full : `gap of subcell ${i + 1} [eV]`;
-}
-
-function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome): { chart: Chart; grid: string; id: string; gridId: string } {
-  const d = data.design;
-  const id = `map-${o.wiring.slug}-${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
-  const gridId = `${id}-grid`;
-  const mm = m.map;
-  const svg = mapChartSvg({
-    outcome: m,
-    id,
-    gridId,
-    wiringLabel: wiringTitle(o.wiring.key),
-    xLabel: gapAxisTitle(d, m.pair.xCell),
-    yLabel: gapAxisTitle(d, m.pair.yCell),
-    loss: d.loss,
-  });
-  const nx = mm.x.length;
-  const ny = mm.y.length;
-  const v = Array.from(mm.values, (x) => (Number.isNaN(x) ? null : Number((x * 100).toFixed(3))));
-  const grid = JSON.stringify({ x0: mm.x[0], dx: nx > 1 ? r8((mm.x[nx - 1] - mm.x[0]) / (nx - 1)) : 1, nx, y0: mm.y[0], dy: ny > 1 ? r8((mm.y[ny - 1] - mm.y[0]) / (ny - 1)) : 1, ny, v }).replace(/</g, '\\u003c');
-  const json = {
-    wiring: o.wiring.key,
-    x_subcell: m.pair.xCell + 1,
-    y_subcell: m.pair.yCell + 1,
-    x_ev: Array.from(mm.x),
-    y_ev: Array.from(mm.y),
-    efficiency: Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN(mm.values[iy * nx + ix]) ? null : r8(mm.values[iy * nx + ix])))),
-    layout: 'efficiency[iy][ix] is the value at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
-    profile_subcells: m.profiled.map((c) => c + 1),
-    optimum: { x_ev: r6(m.optimum.x), y_ev: r6(m.optimum.y), efficiency: r8(m.optimum.value) },
-    map_maximum: { x_ev: mm.best.x, y_ev: mm.best.y, efficiency: r8(mm.best.value) },
-    tolerance_threshold: r8(m.threshold),
-    current_matching_ma_cm2: m.matching ? Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN((m.matching as Float64Array)[iy * nx + ix]) ? null : r6((m.matching as Float64Array)[iy * nx + ix] / 10)))) : null,
-    current_matching_convention: m.matching ? 'J_gen of the upper mapped subcell minus J_gen of the lower [mA/cm²]; the locus is where it is zero' : null,
-    marks: m.marks.map((k) => ({ axis: k.axis, subcell: k.subcell + 1, kind: k.kind, lo_ev: r6(k.loEv), hi_ev: r6(k.hiEv), label: k.label })),
-    step_ev: m.stepEv,
-    caution: CAUTION,
-  };
-  return { chart: { name: id, svg, csv: mapToCsv(mm, m.profiled), json }, grid, id, gridId };
-}
-
-function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv: Chart; sensitivity: Chart } {
-  const d = data.design;
-  const labels = d.subcells.map((s) => s.label);
-  const slug = o.wiring.slug;
-  const ref = d.reference;
-  const gaps = o.search.result.best.gapsEv;
-  const optics = stackOptics({ ...o.bestSpec, tempK: ref.tempK }, ref.spectrum);
-  const jgen = Array.from(optics.jgenAm2);
-  const sd = spectrumChartData({ spectrum: ref.spectrum, gapsEv: gaps });
-  const spectrum: Chart = {
-    name: `spectrum-${slug}`,
-    svg: spectrumChartSvg({ id: `spectrum-${slug}`, spectrum: ref.spectrum, gapsEv: gaps, labels, jgenAm2: jgen }),
-    csv: `wavelength_nm,irradiance_w_m2_nm,subcell\n${sd.wavelengthNm.map((w, i) => `${w},${sd.irradiance[i]},${sd.subcell[i]}`).join('\n')}\n`,
-    json: {
-      wiring: o.wiring.key,
-      spectrum: ref.spectrum.name,
-      sha256: ref.spectrum.sha256,
-      gaps_ev: gaps.map(r6),
-      band_edges_nm: gaps.map((g) => r6(1239.841984 / g)),
-      jgen_ma_cm2: jgen.map((j) => r6(j / 10)),
-      subcell_convention: 'subcell 0 means not absorbed by any subcell (step absorbers)',
-      wavelength_nm: sd.wavelengthNm,
-      irradiance_w_m2_nm: sd.irradiance,
-      subcell: sd.subcell,
-      caution: CAUTION,
-    },
-  };
-  const jvRows: string[] = ['curve,voltage_v,current_ma_cm2'];
-  const curves = o.jv.stack ? [...o.jv.subcells, o.jv.stack] : o.jv.subcells;
-  curves.forEach((c, k) => c.voltageV.forEach((v, i) => jvRows.push(`${k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack'},${r8(v)},${r8(c.currentAm2[i] / 10)}`)));
-  const jv: Chart = {
-    name: `jv-${slug}`,
-    svg: jvChartSvg({ id: `jv-${slug}`, jv: o.jv, wiringLabel: wiringTitle(o.wiring.key) }),
-    csv: `${jvRows.join('\n')}\n`,
-    json: {
-      wiring: o.wiring.key,
-      curves: curves.map((c, k) => ({ curve: k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack', voltage_v: c.voltageV.map(r8), current_ma_cm2: c.currentAm2.map((j) => r8(j / 10)) })),
-      operating_points: o.jv.operating.map((p, i) => ({ subcell: i + 1, voltage_v: r8(p.vV), current_ma_cm2: r8(p.jAm2 / 10) })),
-      stack_mpp: o.jv.stackMpp ? { voltage_v: r8(o.jv.stackMpp.vV), current_ma_cm2: r8(o.jv.stackMpp.jAm2 / 10) } : null,
-      spectrum: ref.spectrum.name,
-      caution: CAUTION,
-    },
-  };
-  const res = o.search.result;
-  const sensRows = ['subcell,delta_ev,gap_ev,efficiency'];
-  for (const s of o.sensitivity) s.deltaEv.forEach((dl, k) => sensRows.push(`${s.subcell + 1},${dl},${r6(s.gapEv + dl)},${s.efficiency[k] === null ? '' : r8(s.efficiency[k] as number)}`));
-  const sensitivity: Chart = {
-    name: `sensitivity-${slug}`,
-    svg: sensitivityChartSvg({ id: `sensitivity-${slug}`, slices: o.sensitivity, labels, best: res.best.value, threshold: res.tolerance.threshold, loss: d.loss, objective: o.search.objective.label }),
-    csv: `${sensRows.join('\n')}\n`,
-    json: {
-      wiring: o.wiring.key,
-      objective: o.search.objective.label,
-      best: r8(res.best.value),
-      threshold: r8(res.tolerance.threshold),
-      slices: o.sensitivity.map((s) => ({ subcell: s.subcell + 1, fixed_in_design: s.fixed, gap_ev: r6(s.gapEv), delta_ev: s.deltaEv, efficiency: s.efficiency.map((v) => (v === null ? null : r8(v))) })),
-      convention: 'one gap moved, the others held at the optimum; null where the gaps would not descend',
-      caution: CAUTION,
-    },
-  };
-  return { spectrum, jv, sensitivity };
-}
-
-const grid2d = (m: { x: Float64Array; y: Float64Array; values: Float64Array }) =>
-  Array.from({ length: m.y.length }, (_, iy) => Array.from({ length: m.x.length }, (_, ix) => (Number.isNaN(m.values[iy * m.x.length + ix]) ? null : r8(m.values[iy * m.x.length + ix]))));
-
-function pointJson(p: WiringComparison['referenceOptimal']) {
-  return { gaps_ev: p.gapsEv.map(r8), am15g_efficiency: r8(p.referenceEfficiency), yield_efficiency: r8(p.yieldEfficiency) };
-}
-
-/** The comparison of one wiring, machine-readable (summary.json and the compare charts' JSON). */
-function wiringComparisonJson(w: WiringComparison): Record<string, unknown> {
-  return {
-    wiring: w.outcome.wiring.key,
-    am15g_optimum: pointJson(w.referenceOptimal),
-    ensemble_optimum: pointJson(w.ensembleOptimal),
-    gap_shift_mev: w.shiftEv.map((d) => r6(d * 1000)),
-    loss_abs: r8(w.lossAbs),
-    loss_rel: r8(w.lossRel),
-    loss_convention: 'yield-weighted η of the ensemble optimum minus that of the AM1.5G optimum (absolute), and the same over the ensemble optimum (relative)',
-    am15g_design_rating_to_yield_drop: r8(w.referenceOptimal.referenceEfficiency - w.referenceOptimal.yieldEfficiency),
-    current_mismatch: w.mismatch
-      ? { am15g: r8(w.mismatch.reference), ensemble_min: r8(w.mismatch.min), ensemble_max: r8(w.mismatch.max), ensemble_energy_weighted_mean: r8(w.mismatch.energyWeightedMean), convention: 'largest over smallest subcell J_gen, minus 1, at the AM1.5G-optimal gaps' }
-      : null,
-  };
-}
-
-function compareChart(data: ReportData, c: EnsembleComparison, w: WiringComparison, cm: ComparedMap): { chart: Chart; caption: string; heading: string } {
-  const d = data.design;
-  const m = cm.ensemble;
-  const { xCell, yCell } = m.pair;
-  const id = `compare-${w.outcome.wiring.slug}-${xCell + 1}-${yCell + 1}`;
-  const a = w.referenceOptimal;
-  const b = w.ensembleOptimal;
-  const svg = compareChartSvg({
-    id,
-    wiringLabel: wiringTitle(w.outcome.wiring.key),
-    xLabel: gapAxisTitle(d, xCell),
-    yLabel: gapAxisTitle(d, yCell),
-    marks: m.marks,
-    loss: d.loss,
-    panels: [
-      {
-        light: 'am1.5g',
-        title: 'η under AM1.5G',
-        map: cm.reference,
-        optimum: cm.referenceOptimum,
-        other: { x: b.gapsEv[xCell], y: b.gapsEv[yCell], value: b.referenceEfficiency },
-        threshold: cm.referenceThreshold,
-        optimumName: 'AM1.5G optimum',
-        otherName: 'ensemble optimum',
-      },
-      {
-        light: 'ensemble',
-        title: `Yield-weighted η over ${c.name}`,
-        map: m.map,
-        optimum: m.optimum,
-        other: { x: a.gapsEv[xCell], y: a.gapsEv[yCell], value: a.yieldEfficiency },
-        threshold: m.threshold,
-        optimumName: 'ensemble optimum',
-        otherName: 'AM1.5G optimum',
-      },
-    ],
-  });
-  const range = compareColourRange([cm.reference, m.map]);
-  const mm = m.map;
-  const nx = mm.x.length;
-  const profHead = m.profiled.flatMap((k) => [`gap${k + 1}_ev_profile_am15g`, `gap${k + 1}_ev_profile_ensemble`]);
-  const rows = [
-    '# gapstack comparison map: detailed-balance efficiency under AM1.5G and yield-weighted efficiency over the ensemble [-] on the same gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
-    [`gap${xCell + 1}_ev`, `gap${yCell + 1}_ev`, ...profHead, 'efficiency_am15g', 'yield_efficiency'].join(','),
-  ];
-  for (let iy = 0; iy < mm.y.length; iy++) {
-    for (let ix = 0; ix < nx; ix++) {
-      const k = iy * nx + ix;
-      const u = cm.reference.values[k];
-      const v = mm.values[k];
-      if (Number.isNaN(u) && Number.isNaN(v)) continue;
-      const prof = m.profiled.flatMap((_, j) => [cm.reference.profileGaps[j][k].toFixed(5), mm.profileGaps[j][k].toFixed(5)]);
-      rows.push([mm.x[ix].toFixed(5), mm.y[iy].toFixed(5), ...prof, Number.isNaN(u) ? '' : u.toFixed(8), Number.isNaN(v) ? '' : v.toFixed(8)].join(','));
-    }
-  }
-  const json = {
-    ...wiringComparisonJson(w),
-    x_subcell: xCell + 1,
-    y_subcell: yCell + 1,
-    x_ev: Array.from(mm.x),
-    y_ev: Array.from(mm.y),
-    efficiency_am15g: grid2d(cm.reference),
-    yield_efficiency: grid2d(mm),
-    layout: 'value[iy][ix] is at (x_ev[ix], y_ev[iy]); null where the upper gap is not above the lower',
-    profile_subcells: m.profiled.map((k) => k + 1),
-    colour_range_percent: { low: r6(range.lo), high: r6(range.hi) },
-    am15g_tolerance_threshold: r8(cm.referenceThreshold),
-    yield_tolerance_threshold: r8(m.threshold),
-    ensemble: c.name,
-    reference_spectrum: c.referenceSpectrum.name,
-    step_ev: m.stepEv,
-    caution: CAUTION,
-  };
-  const shift = w.shiftEv.map((s) => `${(s * 1000).toFixed(1)}`).join(' / ');
-  const caption =
-    `Left: efficiency under AM1.5G; right: yield-weighted efficiency over ${c.name}; gaps of subcells ${xCell + 1} (x) and ${yCell + 1} (y) on a ${fx(m.stepEv * 1000, 0)} meV grid, one colour scale (${fx(range.lo, 1)}–${fx(range.hi, 1)} %) for both. ` +
-    `Each panel's filled marker is its own optimum (AM1.5G ${pc(cm.referenceOptimum.value)} at ${fx(cm.referenceOptimum.x, 3)} / ${fx(cm.referenceOptimum.y, 3)} eV; ensemble ${pc(m.optimum.value)} at ${fx(m.optimum.x, 3)} / ${fx(m.optimum.y, 3)} eV), the open ring the other panel's, valued under this panel's light; the optimum moves by ${shift} meV. ` +
-    `Dashed white outlines enclose gaps within ${fx(d.loss * 100, 1)} % (relative) of each panel's own best.${m.profiled.length > 0 ? ` Subcells ${m.profiled.map((k) => k + 1).join(', ')} are re-optimised at every point under each light.` : ''}`;
-  return { chart: { name: id, svg, csv: `${rows.join('\n')}\n`, json }, caption, heading: `Subcells ${xCell + 1} and ${yCell + 1}` };
-}
-
-function apeChart(c: EnsembleComparison): Chart {
-  const s = c.summary;
-  const h = s.ape.histogram;
-  const svg = apeChartSvg({
-    id: 'ape-histogram',
-    edgesEv: h.edgesEv,
-    weights: h.weights,
-    totalWeight: s.totalWeight,
-    windowNm: s.ape.windowNm,
-    weightedMeanEv: s.ape.weightedMeanEv,
-    referenceApeEv: c.referenceApeEv,
-    referenceName: 'AM1.5G',
-    ensembleName: c.name,
-  });
-  const rows = ['ape_low_ev,ape_high_ev,weight,share_of_total_weight'];
-  h.weights.forEach((w, k) => rows.push(`${h.edgesEv[k]},${h.edgesEv[k + 1]},${r8(w)},${r8(w / s.totalWeight)}`));
-  return {
-    name: 'ape-histogram',
-    svg,
-    csv: `${rows.join('\n')}\n`,
-    json: {
-      ensemble: c.name,
-      window_nm: s.ape.windowNm,
-      edges_ev: h.edgesEv,
-      weights: h.weights.map(r8),
-      weight_unit: s.weightUnit,
-      total_weight: r8(s.totalWeight),
-      weighted_mean_ape_ev: s.ape.weightedMeanEv === null ? null : r8(s.ape.weightedMeanEv),
-      am15g_ape_ev: r8(c.referenceApeEv),
-      per_member: s.ape.perMember.map((p) => ({ label: p.label, ape_ev: p.apeEv === null || !Number.isFinite(p.apeEv) ? null : r8(p.apeEv) })),
-      irradiance_w_m2: { min: r8(s.irradianceWm2.min), weighted_median: r8(s.irradianceWm2.median), weighted_mean: r8(s.weightedMeanIrradianceWm2), max: r8(s.irradianceWm2.max) },
-      cell_temperature_k: { min: s.tempK.min, max: s.tempK.max },
-      convention: 'each bin holds the summed weight of the members whose APE over window_nm falls in [low, high); the last bin is closed',
-      caution: CAUTION,
-    },
-  };
-}
 
 /** The "Your spectra versus AM1.5G" section's context, and its charts (appended to `charts`). */
 function comparisonSection(data: ReportData, charts: Chart[]): Record<string, unknown> | null {
   const c = data.comparison;
   if (!c) return null;
   const d = data.design;
-  const ape = apeChart(c);
-  const wirings = c.wirings.map((w) => {
-    const maps = w.maps.map((cm) => {
-      const x = compareChart(data, c, w, cm);
+  const ape = apeChart(data, c);
+  // One colour scale per gap pair over every wiring's two panels.
+  const ranges = (c.wirings[0]?.maps ?? []).map((_, j) => compareColourRange(c.wirings.flatMap((w) => (w.maps[j] ? [w.maps[j].reference, w.maps[j].ensemble.map] : []))));
+  const twin = threeTerminalTwin(data.outcomes);
+  const wirings = c.wirings.filter((w) => !twin || w.outcome !== twin.three).map((w) => {
+    const maps = w.maps.map((cm, j) => {
+      const x = compareChart(data, c, w, cm, ranges[j]);
       charts.push(x.chart);
       return { id: x.chart.name, svg: x.chart.svg, caption: x.caption, heading: x.heading };
     });
-    return { slug: w.outcome.wiring.slug, title: wiringTitle(w.outcome.wiring.key), maps, table: shiftTable(d, w), loss: lossText(w) };
+    return { slug: w.outcome.wiring.slug, title: wiringTitle(w.outcome.wiring.key), maps, table: shiftTable(d, w), loss: lossText(d, w) };
   });
   charts.push(ape);
   const s = c.summary;
@@ -411,15 +139,42 @@ function pageTemplate(): HandlebarsTemplateDelegate {
   return template;
 }
 
+
 /** Build the report of a design: compute, draw, format. */
-export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter }): BuiltReport {
-  const data = computeReport(design, opts.stage);
+/** Colour scales given from outside, one per mapped gap pair ("x-y", 1-based), with the words naming who shares them. */
+export interface SharedScales {
+  byPair: Map<string, ColourDomain>;
+  /** E.g. "every scenario and wiring". */
+  sharedBy: string;
+}
+
+/** The key of a mapped gap pair in SharedScales ("1-2"). */
+export const pairKey = (m: { pair: { xCell: number; yCell: number } }): string => `${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
+
+/** Build the report of a design: compute (or take `data` already computed), draw, format; `scales` sets maps' colour scales shared with other reports. */
+export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter; data?: ReportData; scales?: SharedScales }): BuiltReport {
+  const data = opts.data ?? computeReport(design, opts.stage);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
   const charts: Chart[] = [];
-  const maps = data.outcomes.flatMap((o) =>
-    o.maps.map((m) => {
-      const c = mapChart(data, o, m);
+  // One colour scale per gap pair, shared by every wiring's map of it (or given, shared with other reports).
+  const pairCount = Math.max(0, ...data.outcomes.map((o) => o.maps.length));
+  const domains = Array.from({ length: pairCount }, (_, j) => {
+    const ms = data.outcomes.flatMap((o) => (o.maps[j] ? [o.maps[j]] : []));
+    return (ms[0] && opts.scales?.byPair.get(pairKey(ms[0]))) ?? sharedColourDomain(ms.map((m) => m.map));
+  });
+  const sharing = (j: number) => {
+    const first = data.outcomes.find((o) => o.maps[j])?.maps[j];
+    if (first && opts.scales?.byPair.has(pairKey(first))) return `the maps of this pair for ${opts.scales.sharedBy}`;
+    const keys = data.outcomes.filter((o) => o.maps[j]).map((o) => wiringTitle(o.wiring.key).split(' (')[0].toLowerCase());
+    return keys.length > 1 ? `the maps of this pair for every wiring (${keys.join(', ')})` : 'this map';
+  };
+  // 3T with independent loads equal to 4T is said once (in the verdict), not drawn twice.
+  const twin = threeTerminalTwin(data.outcomes);
+  const shown = data.outcomes.filter((o) => !twin || o !== twin.three);
+  const maps = shown.flatMap((o) =>
+    o.maps.map((m, j) => {
+      const c = mapChart(data, o, m, domains[j]);
       charts.push(c.chart);
       const profile = m.profiled.length > 0 ? ` Subcells ${m.profiled.map((k) => k + 1).join(', ')} are re-optimised at every point (a profile map).` : '';
       const matching = m.matching ? ' The orange dashed curve is where the two mapped subcells generate equal photocurrent (series current matching).' : '';
@@ -430,18 +185,20 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
         gridJson: c.grid,
         heading: `${wiringTitle(o.wiring.key)}: subcells ${m.pair.xCell + 1} and ${m.pair.yCell + 1}`,
         caption:
-          `${o.search.objective.label[0].toUpperCase()}${o.search.objective.label.slice(1)} over the gaps of subcells ${m.pair.xCell + 1} (x) and ${m.pair.yCell + 1} (y), ${fx(m.stepEv * 1000, 0)} meV grid, colour on a perceptually uniform scale with labelled isolines.` +
+          `${o.search.objective.label[0].toUpperCase()}${o.search.objective.label.slice(1)} over the gaps of subcells ${m.pair.xCell + 1} (x) and ${m.pair.yCell + 1} (y), ${fx(m.stepEv * 1000, 0)} meV grid, colour on a perceptually uniform scale with labelled isolines; ${colourScaleWords(domains[j], sharing(j))}.` +
           ` The marker is the recommended optimum (${pc(m.optimum.value)} at ${fx(m.optimum.x, 3)} / ${fx(m.optimum.y, 3)} eV); the white dashed outline encloses gaps within ${fx(design.loss * 100, 1)} % (relative) of it.${matching}` +
-          ` Shaded bands are practical windows of bound material families, solid lines fixed absorbers; grey marks gaps out of order.${profile}`,
+          ` Dashed outlines with hatched edges are practical windows of bound material families (colours inside are not altered), solid lines fixed absorbers; light grey marks gaps out of order.${profile}`,
       };
     }),
   );
-  const details = data.outcomes.map((o) => {
+  const details = shown.map((o) => {
     const c = detailCharts(data, o);
     charts.push(c.spectrum, c.jv, c.sensitivity);
     const res = o.search.result;
     const notes = [...o.search.warnings, ...o.maps.flatMap((m) => m.warnings)];
-    if (o.search.unconstrained) notes.push(`Without the material windows the best is ${pc(o.search.unconstrained.best.value)} at ${o.search.unconstrained.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV.`);
+    const edge = edgeSentence(design, o);
+    if (edge) notes.push(edge);
+    else if (o.search.unconstrained) notes.push(`Without the material windows the best is ${pc(o.search.unconstrained.best.value)} at ${o.search.unconstrained.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV.`);
     if (o.bestSpec.coupling.model !== 'none') notes.push('J–V curves use the photocurrents at the operating point, luminescent coupling included.');
     return {
       slug: o.wiring.slug,
@@ -455,7 +212,7 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
       jvSvg: c.jv.svg,
       jvCaption: `Each subcell's J–V curve at its photocurrent in the stack${o.jv.stack ? ', the series terminal curve (voltages added at a common current) and its maximum power point' : ''}; dots are the subcells' operating points.`,
       sensitivitySvg: c.sensitivity.svg,
-      sensitivityCaption: `One gap moved at a time, the others held at the optimum (${res.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV); the dotted line is the tolerance threshold ${pc(res.tolerance.threshold)}.`,
+      sensitivityCaption: `One gap moved at a time, the others held at the optimum (${res.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV); the dotted line is the tolerance threshold ${pc(res.tolerance.threshold)}.${o.sensitivity.some((x) => x.windowEv) ? " Offsets outside a subcell's practical window (or allowed range) are tinted in its colour and its curve is faded there: those gaps are not on offer." : ''}`,
     };
   });
   const comparison = comparisonSection(data, charts);
@@ -469,6 +226,7 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
     question: questionText(design),
     description: design.description.trim(),
     verdict: verdict(data),
+    edgeNotes: edgeNotes(data),
     columns: data.outcomes.map((o) => ({ key: o.wiring.key, title: wiringTitle(o.wiring.key) })),
     rows: answerRows(data),
     warnings,
@@ -481,7 +239,9 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
     provenance: provenanceList(design, version),
     generated,
   });
+  // Every figure file carries a metadata block, also from sections that did not set their own.
+  const withMeta = charts.map((c) => (c.meta ? c : { ...c, meta: figureMeta(data, null, { see: 'the column names and the JSON fields' }) }));
   const summary = summaryJson(data, version, generated);
   if (site) summary.site = site.summary;
-  return { html, charts, summary, data };
+  return { html, charts: withMeta, summary, data };
 }

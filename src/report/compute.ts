@@ -139,7 +139,14 @@ function mapCompositionAxes(design: Design, xCell: number, yCell: number, xr: [n
   return x || y ? { ...(x ? { x } : {}), ...(y ? { y } : {}) } : undefined;
 }
 
-function sensitivity(d: DesignSearchResult, bounds: [number, number][]): SensitivitySlice[] {
+/** The practical window or allowed range [eV] of subcell i, when its constraint has one (not free, not fixed). */
+function sliceWindow(design: Design, i: number): [number, number] | undefined {
+  const c = design.subcells[i].constraint;
+  if (c.kind === 'range' || (c.kind === 'material' && c.family.kind !== 'fixed')) return constraintRangeEv(c, design.tempK, design.spanEv);
+  return undefined;
+}
+
+function sensitivity(design: Design, d: DesignSearchResult, bounds: [number, number][]): SensitivitySlice[] {
   const best = d.result.best.gapsEv;
   const count = Math.round((2 * SENSITIVITY_HALF_WIDTH_EV) / SENSITIVITY_STEP_EV);
   return best.map((g0, i) => {
@@ -153,7 +160,7 @@ function sensitivity(d: DesignSearchResult, bounds: [number, number][]): Sensiti
       const ordered = g[i] > 0.2 && (i === 0 || g[i] < g[i - 1]) && (i === g.length - 1 || g[i] > g[i + 1]);
       efficiency.push(ordered ? d.objective.value(g) : null);
     }
-    return { subcell: i, fixed: bounds[i][0] === bounds[i][1], gapEv: g0, deltaEv, efficiency };
+    return { subcell: i, fixed: bounds[i][0] === bounds[i][1], gapEv: g0, deltaEv, efficiency, windowEv: sliceWindow(design, i) };
   });
 }
 
@@ -199,7 +206,14 @@ function withChosenTop(t: StackSpec, top: number | undefined): StackSpec {
   return { ...t, subcells: t.subcells.map((c, i) => (i === 0 ? { ...c, absorptance: { kind: 'step', value: top } } : c)) };
 }
 
-/** Run every wiring of a design: search, detail at the optimum, curves and maps; under an ensemble, the AM1.5G comparison. */
+/** Part of a design to compute, for one figure: some wirings (indices into design.wirings), some map pairs, with or without the AM1.5G comparison. */
+export interface ReportSelection {
+  wirings: number[];
+  /** Indices into design.pairs. */
+  pairs: number[];
+  comparison: boolean;
+}
+
 /**
  * Named stages of the report's work for a progress display: called once per
  * stage with its name, returns that stage's 0–1 progress callback.
@@ -211,7 +225,14 @@ export function reportStageCount(design: Design): number {
   return design.wirings.length * (1 + design.pairs.length);
 }
 
-export function computeReport(design: Design, stage?: StageReporter): ReportData {
+/**
+ * Run every wiring of a design: search, detail at the optimum, curves and
+ * maps; under an ensemble, the AM1.5G comparison. With a selection, every
+ * wiring is still searched (default map axes span all wirings' optima, so a
+ * figure matches the report's) but only the selected wirings get their curves
+ * and the selected maps.
+ */
+export function computeReport(design: Design, stage?: StageReporter, only?: ReportSelection): ReportData {
   const searches = design.wirings.map((w, k) => {
     try {
       return runDesignSearch({
@@ -231,7 +252,10 @@ export function computeReport(design: Design, stage?: StageReporter): ReportData
   });
   const optimaAll = searches.map((d) => d.result.best.gapsEv);
   const ref = design.reference;
-  const outcomes = design.wirings.map((w, k): WiringOutcome => {
+  const chosen = only ? only.wirings : design.wirings.map((_, k) => k);
+  const pairs = only ? design.pairs.filter((_, j) => only.pairs.includes(j)) : design.pairs;
+  const outcomes = chosen.map((k): WiringOutcome => {
+    const w = design.wirings[k];
     const d = searches[k];
     const template = withChosenTop(w.template, d.topAbsorptance);
     const bestSpec = stackWithGaps(template, d.result.best.gapsEv);
@@ -243,11 +267,11 @@ export function computeReport(design: Design, stage?: StageReporter): ReportData
       bestSpec,
       detail,
       stackFf,
-      sensitivity: sensitivity(d, d.result.bounds),
+      sensitivity: sensitivity(design, d, d.result.bounds),
       jv: jvCurves(design, stackWithGaps(template, d.result.best.gapsEv, ref.tempK), detail),
-      maps: design.pairs.map((p) => mapFor(design, w, d, p, optimaAll, stage?.(`map ${w.key} ${p.xCell + 1},${p.yCell + 1}`))),
+      maps: pairs.map((p) => mapFor(design, w, d, p, optimaAll, stage?.(`map ${w.key} ${p.xCell + 1},${p.yCell + 1}`))),
     };
   });
-  return { design, outcomes, comparison: compareWithReference(design, outcomes) };
+  return { design, outcomes, comparison: only && !only.comparison ? null : compareWithReference(design, outcomes) };
 }
 

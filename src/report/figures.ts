@@ -5,7 +5,7 @@
  */
 import { existsSync } from 'node:fs';
 import { Resvg, type ResvgRenderOptions } from '@resvg/resvg-js';
-import type { Chart } from './build.js';
+import type { Chart, FigureMeta } from './figure-data.js';
 
 /** PNG pixels per SVG user unit. */
 export const PNG_SCALE = 2;
@@ -30,9 +30,43 @@ export function svgToPng(svg: string): Uint8Array {
   return r.render().asPng();
 }
 
+/** Rasterise an SVG to PNG bytes `widthPx` wide on `background`. */
+export function svgToPngWidth(svg: string, widthPx: number, background = '#ffffff'): Uint8Array {
+  const r = new Resvg(svg, { fitTo: { mode: 'width', value: Math.round(widthPx) }, background, font: fontOptions(), logLevel: 'off' });
+  return r.render().asPng();
+}
+
 export interface FigureFile {
   name: string;
   data: string | Uint8Array;
+}
+
+/** A figure's metadata as CSV comment lines: tool, wiring, light with SHA-256, temperature, units, caution. */
+export function csvMetaLines(m: FigureMeta): string[] {
+  const l = m.light;
+  const light = l.kind === 'spectrum' ? `${l.name}, P_in ${l.irradiance_w_m2} W/m², SHA-256 ${l.sha256}` : `ensemble ${l.name} (${l.spectra} spectra), SHA-256 ${l.sha256}`;
+  const t = m.temperature_k;
+  const temp = typeof t === 'number' ? `${t} K` : `${t.min}–${t.max} K per spectrum, gaps held at their ${t.gaps_held_at} K values`;
+  return [
+    `# tool: ${m.tool}`,
+    `# wiring: ${m.wiring ?? 'all (this figure does not depend on the wiring)'}`,
+    `# light: ${light}`,
+    `# cell temperature: ${temp}`,
+    `# units: ${Object.entries(m.units)
+      .map(([k, v]) => `${k} [${v}]`)
+      .join('; ')}`,
+    `# caution: ${m.caution}`,
+  ];
+}
+
+/** A chart's CSV with its metadata block first (buildReport fills in every chart's block). */
+export function figureCsv(c: Chart): string {
+  return c.meta ? `${csvMetaLines(c.meta).join('\n')}\n${c.csv}` : c.csv;
+}
+
+/** A chart's JSON with its metadata block first. */
+export function figureJson(c: Chart): string {
+  return `${JSON.stringify(c.meta ? { meta: c.meta, ...c.json } : c.json, null, 2)}\n`;
 }
 
 /** Every file of a figures folder for these charts, plus the summary. */
@@ -42,8 +76,8 @@ export function figureFiles(charts: Chart[], summary: Record<string, unknown>): 
     const svg = standaloneSvg(c.svg);
     files.push({ name: `${c.name}.svg`, data: svg });
     files.push({ name: `${c.name}.png`, data: svgToPng(svg) });
-    files.push({ name: `${c.name}.csv`, data: c.csv });
-    files.push({ name: `${c.name}.json`, data: `${JSON.stringify(c.json, null, 2)}\n` });
+    files.push({ name: `${c.name}.csv`, data: figureCsv(c) });
+    files.push({ name: `${c.name}.json`, data: figureJson(c) });
   }
   files.push({ name: 'summary.json', data: `${JSON.stringify(summary, null, 2)}\n` });
   return files;

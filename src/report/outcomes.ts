@@ -43,6 +43,8 @@ export interface SensitivitySlice {
   /** Gap offsets [eV] and η [-] (null where the gaps would not descend). */
   deltaEv: number[];
   efficiency: (number | null)[];
+  /** The subcell's practical window or allowed range [eV], when it has one. */
+  windowEv?: [number, number];
 }
 
 export interface JvCurve {

@@ -6,7 +6,10 @@
  * and SVG references stay unique on the combined page.
  */
 import type { ScenarioSet } from '../design/index.js';
-import { buildReport, type BuiltReport, type Chart } from './build.js';
+import type { GapMap } from '../search/map.js';
+import { buildReport, pairKey, type BuiltReport, type Chart } from './build.js';
+import { sharedColourDomain } from './charts/map-layers.js';
+import { computeReport } from './compute.js';
 import { CAUTION } from './assumptions.js';
 import { pc, wiringTitle } from './view.js';
 import type { StageReporter } from './compute.js';
@@ -51,7 +54,12 @@ function scopedBody(html: string, prefix: string): string {
 
 /** The combined page, its charts (names prefixed per scenario) and a JSON summary. */
 export function buildScenarioReport(set: ScenarioSet, opts: { date: Date; stage?: StageReporter }): { html: string; charts: Chart[]; summary: Record<string, unknown>; built: BuiltReport[] } {
-  const built = set.scenarios.map((d) => buildReport(d, opts));
+  // Scenarios are compared: maps of the same gap pair share one colour scale across every scenario and wiring.
+  const datas = set.scenarios.map((d) => computeReport(d, opts.stage));
+  const byKey = new Map<string, GapMap[]>();
+  for (const data of datas) for (const o of data.outcomes) for (const m of o.maps) byKey.set(pairKey(m), [...(byKey.get(pairKey(m)) ?? []), m.map]);
+  const scales = { byPair: new Map([...byKey].map(([k, maps]) => [k, sharedColourDomain(maps)])), sharedBy: 'every scenario and wiring' };
+  const built = set.scenarios.map((d, k) => buildReport(d, { ...opts, data: datas[k], scales }));
   const rows = scenarioRows(set, built);
   const best = rows.reduce((a, b) => (b.efficiency > a.efficiency ? b : a), rows[0]);
   const head = /<head>[\s\S]*<\/head>/i.exec(built[0].html)?.[0] ?? '<head><meta charset="utf-8"></head>';

@@ -134,12 +134,20 @@ export function answerRows(data: ReportData): AnswerRow[] {
   const { design, outcomes } = data;
   const ens = design.spectra.length > 1;
   const under = ens ? ` (under ${design.reference.label})` : '';
-  const rows: AnswerRow[] = [{ label: ens ? 'yield-weighted η' : 'η', emphasis: true, cells: outcomes.map((o) => ({ lines: [pc(o.search.result.best.value, 2)], sub: [] })) }];
+  const twin = threeTerminalTwin(outcomes);
+  const rows: AnswerRow[] = [
+    {
+      label: ens ? 'yield-weighted η' : 'η',
+      emphasis: true,
+      cells: outcomes.map((o) => ({ lines: [pc(o.search.result.best.value, 2)], sub: twin && o === twin.three ? ['= the 4T limit (independent loads)'] : [] })),
+    },
+  ];
   design.subcells.forEach((s, i) => {
     rows.push({
       label: `gap of subcell ${s.index}${s.labelled ? ` (${s.label})` : ''}`,
       emphasis: true,
-      cells: outcomes.map((o) => ({ lines: [`${fx(o.search.result.best.gapsEv[i], 3)} eV`], sub: compositionLines(design, o, i) })),
+      // What the composition variable means is said once, in the first column.
+      cells: outcomes.map((o, k) => ({ lines: [`${fx(o.search.result.best.gapsEv[i], 3)} eV`], sub: compositionLines(design, o, i).slice(0, k === 0 ? undefined : 1) })),
     });
   });
   design.subcells.forEach((s, i) => {
@@ -173,17 +181,87 @@ export function answerRows(data: ReportData): AnswerRow[] {
   return rows;
 }
 
-/** One or two sentences: which wiring wins and by how much. */
+/** Differences in efficiency below this many percentage points are not narrated as differences. */
+export const RESOLUTION_PP = 0.01;
+
+/** A difference in efficiency [-] too small to report at RESOLUTION_PP. */
+export const belowResolution = (d: number): boolean => Math.abs(d * 100) < RESOLUTION_PP;
+
+const NO_DIFFERENCE = `no difference at this resolution (${RESOLUTION_PP} percentage points)`;
+
+/** A wiring's short name, e.g. "Series". */
+const shortTitle = (key: string) => wiringTitle(key).split(' (')[0];
+
+/**
+ * The 3T wiring with independent loads when the design also has the 4T one
+ * and the two agree within the resolution: for two subcells each with its own
+ * load, 3T is the 4T limit, so the report says so once and does not repeat it.
+ */
+export function threeTerminalTwin(outcomes: WiringOutcome[]): { three: WiringOutcome; four: WiringOutcome } | null {
+  const three = outcomes.find((o) => o.wiring.key === '3t');
+  const four = outcomes.find((o) => o.wiring.key === 'independent');
+  if (!three || !four || !belowResolution(three.search.result.best.value - four.search.result.best.value)) return null;
+  return { three, four };
+}
+
+/** The sentence that replaces the 3T wiring's repeated results. */
+export function threeTerminalSentence(t: { three: WiringOutcome; four: WiringOutcome }): string {
+  return `Three-terminal with independent loads runs each subcell at its own maximum power point, so it equals the four-terminal limit (${pc(t.four.search.result.best.value, 2)}); its maps and detail are those of Independent (4T) and are not repeated.`;
+}
+
+/** Subcells of a wiring's optimum that sit on an edge of their material window or allowed range. */
+export function windowEdges(design: Design, gapsEv: number[]): { subcell: number; edge: 'low' | 'high'; what: string; gapEv: number }[] {
+  const out: { subcell: number; edge: 'low' | 'high'; what: string; gapEv: number }[] = [];
+  design.subcells.forEach((s, i) => {
+    const c = s.constraint;
+    if (c.kind !== 'range' && !(c.kind === 'material' && c.family.kind !== 'fixed')) return;
+    const [lo, hi] = constraintRangeEv(c, design.tempK, design.spanEv);
+    const what = c.kind === 'range' ? `allowed range ${fx(lo, 3)}–${fx(hi, 3)} eV` : `${c.family.name} ${c.fullRange ? 'composition range' : 'practical window'} (${fx(lo, 3)}–${fx(hi, 3)} eV)`;
+    const g = gapsEv[i];
+    if (Math.abs(g - lo) < 5e-4) out.push({ subcell: i + 1, edge: 'low', what, gapEv: g });
+    else if (Math.abs(g - hi) < 5e-4) out.push({ subcell: i + 1, edge: 'high', what, gapEv: g });
+  });
+  return out;
+}
+
+/** "subcell 1 (1.800 eV) sits on the high edge of the … window" for each edge, or '' when none. */
+function edgeWords(edges: ReturnType<typeof windowEdges>): string {
+  return joinWords(edges.map((e) => `subcell ${e.subcell} (${fx(e.gapEv, 3)} eV) sits on the ${e.edge} edge of its ${e.what}`));
+}
+
+/** Sentence naming an optimum on a window edge, with the unconstrained optimum beside it; '' when no gap is on an edge. */
+export function edgeSentence(design: Design, o: WiringOutcome): string {
+  const edges = windowEdges(design, o.search.result.best.gapsEv);
+  if (edges.length === 0) return '';
+  const u = o.search.unconstrained;
+  const free = u ? ` Without the windows the best is ${pc(u.best.value, 2)} at ${u.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV.` : '';
+  return `${shortTitle(o.wiring.key)}: the optimum is on a window edge — ${edgeWords(edges)}; ${edges.length > 1 ? 'the windows, not the physics, set those gaps' : 'the window, not the physics, sets that gap'}.${free}`;
+}
+
+/** One or two sentences: which wiring wins and by how much; ties within the resolution said as such (window edges: `edgeNotes`). */
 export function verdict(data: ReportData): string {
-  const o = [...data.outcomes].sort((a, b) => b.search.result.best.value - a.search.result.best.value);
+  const twin = threeTerminalTwin(data.outcomes);
+  const shown = data.outcomes.filter((o) => !twin || o !== twin.three);
+  const o = [...shown].sort((a, b) => b.search.result.best.value - a.search.result.best.value);
   const top = o[0];
   const gaps = top.search.result.best.gapsEv.map((g) => fx(g, 3)).join(' / ');
   let s = `Highest: ${wiringTitle(top.wiring.key)} at ${pc(top.search.result.best.value, 2)} with gaps ${gaps} eV (top first).`;
   for (const x of o.slice(1)) {
-    const d = (top.search.result.best.value - x.search.result.best.value) * 100;
-    s += ` ${wiringTitle(x.wiring.key).split(' (')[0]} gives up ${fx(d, 2)} percentage points (${pc(x.search.result.best.value, 2)} at ${x.search.result.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV).`;
+    const d = top.search.result.best.value - x.search.result.best.value;
+    const at = `${pc(x.search.result.best.value, 2)} at ${x.search.result.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV`;
+    s += belowResolution(d) ? ` ${shortTitle(x.wiring.key)}: ${NO_DIFFERENCE} (${at}).` : ` ${shortTitle(x.wiring.key)} gives up ${fx(d * 100, 2)} percentage points (${at}).`;
   }
+  if (twin) s += ` ${threeTerminalSentence(twin)}`;
   return s;
+}
+
+/** The verdict's companions under the answer table: every shown wiring whose optimum sits on a window edge, with its unconstrained optimum. */
+export function edgeNotes(data: ReportData): string[] {
+  const twin = threeTerminalTwin(data.outcomes);
+  return data.outcomes.filter((o) => !twin || o !== twin.three).flatMap((o) => {
+    const e = edgeSentence(data.design, o);
+    return e ? [e] : [];
+  });
 }
 
 /** Per-subcell detail table of one wiring. */
@@ -330,15 +408,32 @@ export function shiftTable(design: Design, w: WiringComparison): { head: string[
   };
 }
 
-/** What the AM1.5G-optimised design gives up under the ensemble, in words. */
-export function lossText(w: WiringComparison): string {
+/** What the AM1.5G-optimised design gives up under the ensemble, in words: below the resolution said as such, an optimum held by a window edge named. */
+export function lossText(design: Design, w: WiringComparison): string {
   const a = w.referenceOptimal;
   const b = w.ensembleOptimal;
   const same = w.shiftEv.every((d) => Math.abs(d) < 5e-7);
   const drop = a.referenceEfficiency - a.yieldEfficiency;
-  let s = same
-    ? `The AM1.5G optimum and the ensemble optimum are the same gaps (${a.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV), so the AM1.5G-optimised design loses nothing under this ensemble: ${pc(b.yieldEfficiency, 3)} yield-weighted.`
-    : `Built to the AM1.5G optimum, this stack yields ${pc(a.yieldEfficiency, 3)} over the ensemble, against ${pc(b.yieldEfficiency, 3)} at the ensemble optimum: ${fx(w.lossAbs * 100, 3)} percentage points lower, ${fx(w.lossRel * 100, 3)} % (relative).`;
+  const edgesA = windowEdges(design, a.gapsEv);
+  const edgesB = windowEdges(design, b.gapsEv);
+  const held = same && edgesA.length > 0 && edgesB.length > 0;
+  let s: string;
+  if (held) {
+    const ua = w.reference.unconstrained;
+    const ub = w.outcome.search.unconstrained;
+    const free =
+      ua && ub
+        ? ` Without the windows the optima differ: ${ua.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV under AM1.5G (${pc(ua.best.value, 2)}), ${ub.best.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV over the ensemble (${pc(ub.best.value, 2)} yield-weighted).`
+        : '';
+    s = `Both optima are the same gaps (${a.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV) because both sit on a window edge: ${edgeWords(edgesA)}. That the AM1.5G design matches the ensemble optimum here is set by the window, not a finding about the light.${free} At these gaps the stack yields ${pc(b.yieldEfficiency, 3)} over the ensemble.`;
+  } else if (same) {
+    s = `The AM1.5G optimum and the ensemble optimum are the same gaps (${a.gapsEv.map((g) => fx(g, 3)).join(' / ')} eV): built to the AM1.5G optimum, this stack yields ${pc(b.yieldEfficiency, 3)} over the ensemble, the ensemble optimum itself.`;
+  } else if (belowResolution(w.lossAbs)) {
+    s = `Built to the AM1.5G optimum, this stack yields ${pc(a.yieldEfficiency, 3)} over the ensemble, against ${pc(b.yieldEfficiency, 3)} at the ensemble optimum: ${NO_DIFFERENCE}.`;
+  } else {
+    s = `Built to the AM1.5G optimum, this stack yields ${pc(a.yieldEfficiency, 3)} over the ensemble, against ${pc(b.yieldEfficiency, 3)} at the ensemble optimum: ${fx(w.lossAbs * 100, 3)} percentage points lower, ${fx(w.lossRel * 100, 3)} % (relative).`;
+    if (edgesA.length > 0 || edgesB.length > 0) s += ` On a window edge: ${edgeWords(edgesA.length > 0 ? edgesA : edgesB)} (${edgesA.length > 0 ? 'AM1.5G' : 'ensemble'} optimum).`;
+  }
   s += ` Its yield-weighted η is ${fx(drop * 100, 2)} percentage points below its η under AM1.5G (${pc(a.referenceEfficiency, 3)}).`;
   const m = w.mismatch;
   if (m) {
@@ -361,8 +456,8 @@ export function wiringPatternText(c: EnsembleComparison): string {
   }
   const d = two.lossAbs - four.lossAbs;
   const here =
-    Math.abs(d) < 1e-6
-      ? `Here, against each wiring's ensemble optimum, both lose the same: 2T ${pp(two)}, 4T ${pp(four)}.`
+    belowResolution(d)
+      ? `Here, against each wiring's ensemble optimum, the losses show ${NO_DIFFERENCE}: 2T ${pp(two)}, 4T ${pp(four)}.`
       : d > 0
         ? `Here, against each wiring's ensemble optimum, the 2T stack loses more: ${pp(two)} against ${pp(four)} for 4T.`
         : `Here, against each wiring's ensemble optimum, the 4T stack loses more, against the usual pattern: ${pp(four)} against ${pp(two)} for 2T.`;

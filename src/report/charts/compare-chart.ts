@@ -10,7 +10,27 @@ import type { MapMark } from '../compute.js';
 import type { GapMap } from '../../search/map.js';
 import { buildSvg, num, svgText, type Sel } from '../svg.js';
 import { drawAxes } from './frame.js';
-import { clippedPlot, drawColourBar, drawMapLayers, drawMapLegend, drawOptimumLabel, filledGrid, MAP_COLOURS, MAP_SWATCHES, mapPlot, markLegendItems, optimumGroup, ringArea, unorderedRegion, type MapLegendItem } from './map-layers.js';
+import {
+  clippedPlot,
+  drawColourBar,
+  drawMapLayers,
+  drawMapLegend,
+  drawOptimumLabel,
+  filledGrid,
+  MAP_COLOURS,
+  MAP_LEGEND_ROW,
+  MAP_SWATCHES,
+  mapLegendRows,
+  mapBoard,
+  mapPlot,
+  markLegendItems,
+  optimumGroup,
+  ringArea,
+  sharedColourDomain,
+  unorderedRegion,
+  type ColourDomain,
+  type MapLegendItem,
+} from './map-layers.js';
 
 export const COMPARE_WIDTH = 900;
 const PLOT_H = 330;
@@ -43,26 +63,18 @@ export interface CompareChartInput {
   panels: [ComparePanel, ComparePanel];
   marks: MapMark[];
   loss: number;
+  /** Colour domain [%] shared with every map this chart is compared with; both panels' own range when absent. */
+  domain?: ColourDomain;
 }
 
-/** The shared colour range [%] of two maps: up to the higher maximum, at most COMPARE_SPAN_PCT below it. */
-export function compareColourRange(maps: GapMap[]): { lo: number; hi: number } {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const m of maps) {
-    for (const v of m.values) {
-      if (Number.isNaN(v)) continue;
-      lo = Math.min(lo, v * 100);
-      hi = Math.max(hi, v * 100);
-    }
-  }
-  return { lo: Math.max(lo, hi - COMPARE_SPAN_PCT), hi };
+/** The shared colour range [%] of maps compared side by side: up to the highest maximum, at most COMPARE_SPAN_PCT below it. */
+export function compareColourRange(maps: GapMap[]): ColourDomain {
+  return sharedColourDomain(maps, COMPARE_SPAN_PCT);
 }
 
-function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, range: { lo: number; hi: number }, showYLabel: boolean): void {
+function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, range: ColourDomain, showYLabel: boolean): void {
   const pl = mapPlot(p.map, PLOT_W, PLOT_H);
   const { w, h, xs, ys } = pl;
-  const { lo, hi } = range;
   const { grid } = filledGrid(p.map.values, pl.nx, pl.ny, 100);
   const optX = xs(p.optimum.x);
   const optY = ys(p.optimum.y);
@@ -72,17 +84,24 @@ function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, 
   g.attr('class', 'gs-compare-panel').attr('data-light', p.light);
   g.append('text').attr('class', 'gs-panel-title').attr('x', 0).attr('y', -12).attr('font-size', 13).attr('font-weight', 'bold').text(svgText(p.title));
   const plot = clippedPlot(g, g, `${id}-clip`, pl);
+  const board = mapBoard(pl, [
+    { x: optX, y: optY, r: 8 },
+    { x: othX, y: othY, r: 9 },
+  ]);
+  const opt = optimumGroup(g, id, p.optimum);
+  const eff = `${num(p.optimum.value * 100, 2)} %`;
+  drawOptimumLabel(opt, board, optX, optY, [`${eff} at ${num(p.optimum.x, 3)} / ${num(p.optimum.y, 3)} eV`, `${eff}, ${num(p.optimum.x, 3)}/${num(p.optimum.y, 3)}`, eff]);
   drawMapLayers(plot, pl, {
+    id,
+    defs: g,
     grid,
-    lo,
-    hi,
+    domain: range,
     marks: inp.marks,
     // Labels of horizontal lines go to the side away from the optima.
     markSide: (optX + othX) / 2 > w / 2 ? 'left' : 'right',
-    // Isolines at the same levels in both panels, labelled away from the markers and the optimum's label.
-    keepouts: [
+    board,
+    away: [
       [optX, optY],
-      [optX + 70, optY + 18],
       [othX, othY],
     ],
     threshold: p.threshold,
@@ -94,16 +113,26 @@ function drawPanel(g: Sel, id: string, p: ComparePanel, inp: CompareChartInput, 
   }
   other.append('circle').attr('cx', num(othX)).attr('cy', num(othY)).attr('r', 6.5).attr('fill', 'none').attr('stroke', '#000000').attr('stroke-width', 3.2);
   other.append('circle').attr('cx', num(othX)).attr('cy', num(othY)).attr('r', 6.5).attr('fill', 'none').attr('stroke', '#ffffff').attr('stroke-width', 1.6);
-  const opt = optimumGroup(g, id, p.optimum);
+  g.node()?.appendChild(opt.node() as Element);
   opt.append('circle').attr('cx', num(optX)).attr('cy', num(optY)).attr('r', 3.4).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.2);
-  drawOptimumLabel(opt, pl, optX, optY, `${num(p.optimum.value * 100, 2)} % at ${num(p.optimum.x, 3)} / ${num(p.optimum.y, 3)} eV`);
   g.append('rect').attr('class', 'gs-plot-area').attr('width', w).attr('height', h).attr('fill', 'none').attr('stroke', '#333333');
   drawAxes(g, { x: xs, y: ys, w, h, xTicks: 6, yTicks: 7, xLabel: inp.xLabel, yLabel: showYLabel ? inp.yLabel : undefined });
 }
 
 export function compareChartSvg(inp: CompareChartInput): string {
-  const range = compareColourRange(inp.panels.map((p) => p.map));
-  return buildSvg(COMPARE_WIDTH, COMPARE_HEIGHT, { id: inp.id, class: 'gs-chart gs-compare', 'data-colour-lo': num(range.lo, 4), 'data-colour-hi': num(range.hi, 4), role: 'img' }, (svg) => {
+  const range = inp.domain ?? compareColourRange(inp.panels.map((p) => p.map));
+  // Legend under both panels (its rows set the chart's height).
+  const items: MapLegendItem[] = [
+    { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 4).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.2), text: "the panel's own optimum" },
+    { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 5.5).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1.6), text: "the other panel's optimum" },
+    { draw: MAP_SWATCHES.tolerance, text: `tolerance: ≥ (1 − ${num(inp.loss * 100, 1)} %)·own best` },
+    ...markLegendItems(inp.marks),
+  ];
+  const m0 = inp.panels[0].map;
+  if (ringArea(unorderedRegion(m0.x[0], m0.x[m0.x.length - 1], m0.y[0], m0.y[m0.y.length - 1])) > 1e-6) items.push({ draw: MAP_SWATCHES.unordered, text: 'gaps out of order' });
+  const legendSpan = 2 * PLOT_W + M.between + 60;
+  const height = COMPARE_HEIGHT + MAP_LEGEND_ROW * Math.max(0, mapLegendRows(items, legendSpan) - 2);
+  return buildSvg(COMPARE_WIDTH, height, { id: inp.id, class: 'gs-chart gs-compare', 'data-colour-lo': num(range.lo, 4), 'data-colour-hi': num(range.hi, 4), role: 'img' }, (svg) => {
     svg.append('title').text(svgText(`${inp.panels[0].title} and ${inp.panels[1].title}, ${inp.wiringLabel}: ${inp.xLabel} against ${inp.yLabel}, one colour scale`));
     inp.panels.forEach((p, k) => {
       const g = svg.append('g').attr('transform', `translate(${M.left + k * (PLOT_W + M.between)},${M.top})`);
@@ -111,15 +140,6 @@ export function compareChartSvg(inp: CompareChartInput): string {
     });
     // One colour bar for both panels.
     drawColourBar(svg, M.left + 2 * PLOT_W + M.between + 20, M.top, PLOT_H, range.lo, range.hi);
-    // Legend under both panels.
-    const items: MapLegendItem[] = [
-      { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 4).attr('fill', MAP_COLOURS.marker).attr('stroke', '#ffffff').attr('stroke-width', 1.2), text: "the panel's own optimum" },
-      { draw: (s) => s.append('circle').attr('cx', 9).attr('cy', 0).attr('r', 5.5).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-width', 1.6), text: "the other panel's optimum" },
-      { draw: MAP_SWATCHES.tolerance, text: `tolerance: ≥ (1 − ${num(inp.loss * 100, 1)} %)·own best` },
-      ...markLegendItems(inp.marks),
-    ];
-    const m0 = inp.panels[0].map;
-    if (ringArea(unorderedRegion(m0.x[0], m0.x[m0.x.length - 1], m0.y[0], m0.y[m0.y.length - 1])) > 1e-6) items.push({ draw: MAP_SWATCHES.unordered, text: 'gaps out of order' });
-    drawMapLegend(svg.append('g').attr('class', 'gs-legend').attr('transform', `translate(${M.left},${M.top + PLOT_H + 64})`), items, 2 * PLOT_W + M.between + 60);
+    drawMapLegend(svg.append('g').attr('class', 'gs-legend').attr('transform', `translate(${M.left},${M.top + PLOT_H + 64})`), items, legendSpan);
   });
 }

@@ -37,9 +37,10 @@ export const LEGEND_ROW = 16;
 /** Estimated width of a legend character at 11 px [px]. */
 const CHAR_W = 6.7;
 
-/** Colour of subcell i of n: evenly spaced on viridis, the light end kept away from white paper. */
-export function subcellColour(i: number, n: number): string {
-  const t = n <= 1 ? 0.35 : 0.08 + (0.72 * i) / (n - 1);
+/** Colour of subcell i of n: evenly spaced on viridis, the light end kept away from white paper (or, on a dark backdrop, the dark end away from it). */
+export function subcellColour(i: number, n: number, backdrop: 'light' | 'dark' = 'light'): string {
+  const [a, b] = backdrop === 'dark' ? [0.4, 1] : [0.08, 0.8];
+  const t = n <= 1 ? (backdrop === 'dark' ? 0.7 : 0.35) : a + ((b - a) * i) / (n - 1);
   return interpolateViridis(t);
 }
 

@@ -1,6 +1,8 @@
 /** J–V curves of each subcell at its photocurrent in the stack, the series terminal curve, and the operating points. */
 import type { JvOutcome } from '../compute.js';
 import { buildSvg, linePath, num, svgText } from '../svg.js';
+import { besideCandidates } from './map-layers.js';
+import { LabelBoard, pointBox } from './labels.js';
 import { drawFrame, FRAME_MARGIN, LEGEND_ROW, legendRows, subcellColour, type LegendItem, shortLabel } from './frame.js';
 
 export const JV_WIDTH = 680;
@@ -30,7 +32,17 @@ export function jvChartSvg(inp: { id: string; jv: JvOutcome; wiringLabel: string
       const x = f.x(jv.stackMpp.vV);
       const y = f.y(jv.stackMpp.jAm2 / 10);
       f.plot.append('path').attr('class', 'gs-mpp').attr('d', `M${num(x)},${num(y - 6)}L${num(x + 6)},${num(y)}L${num(x)},${num(y + 6)}L${num(x - 6)},${num(y)}Z`).attr('fill', '#111111');
-      f.plot.append('text').attr('x', num(x - 8)).attr('y', num(y - 8)).attr('text-anchor', 'end').attr('font-size', 10).text(`MPP ${num(jv.stackMpp.vV, 3)} V, ${num(jv.stackMpp.jAm2 / 10, 2)} mA/cm²`);
+      // The label keeps clear of the operating points, the diamond and the plot's edges.
+      const board = new LabelBoard({ x0: 2, y0: 2, x1: f.w - 2, y1: f.h - 2 });
+      board.reserve(pointBox(x, y, 7));
+      for (const p of jv.operating) board.reserve(pointBox(f.x(p.vV), f.y(p.jAm2 / 10), 6));
+      const text = `MPP ${num(jv.stackMpp.vV, 3)} V, ${num(jv.stackMpp.jAm2 / 10, 2)} mA/cm²`;
+      const t = board.placeOrShorten(besideCandidates(x, y, 10), text, { size: 10 }, 8);
+      if (t) {
+        const host = t.full ? f.plot.append('g').attr('class', 'gs-cut') : f.plot;
+        if (t.full) host.append('title').text(svgText(t.full));
+        host.append('text').attr('class', 'gs-mpp-label gs-label').attr('x', num(t.x)).attr('y', num(t.y)).attr('text-anchor', t.anchor).attr('font-size', 10).text(t.text);
+      }
     }
   });
 }

@@ -4,13 +4,16 @@
  * grid, filled contour bands on viridis, labelled isolines, the tolerance
  * outline, the shading of gaps out of order, the windows / ranges / fixed
  * absorbers of bound families ("marks") with their labels, the colour bar and
- * the legend swatches. One set of styles serves both charts.
+ * the legend swatches. One set of styles serves both charts, and any section
+ * that draws maps to be compared: give them one `ColourDomain`
+ * (`sharedColourDomain`) and place every label through one `LabelBoard` per plot.
  */
 import { contours, type ContourMultiPolygon, type Contours } from 'd3-contour';
 import { scaleLinear, type ScaleLinear } from 'd3-scale';
 import { interpolateViridis } from 'd3-scale-chromatic';
 import type { MapMark } from '../compute.js';
 import { d3, linePath, num, styleAxis, svgText, type Sel } from '../svg.js';
+import { LabelBoard, pointBox, textWidthPx, type Candidate, type Placed, type TextStyle } from './labels.js';
 
 export type Ring = [number, number][];
 export type Pos = number[];
@@ -24,6 +27,8 @@ export const MAP_COLOURS = {
   window: '#ffffff',
   invalid: '#e6e6e6',
   marker: '#111111',
+  /** Values below the colour domain: a neutral grey that viridis never reaches, darker than the out-of-order grey. */
+  under: '#9e9e9e',
 };
 
 /** Stroke widths, opacities and dashes of the map layers. */
@@ -32,15 +37,49 @@ export const MAP_STYLE = {
   isolabel: { size: 10, fill: '#111111', halo: '#ffffff', haloWidth: 2.5 },
   tolerance: { width: 1.8, dash: '4,2.5', halo: '#000000', haloOpacity: 0.45, haloWidth: 3.6 },
   fixed: { width: 1.6, halo: '#ffffff', haloWidth: 4 },
-  window: { fillOpacity: 0.2, width: 1.2, dash: '6,3' },
+  window: { width: 1.4, dash: '6,3', halo: '#000000', haloOpacity: 0.5, haloWidth: 3, band: 7, hatch: 5 },
   range: { width: 1.2, dash: '2,3' },
   markLabel: { size: 10, fill: '#ffffff', halo: '#000000', haloWidth: 2.2, pad: 6 },
 };
 
-/** Isoline labels keep this far from the plot's left/right and top/bottom edges [px]. */
-const LABEL_EDGE = { x: 22, y: 12 };
-/** Width one keep-out point of a mark label stands for along the text [px]; four cover a label. */
-const MARK_LABEL_STEP = 40;
+/** Label styles as the board measures them. */
+const ISO_TEXT: TextStyle = { size: MAP_STYLE.isolabel.size };
+const MARK_TEXT: TextStyle = { size: MAP_STYLE.markLabel.size };
+export const OPTIMUM_TEXT: TextStyle = { size: 11, bold: true };
+/** Isoline labels sit this far inside the plot's left/right and top/bottom edges [px], clear of the axes. */
+const ISO_EDGE = { x: 18, y: 12 };
+/** Most isoline-label places tried per level. */
+const ISO_CANDIDATES = 240;
+
+/** The colour range of a map [%]: values below `lo` take the under-range colour, above `hi` cannot occur. */
+export interface ColourDomain {
+  lo: number;
+  hi: number;
+}
+
+/** Default depth of a map's colour scale below its highest value [percentage points]. */
+export const MAP_SPAN_PCT = 12;
+
+/**
+ * One colour domain for maps a reader compares: up to the highest value of
+ * any of them, down to their lowest value or `spanPct` below the highest,
+ * whichever is higher. Maps given the same domain show the same efficiency in
+ * the same colour.
+ */
+export function sharedColourDomain(maps: { values: ArrayLike<number> }[], spanPct = MAP_SPAN_PCT): ColourDomain {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const m of maps) {
+    for (let k = 0; k < m.values.length; k++) {
+      const v = m.values[k];
+      if (Number.isNaN(v)) continue;
+      lo = Math.min(lo, v * 100);
+      hi = Math.max(hi, v * 100);
+    }
+  }
+  if (!Number.isFinite(hi)) return { lo: 0, hi: 1 };
+  return { lo: Math.max(lo, hi - spanPct), hi: Math.max(hi, Math.max(lo, hi - spanPct) + 1e-6) };
+}
 
 /** Plot geometry of a map's grid: scales, and d3-contour output in plot pixels. */
 export interface MapPlot {
@@ -176,32 +215,54 @@ export function clippedPlot(defsParent: Sel, g: Sel, clipId: string, p: MapPlot)
   return g.append('g').attr('clip-path', `url(#${clipId})`);
 }
 
-/** The base colour and the filled bands over [lo, hi] [%], each coloured at the middle of its step. */
+/**
+ * The under-range base and the filled bands from `lo` up, each coloured at
+ * the middle of its step: everything below `lo` keeps the under-range grey.
+ */
 function drawBands(plot: Sel, p: MapPlot, grid: number[], lo: number, hi: number): void {
   const colour = viridisColour(lo, hi);
   const step = bandStep(lo, hi);
-  plot.append('rect').attr('class', 'gs-map-base').attr('width', p.w).attr('height', p.h).attr('fill', colour(lo));
+  plot.append('rect').attr('class', 'gs-map-base gs-under-range').attr('width', p.w).attr('height', p.h).attr('fill', MAP_COLOURS.under);
   const bands = plot.append('g').attr('class', 'gs-bands');
-  for (const c of p.gen.thresholds(stepLevels(lo, hi, step, false))(grid)) {
+  const levels = [lo, ...stepLevels(lo, hi, step, true)];
+  for (const c of p.gen.thresholds(levels)(grid)) {
     if (c.coordinates.length === 0) continue;
-    bands.append('path').attr('class', 'gs-band').attr('data-level', num(c.value, 2)).attr('fill', colour(c.value + step / 2)).attr('d', p.path(c));
+    const next = levels.find((t) => t > c.value + 1e-9) ?? hi;
+    bands.append('path').attr('class', 'gs-band').attr('data-level', num(c.value, 2)).attr('fill', colour((c.value + Math.min(next, hi)) / 2)).attr('d', p.path(c));
   }
 }
 
-/** Where a mark's label goes; horizontal lines' labels on `side`. */
-export interface MarkLabel {
-  x: number;
-  y: number;
-  text: string;
-  anchor: 'start' | 'end';
+/** The hatch pattern of window edge bands, defined once per chart (`<id>-hatch`). */
+export function defineHatch(defsParent: Sel, chartId: string): string {
+  const id = `${chartId}-hatch`;
+  const S = MAP_STYLE.window;
+  defsParent
+    .append('defs')
+    .append('pattern')
+    .attr('id', id)
+    .attr('patternUnits', 'userSpaceOnUse')
+    .attr('width', S.hatch)
+    .attr('height', S.hatch)
+    .attr('patternTransform', 'rotate(45)')
+    .append('line')
+    .attr('x1', 0)
+    .attr('y1', 0)
+    .attr('x2', 0)
+    .attr('y2', S.hatch)
+    .attr('stroke', MAP_COLOURS.window)
+    .attr('stroke-opacity', 0.85)
+    .attr('stroke-width', 1.6);
+  return id;
 }
 
-/** Windows and ranges as bands, fixed absorbers as haloed lines; returns their labels' places (draw them later, above the mask). */
-function drawMarks(plot: Sel, p: MapPlot, marks: MapMark[], side: 'left' | 'right'): MarkLabel[] {
+/**
+ * Windows as dashed outlines with a hatched band just inside each edge (the
+ * data colours inside stay as they are), ranges as dotted outlines, fixed
+ * absorbers as haloed lines.
+ */
+function drawMarks(plot: Sel, p: MapPlot, marks: MapMark[], hatchId: string): void {
   const S = MAP_STYLE;
-  const pad = S.markLabel.pad;
   const g = plot.append('g').attr('class', 'gs-marks');
-  const labels: MarkLabel[] = [];
   for (const mk of marks) {
     const horizontal = mk.axis === 'y';
     const a = horizontal ? p.ys(mk.hiEv) : p.xs(mk.loEv);
@@ -212,86 +273,132 @@ function drawMarks(plot: Sel, p: MapPlot, marks: MapMark[], side: 'left' | 'righ
       const ends = (s: Sel) => s.attr('x1', num(l.x1)).attr('x2', num(l.x2)).attr('y1', num(l.y1)).attr('y2', num(l.y2));
       ends(line('gs-fixed-halo')).attr('stroke', S.fixed.halo).attr('stroke-width', S.fixed.haloWidth);
       ends(line('gs-fixed').attr('data-gap', num(mk.loEv, 4))).attr('stroke', MAP_COLOURS.fixed).attr('stroke-width', S.fixed.width);
-    } else {
-      const window = mk.kind === 'window';
-      const r = horizontal ? { x: 0, y: a, width: p.w, height: b - a } : { x: a, y: 0, width: b - a, height: p.h };
-      g.append('rect')
-        .attr('class', window ? 'gs-window' : 'gs-range')
-        .attr('data-lo', num(mk.loEv, 4))
-        .attr('data-hi', num(mk.hiEv, 4))
+      continue;
+    }
+    const window = mk.kind === 'window';
+    const r = horizontal ? { x: 0, y: a, width: p.w, height: b - a } : { x: a, y: 0, width: b - a, height: p.h };
+    const rect = (cls: string) =>
+      g
+        .append('rect')
+        .attr('class', cls)
         .attr('x', num(r.x))
         .attr('y', num(r.y))
         .attr('width', num(Math.max(0, r.width)))
         .attr('height', num(Math.max(0, r.height)))
-        .attr('fill', window ? MAP_COLOURS.window : 'none')
-        .attr('fill-opacity', window ? S.window.fillOpacity : 0)
-        .attr('stroke', MAP_COLOURS.window)
-        .attr('stroke-width', window ? S.window.width : S.range.width)
-        .attr('stroke-dasharray', window ? S.window.dash : S.range.dash);
+        .attr('fill', 'none');
+    if (window) {
+      // Edge bands: hatch only within S.window.band px inside each edge that crosses the plot.
+      const band = Math.min(S.window.band, Math.max(0, (horizontal ? r.height : r.width) / 2));
+      const strips = horizontal
+        ? [{ x: 0, y: a, width: p.w, height: band }, { x: 0, y: b - band, width: p.w, height: band }]
+        : [{ x: a, y: 0, width: band, height: p.h }, { x: b - band, y: 0, width: band, height: p.h }];
+      for (const st of strips) {
+        g.append('rect').attr('class', 'gs-window-band').attr('x', num(st.x)).attr('y', num(st.y)).attr('width', num(st.width)).attr('height', num(st.height)).attr('fill', `url(#${hatchId})`);
+      }
+      rect('gs-window-halo').attr('stroke', S.window.halo).attr('stroke-opacity', S.window.haloOpacity).attr('stroke-width', S.window.haloWidth);
     }
-    const end = horizontal && side === 'right';
-    labels.push({
-      x: horizontal ? (end ? p.w - pad : pad) : Math.min(p.w - pad, Math.max(pad, a + 4)),
-      y: horizontal ? Math.max(12, a - 5) : 14,
-      text: mk.label,
-      anchor: end ? 'end' : 'start',
-    });
+    rect(window ? 'gs-window' : 'gs-range')
+      .attr('data-lo', num(mk.loEv, 4))
+      .attr('data-hi', num(mk.hiEv, 4))
+      .attr('stroke', MAP_COLOURS.window)
+      .attr('stroke-width', window ? S.window.width : S.range.width)
+      .attr('stroke-dasharray', window ? S.window.dash : S.range.dash);
   }
-  return labels;
 }
 
-/** Points an isoline label keeps away from, along each mark label. */
-export function markLabelKeepouts(labels: MarkLabel[]): Point[] {
-  return labels.flatMap((t) => [0, 1, 2, 3].map((k) => [t.x + (t.anchor === 'end' ? -k : k) * MARK_LABEL_STEP, t.y - 4] as Point));
+/** Places for a mark's label, best first: inside its band or beside its line, along either end. */
+function markCandidates(p: MapPlot, mk: MapMark, side: 'left' | 'right'): Candidate[] {
+  const pad = MAP_STYLE.markLabel.pad;
+  const size = MAP_STYLE.markLabel.size;
+  if (mk.axis === 'y') {
+    const top = p.ys(mk.hiEv);
+    const bottom = p.ys(mk.loEv);
+    const ys = mk.kind === 'fixed' ? [top - 5, top + size + 3] : [top + size + 3, bottom - 5, top - 5, bottom + size + 3];
+    const ends = side === 'left' ? ['start', 'end'] : ['end', 'start'];
+    return ends.flatMap((e) => ys.map((y): Candidate => ({ x: e === 'start' ? pad : p.w - pad, y, anchor: e as 'start' | 'end' })));
+  }
+  const a = p.xs(mk.loEv);
+  const b = p.xs(mk.hiEv);
+  const ys = [size + 4, p.h - 6, size * 2 + 8, p.h - size - 10];
+  return [
+    ...ys.map((y): Candidate => ({ x: a + 4, y, anchor: 'start' })),
+    ...ys.map((y): Candidate => ({ x: b - 4, y, anchor: 'end' })),
+    ...ys.map((y): Candidate => ({ x: a - 4, y, anchor: 'end' })),
+  ];
 }
 
-/** The vertex of a contour (in plot pixels, off the edges) farthest from every point in `placed`, distances along x counted at 1/1.6. */
-export function labelPoint(p: MapPlot, c: { coordinates: Pos[][][] }, placed: Point[]): Point | null {
-  let pick: Point | null = null;
-  let score = -Infinity;
+/** Place the marks' labels on the board (before the isolines': they matter more). */
+function placeMarkLabels(board: LabelBoard, p: MapPlot, marks: MapMark[], side: 'left' | 'right'): Placed[] {
+  const out: Placed[] = [];
+  for (const mk of marks) {
+    const placed = board.placeOrShorten(markCandidates(p, mk, side), mk.label, MARK_TEXT, 8);
+    if (placed) out.push(placed);
+  }
+  return out;
+}
+
+/**
+ * Candidate places of a contour's label (plot pixels, anchored at the middle):
+ * its vertices, those farthest from `others` first (distances along x count
+ * 1/1.6), at most ISO_CANDIDATES of them.
+ */
+export function isolabelCandidates(p: MapPlot, c: { coordinates: Pos[][][] }, others: Point[]): Candidate[] {
+  const pts: { x: number; y: number; score: number }[] = [];
   for (const poly of c.coordinates) {
     for (const ring of poly) {
       for (const q of ring) {
         const [X, Y] = p.pixel(q);
-        if (X < LABEL_EDGE.x || X > p.w - LABEL_EDGE.x || Y < LABEL_EDGE.y || Y > p.h - LABEL_EDGE.y) continue;
+        if (X < ISO_EDGE.x || X > p.w - ISO_EDGE.x || Y < ISO_EDGE.y || Y > p.h - ISO_EDGE.y) continue;
         let d = Infinity;
-        for (const r of placed) d = Math.min(d, Math.hypot((X - r[0]) / 1.6, Y - r[1]));
-        if (d > score + 1e-9) {
-          score = d;
-          pick = [X, Y];
-        }
+        for (const r of others) d = Math.min(d, Math.hypot((X - r[0]) / 1.6, Y - r[1]));
+        pts.push({ x: X, y: Y, score: d });
       }
     }
   }
-  return pick;
+  pts.sort((u, v) => v.score - u.score);
+  const stride = Math.max(1, Math.floor(pts.length / ISO_CANDIDATES));
+  const out: Candidate[] = [];
+  for (let i = 0; i < pts.length && out.length < ISO_CANDIDATES; i += stride) out.push({ x: pts[i].x, y: pts[i].y + 3.5, anchor: 'middle' });
+  return out;
 }
 
-/** Isolines every `step` points within (lo, hi), each labelled once where it is farthest from `keepouts` and the labels already placed. */
-function drawIsolines(plot: Sel, p: MapPlot, grid: number[], lo: number, hi: number, keepouts: Point[]): void {
+/** Isolines every `step` points within (lo, hi); each labelled once where the board has room, or left unlabelled. */
+function drawIsolines(plot: Sel, p: MapPlot, grid: number[], lo: number, hi: number, board: LabelBoard, away: Point[]): void {
   const S = MAP_STYLE;
   const step = isoStep(lo, hi);
   const iso = plot.append('g').attr('class', 'gs-isolines');
   const labels = plot.append('g').attr('class', 'gs-isolabels');
-  const placed = [...keepouts];
+  const others = [...away];
   for (const c of p.gen.thresholds(stepLevels(lo, hi, step, true))(grid)) {
     if (c.coordinates.length === 0) continue;
     iso.append('path').attr('class', 'gs-isoline').attr('data-level', num(c.value, 2)).attr('fill', 'none').attr('stroke', S.isoline.stroke).attr('stroke-opacity', S.isoline.opacity).attr('stroke-width', S.isoline.width).attr('d', p.path(c));
-    const pick = labelPoint(p, c, placed);
+    const pick = board.place(isolabelCandidates(p, c, others), `${num(c.value, step < 1 ? 1 : 0)} %`, ISO_TEXT);
     if (!pick) continue;
-    placed.push(pick);
-    labels
-      .append('text')
-      .attr('class', 'gs-isolabel')
-      .attr('x', num(pick[0], 1))
-      .attr('y', num(pick[1] + 3.5, 1))
-      .attr('text-anchor', 'middle')
-      .attr('font-size', S.isolabel.size)
-      .attr('fill', S.isolabel.fill)
-      .attr('stroke', S.isolabel.halo)
-      .attr('stroke-width', S.isolabel.haloWidth)
-      .attr('paint-order', 'stroke')
-      .text(`${num(c.value, step < 1 ? 1 : 0)} %`);
+    others.push([pick.x, pick.y]);
+    haloText(labels, pick, S.isolabel).attr('class', 'gs-isolabel gs-label');
   }
+}
+
+/** A placed label as haloed text, with its full text as a tooltip when it was cut. */
+export function haloText(parent: Sel, t: Placed, style: { size: number; fill: string; halo: string; haloWidth: number }, bold = false): Sel {
+  let host = parent;
+  if (t.full) {
+    host = parent.append('g').attr('class', 'gs-cut');
+    host.append('title').text(svgText(t.full));
+  }
+  const el = host
+    .append('text')
+    .attr('x', num(t.x, 1))
+    .attr('y', num(t.y, 1))
+    .attr('text-anchor', t.anchor)
+    .attr('font-size', style.size)
+    .attr('font-weight', bold ? 'bold' : null)
+    .attr('fill', style.fill)
+    .attr('stroke', style.halo)
+    .attr('stroke-width', style.haloWidth)
+    .attr('paint-order', 'stroke')
+    .text(svgText(t.text));
+  return el;
 }
 
 /** The outline of η ≥ threshold (a fraction), dashed over a dark halo. */
@@ -310,29 +417,13 @@ function drawUnordered(plot: Sel, p: MapPlot): void {
   if (bad.length >= 3) plot.append('path').attr('class', 'gs-unordered').attr('fill', MAP_COLOURS.invalid).attr('d', `${linePath(bad.map(([a, b]) => [p.xs(a), p.ys(b)]), 1)}Z`);
 }
 
-/** The marks' labels (light on a dark halo). */
-function drawMarkLabels(plot: Sel, labels: MarkLabel[]): void {
-  const S = MAP_STYLE.markLabel;
-  const g = plot.append('g').attr('class', 'gs-mark-labels');
-  for (const t of labels) {
-    g.append('text')
-      .attr('class', 'gs-mark-label')
-      .attr('x', num(t.x))
-      .attr('y', num(t.y))
-      .attr('text-anchor', t.anchor)
-      .attr('font-size', S.size)
-      .attr('fill', S.fill)
-      .attr('stroke', S.halo)
-      .attr('stroke-width', S.haloWidth)
-      .attr('paint-order', 'stroke')
-      .text(svgText(t.text));
-  }
-}
-
-/** A vertical colour bar `h` high for [lo, hi] [%] at (x, y) in `parent`. */
+/**
+ * A vertical colour bar `h` high for [lo, hi] [%] at (x, y) in `parent`, with
+ * the under-range colour as a triangle below it, labelled "< lo".
+ */
 export function drawColourBar(parent: Sel, x: number, y: number, h: number, lo: number, hi: number): void {
   const colour = viridisColour(lo, hi);
-  const cb = parent.append('g').attr('class', 'gs-colourbar').attr('transform', `translate(${x},${y})`);
+  const cb = parent.append('g').attr('class', 'gs-colourbar').attr('transform', `translate(${x},${y})`).attr('data-lo', num(lo, 4)).attr('data-hi', num(hi, 4));
   const cs = scaleLinear().domain([lo, hi]).range([h, 0]);
   const steps = 64;
   for (let k = 0; k < steps; k++) {
@@ -341,10 +432,16 @@ export function drawColourBar(parent: Sel, x: number, y: number, h: number, lo: 
     cb.append('rect').attr('x', 0).attr('y', num(cs(v1), 2)).attr('width', 14).attr('height', num(cs(v0) - cs(v1) + 0.4, 2)).attr('fill', colour((v0 + v1) / 2));
   }
   cb.append('rect').attr('width', 14).attr('height', h).attr('fill', 'none').attr('stroke', '#333333');
+  const under = cb.append('g').attr('class', 'gs-under-mark');
+  under.append('path').attr('d', `M0,${num(h + 2)}H14L7,${num(h + 14)}Z`).attr('fill', MAP_COLOURS.under).attr('stroke', '#333333');
+  under.append('text').attr('x', 18).attr('y', num(h + 13)).attr('font-size', 10).text(`< ${num(lo, 1)}`);
   const cax = cb.append('g').attr('transform', 'translate(14,0)');
-  cax.call(d3().axisRight(cs).ticks(8).tickSizeOuter(0));
+  // Keep the lowest tick label clear of the under-range label.
+  const ticks = cs.ticks(8).filter((t) => cs(t) < h - 12);
+  cax.call(d3().axisRight(cs).tickValues(ticks).tickSizeOuter(0));
   styleAxis(cax);
-  cb.append('text').attr('x', 7).attr('y', -12).attr('text-anchor', 'middle').attr('font-size', 11).text('η [%]');
+  // The title sits right of the bar's centre, clear of a composition axis's ticks above the plot's right corner.
+  cb.append('text').attr('x', 0).attr('y', -12).attr('text-anchor', 'start').attr('font-size', 11).text('η [%]');
 }
 
 /** The group of a map's optimum marker, `id` optimum-<chart id>, carrying the optimum's gaps and value as data attributes. */
@@ -352,35 +449,63 @@ export function optimumGroup(g: Sel, chartId: string, o: { x: number; y: number;
   return g.append('g').attr('class', 'gs-optimum').attr('id', `optimum-${chartId}`).attr('data-gap-x', num(o.x, 6)).attr('data-gap-y', num(o.y, 6)).attr('data-efficiency', num(o.value, 8));
 }
 
-/** The optimum's bold label beside the marker at (x, y): to the right where it fits, above it near the bottom edge. */
-export function drawOptimumLabel(opt: Sel, p: MapPlot, x: number, y: number, text: string): void {
-  const right = x + 12 + text.length * 6.6 < p.w;
-  opt
-    .append('text')
-    .attr('x', num(x + (right ? 12 : -12)))
-    .attr('y', num(y > p.h - 26 ? y - 10 : y + 18))
-    .attr('text-anchor', right ? 'start' : 'end')
-    .attr('font-size', 11)
-    .attr('font-weight', 'bold')
-    .attr('fill', '#111111')
-    .attr('stroke', '#ffffff')
-    .attr('stroke-width', 3)
-    .attr('paint-order', 'stroke')
-    .text(text);
+/** A label board over a map's plot with its markers (centre, radius [px]) already taken. */
+export function mapBoard(p: MapPlot, markers: { x: number; y: number; r: number }[]): LabelBoard {
+  const board = new LabelBoard({ x0: 2, y0: 2, x1: p.w - 2, y1: p.h - 2 });
+  for (const m of markers) board.reserve(pointBox(m.x, m.y, m.r));
+  return board;
+}
+
+/** Places beside a marker at (x, y), best first: right, left, then above and below. */
+export function besideCandidates(x: number, y: number, size: number): Candidate[] {
+  const d = 11;
+  return [
+    { x: x + d, y: y + size + 4, anchor: 'start' },
+    { x: x + d, y: y - 7, anchor: 'start' },
+    { x: x - d, y: y + size + 4, anchor: 'end' },
+    { x: x - d, y: y - 7, anchor: 'end' },
+    { x, y: y - d - 2, anchor: 'middle' },
+    { x, y: y + d + size, anchor: 'middle' },
+    { x: x + d, y: y + 2 * size + 8, anchor: 'start' },
+    { x: x - d, y: y + 2 * size + 8, anchor: 'end' },
+    { x: x + d, y: y - size - 10, anchor: 'start' },
+    { x: x - d, y: y - size - 10, anchor: 'end' },
+  ];
+}
+
+/**
+ * The optimum's bold label beside its marker, through the board: the first
+ * of `variants` (full text first, then shorter forms that still say the
+ * numbers) that fits; as a last resort the full text cut, with it as tooltip.
+ */
+export function drawOptimumLabel(opt: Sel, board: LabelBoard, x: number, y: number, variants: string[]): void {
+  const text = variants[0];
+  const cands = besideCandidates(x, y, OPTIMUM_TEXT.size);
+  const t = board.placeVariant(cands, variants, OPTIMUM_TEXT) ?? board.placeOrShorten(cands, text, OPTIMUM_TEXT, 10);
+  if (!t) {
+    opt.append('title').text(svgText(text));
+    return;
+  }
+  haloText(opt, t, { size: OPTIMUM_TEXT.size, fill: '#111111', halo: '#ffffff', haloWidth: 3 }, true).attr('class', 'gs-optimum-label gs-label');
 }
 
 /** What the shared layers of one map need. */
 export interface MapLayers {
+  /** Chart id (prefixes the hatch pattern's id). */
+  id: string;
+  /** Where the pattern definitions go (the chart's root). */
+  defs: Sel;
   /** Values [%] with unordered pixels filled (filledGrid). */
   grid: number[];
-  /** Colour range [%]. */
-  lo: number;
-  hi: number;
+  /** Colour domain [%]. */
+  domain: ColourDomain;
   marks: MapMark[];
   /** Side for the labels of horizontal marks. */
   markSide: 'left' | 'right';
-  /** Points the isoline labels keep away from (markers and their labels); the marks' labels are added. */
-  keepouts: Point[];
+  /** The plot's label board, markers and the optimum's label already on it. */
+  board: LabelBoard;
+  /** Points the isoline labels prefer to stay far from (markers). */
+  away: Point[];
   /** Tolerance threshold η [-]. */
   threshold: number;
   /** Drawn over the isolines and under the tolerance outline (e.g. the current-matching locus). */
@@ -390,17 +515,22 @@ export interface MapLayers {
 /**
  * The layers in order, bottom to top: bands, marks, labelled isolines, the
  * overlay, the tolerance outline, the unordered mask, and the marks' labels
- * last so they stay legible.
+ * last so they stay legible. Mark labels claim their places before isoline
+ * labels; an isoline label that finds no free place is left out.
  */
 export function drawMapLayers(plot: Sel, p: MapPlot, l: MapLayers): void {
-  drawBands(plot, p, l.grid, l.lo, l.hi);
-  const markLabels = drawMarks(plot, p, l.marks, l.markSide);
-  drawIsolines(plot, p, l.grid, l.lo, l.hi, [...l.keepouts, ...markLabelKeepouts(markLabels)]);
+  const { lo, hi } = l.domain;
+  drawBands(plot, p, l.grid, lo, hi);
+  drawMarks(plot, p, l.marks, defineHatch(l.defs, l.id));
+  const markLabels = placeMarkLabels(l.board, p, l.marks, l.markSide);
+  drawIsolines(plot, p, l.grid, lo, hi, l.board, l.away);
   l.overlay?.(plot);
   drawTolerance(plot, p, l.grid, l.threshold);
   drawUnordered(plot, p);
-  drawMarkLabels(plot, markLabels);
+  const g = plot.append('g').attr('class', 'gs-mark-labels');
+  for (const t of markLabels) haloText(g, t, { size: MAP_STYLE.markLabel.size, fill: MAP_STYLE.markLabel.fill, halo: MAP_STYLE.markLabel.halo, haloWidth: MAP_STYLE.markLabel.haloWidth }).attr('class', 'gs-mark-label gs-label');
 }
+
 
 /** One legend entry of a map: a swatch drawn around (0..18, 0) and its text. */
 export interface MapLegendItem {
@@ -411,7 +541,12 @@ export interface MapLegendItem {
 /** Legend swatches of the shared layers. */
 export const MAP_SWATCHES = {
   tolerance: (s: Sel) => s.append('path').attr('d', 'M0,0H18').attr('stroke', '#555555').attr('stroke-width', 2).attr('stroke-dasharray', MAP_STYLE.tolerance.dash),
-  window: (s: Sel) => s.append('rect').attr('x', 0).attr('y', -6).attr('width', 18).attr('height', 12).attr('fill', '#bbbbbb').attr('stroke', '#777777').attr('stroke-dasharray', '3,2'),
+  window: (s: Sel) => {
+    s.append('rect').attr('x', 0).attr('y', -6).attr('width', 18).attr('height', 12).attr('fill', '#bbbbbb');
+    s.append('rect').attr('x', 0).attr('y', -6).attr('width', 5).attr('height', 12).attr('fill', '#777777');
+    s.append('rect').attr('x', 13).attr('y', -6).attr('width', 5).attr('height', 12).attr('fill', '#777777');
+    s.append('rect').attr('x', 0).attr('y', -6).attr('width', 18).attr('height', 12).attr('fill', 'none').attr('stroke', '#333333').attr('stroke-dasharray', '3,2');
+  },
   fixed: (s: Sel) => s.append('path').attr('d', 'M0,0H18').attr('stroke', MAP_COLOURS.fixed).attr('stroke-width', MAP_STYLE.fixed.width),
   unordered: (s: Sel) => s.append('rect').attr('x', 0).attr('y', -6).attr('width', 18).attr('height', 12).attr('fill', MAP_COLOURS.invalid).attr('stroke', '#999999'),
 };
@@ -419,24 +554,42 @@ export const MAP_SWATCHES = {
 /** The legend entries of the marks present. */
 export function markLegendItems(marks: MapMark[]): MapLegendItem[] {
   const items: MapLegendItem[] = [];
-  if (marks.some((k) => k.kind === 'window')) items.push({ draw: MAP_SWATCHES.window, text: 'practical window' });
+  if (marks.some((k) => k.kind === 'window')) items.push({ draw: MAP_SWATCHES.window, text: 'practical window (outline, hatched edges)' });
   if (marks.some((k) => k.kind === 'fixed')) items.push({ draw: MAP_SWATCHES.fixed, text: 'fixed absorber' });
   return items;
 }
 
-/** Legend entries in rows, wrapped within `span` px. */
-export function drawMapLegend(lg: Sel, items: MapLegendItem[], span: number): void {
+/** Height of one map legend row [px]. */
+export const MAP_LEGEND_ROW = 18;
+
+/** Where each legend entry goes when wrapped within `span` px: its offset and row. */
+function legendLayout(items: MapLegendItem[], span: number): { x: number; row: number }[] {
   let lx = 0;
-  let ly = 0;
-  for (const it of items) {
-    const width = 40 + it.text.length * 7;
+  let row = 0;
+  return items.map((it) => {
+    const width = 40 + textWidthPx(it.text, { size: 11 });
     if (lx > 0 && lx + width > span) {
       lx = 0;
-      ly += 18;
+      row++;
     }
-    const item = lg.append('g').attr('transform', `translate(${num(lx, 1)},${ly})`);
+    const at = { x: lx, row };
+    lx += width;
+    return at;
+  });
+}
+
+/** Rows a map legend takes within `span` px. */
+export function mapLegendRows(items: MapLegendItem[], span: number): number {
+  const l = legendLayout(items, span);
+  return l.length === 0 ? 0 : l[l.length - 1].row + 1;
+}
+
+/** Legend entries in rows, wrapped within `span` px. */
+export function drawMapLegend(lg: Sel, items: MapLegendItem[], span: number): void {
+  const at = legendLayout(items, span);
+  items.forEach((it, k) => {
+    const item = lg.append('g').attr('transform', `translate(${num(at[k].x, 1)},${at[k].row * MAP_LEGEND_ROW})`);
     it.draw(item);
     item.append('text').attr('x', 24).attr('y', 4).attr('font-size', 11).text(it.text);
-    lx += width;
-  }
+  });
 }
