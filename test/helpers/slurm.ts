@@ -6,9 +6,9 @@
  * by their pids. Where the machine cannot run Slurm, `start` returns the reason.
  */
 import { spawnSync } from 'node:child_process';
-import { chmodSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { chmodSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 
 export interface SlurmCluster {
@@ -85,6 +85,15 @@ async function waitFor(check: () => boolean, ms: number): Promise<boolean> {
   return check();
 }
 
+/** munged refuses a socket whose folders are not searchable by all: use TMPDIR only when every ancestor is. */
+function reachableTmp(): string {
+  const base = tmpdir();
+  for (let d = base; d !== dirname(d); d = dirname(d)) {
+    if ((statSync(d).mode & 0o001) === 0) return '/tmp';
+  }
+  return base;
+}
+
 /** Start munged, slurmctld and slurmd for one node; a reason string when this machine cannot. */
 export async function startSlurm(): Promise<SlurmCluster | string> {
   if (process.platform !== 'linux') return `Slurm needs Linux (this is ${process.platform})`;
@@ -92,7 +101,7 @@ export async function startSlurm(): Promise<SlurmCluster | string> {
   const missing = ensureInstalled();
   if (missing) return missing;
 
-  const dir = mkdtempSync(join(tmpdir(), 'gapstack-slurm-'));
+  const dir = mkdtempSync(join(reachableTmp(), 'gapstack-slurm-'));
   chmodSync(dir, 0o755);
   for (const d of ['munge', 'state', 'spool', 'log']) mkdirSync(join(dir, d), { recursive: true });
   const key = join(dir, 'munge', 'munge.key');
