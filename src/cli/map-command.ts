@@ -13,6 +13,8 @@ import { parseNumber, parseNumberList, parseRange, stackFromArgs, type StackArgs
 import { cellsFromArgs, constraintsFromArgs, familyIndices, requireMeasuredFixed, spanFromArgs, type ConstraintArgs } from './search-options.js';
 import { spectraFromArgs, type SpectraArgs, CLI_EXTEND_HINT } from './spectra-options.js';
 import { finiteJson } from './guards.js';
+import { toolVersion } from '../io/version.js';
+import { createHash } from 'node:crypto';
 import { coverageWarnings } from '../light/coverage.js';
 import { assertNotAnInput, forgetInputs } from '../io/inputs.js';
 
@@ -104,7 +106,15 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   // The lowest gap the map uses: its axes' low ends, fixed gaps, and the span where other subcells are maximised.
   const lowestGapEv = Math.min(x0, y0, ...fixed.filter((g): g is number => g !== undefined), ...(free.length > 0 ? [spanFromArgs(a.span)[0]] : []));
   const warnings = members.length === 1 ? coverageWarnings(members[0].spectrum, lowestGapEv, CLI_EXTEND_HINT) : [];
-  const csv = () => withCsvWarnings(mapToCsvBytes(m, free), warnings);
+  const metaLines = [
+    `tool: gapstack ${toolVersion()}`,
+    `wiring: ${spec.wiring.label}; subcells: ${cells}; cell temperature: ${spec.tempK} K; coupling: ${meta.coupling}`,
+    ...(members.length <= 3
+      ? members.map((s) => `light: ${s.label}, P_in ${round(s.spectrum.pinWm2)} W/m², SHA-256 ${s.spectrum.sha256}`)
+      : [`light: ensemble of ${members.length} spectra, SHA-256 of their SHA-256s in order ${createHash('sha256').update(members.map((s) => s.spectrum.sha256).join('\n')).digest('hex')}`]),
+    'units: gaps [eV], efficiency [%]',
+  ];
+  const csv = () => withCsvWarnings(mapToCsvBytes(m, free, metaLines), warnings);
   if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, { ...meta, warnings })) : csv(), '--out');
   const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
   const summary = {

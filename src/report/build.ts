@@ -15,6 +15,7 @@ import { computeReport, type ReportData, type StageReporter } from './compute.js
 import { compareColourRange } from './charts/compare-chart.js';
 import { sharedColourDomain, type ColourDomain } from './charts/map-layers.js';
 import { apeChart, colourScaleWords, compareChart, detailCharts, figureMeta, mapChart, r6, r8, wiringComparisonJson, type Chart } from './figure-data.js';
+import { toMaCm2 } from '../physics/constants.js';
 import {
   answerRows,
   assumptionList,
@@ -114,9 +115,9 @@ function summaryJson(data: ReportData, version: string, generated: string): Reco
         tolerance: r.tolerance.intervals.map((t) => ({ subcell: t.subcell + 1, low_ev: r6(t.lowEv), high_ev: r6(t.highEv), open_low: t.openLow, open_high: t.openHigh })),
         threshold: r8(r.tolerance.threshold),
         stack_voc_v: o.detail.stackVocV === null ? null : r8(o.detail.stackVocV),
-        stack_jsc_ma_cm2: o.detail.stackJscAm2 === null ? null : r8(o.detail.stackJscAm2 / 10),
+        stack_jsc_ma_cm2: o.detail.stackJscAm2 === null ? null : r8(toMaCm2(o.detail.stackJscAm2)),
         stack_ff: o.stackFf === null ? null : r8(o.stackFf),
-        subcells: o.detail.subcells.map((c, i) => ({ subcell: i + 1, gap_ev: r6(c.gapEv), jgen_ma_cm2: r8(c.jgenAm2 / 10), jph_ma_cm2: r8(c.jphAm2 / 10), voc_v: r8(c.vocV), ff: r8(c.ff), v_op_v: r8(c.vOpV), j_op_ma_cm2: r8(c.jOpAm2 / 10) })),
+        subcells: o.detail.subcells.map((c, i) => ({ subcell: i + 1, gap_ev: r6(c.gapEv), jgen_ma_cm2: r8(toMaCm2(c.jgenAm2)), jph_ma_cm2: r8(toMaCm2(c.jphAm2)), voc_v: r8(c.vocV), ff: r8(c.ff), v_op_v: r8(c.vOpV), j_op_ma_cm2: r8(toMaCm2(c.jOpAm2)) })),
         basins: r.basins.map((b) => ({ gaps_ev: b.gapsEv.map(r6), efficiency: r8(b.value) })),
         warnings: [...o.search.warnings, ...o.maps.flatMap((m) => m.warnings)],
         maps: o.maps.map((m) => ({ x_subcell: m.pair.xCell + 1, y_subcell: m.pair.yCell + 1, optimum: { x_ev: r6(m.optimum.x), y_ev: r6(m.optimum.y) } })),

@@ -5,7 +5,7 @@
  * through here, so a figure is the same wherever it appears.
  */
 import type { Design } from '../design/index.js';
-import { HC_EV_NM } from '../physics/constants.js';
+import { HC_EV_NM, toMaCm2 } from '../physics/constants.js';
 import type { GapMap } from '../search/map.js';
 import { toolVersion } from './version.js';
 import type { MapOutcome, ReportData, WiringOutcome } from './compute.js';
@@ -127,7 +127,7 @@ export function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome, doma
     map_maximum: { x_ev: mm.best.x, y_ev: mm.best.y, efficiency_percent: p6(mm.best.value) },
     tolerance_threshold_percent: p6(m.threshold),
     colour_range_percent: { low: r6(domain.lo), high: r6(domain.hi), below_low: 'drawn in the under-range grey' },
-    current_matching_ma_cm2: m.matching ? Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN((m.matching as Float64Array)[iy * nx + ix]) ? null : r6((m.matching as Float64Array)[iy * nx + ix] / 10)))) : null,
+    current_matching_ma_cm2: m.matching ? Array.from({ length: ny }, (_, iy) => Array.from({ length: nx }, (_, ix) => (Number.isNaN((m.matching as Float64Array)[iy * nx + ix]) ? null : r6(toMaCm2((m.matching as Float64Array)[iy * nx + ix]))))) : null,
     current_matching_convention: m.matching ? 'J_gen of the upper mapped subcell minus J_gen of the lower [mA/cm²]; the locus is where it is zero' : null,
     marks: m.marks.map((k) => ({ axis: k.axis, subcell: k.subcell + 1, kind: k.kind, lo_ev: r6(k.loEv), hi_ev: r6(k.hiEv), label: k.label })),
     step_ev: m.stepEv,
@@ -156,7 +156,7 @@ export function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Ch
       sha256: ref.spectrum.sha256,
       gaps_ev: gaps.map(r6),
       band_edges_nm: gaps.map((g) => r6(HC_EV_NM / g)),
-      jgen_ma_cm2: jgen.map((j) => r6(j / 10)),
+      jgen_ma_cm2: jgen.map((j) => r6(toMaCm2(j))),
       subcell_convention: 'subcell 0 means not absorbed by any subcell (step absorbers)',
       wavelength_nm: sd.wavelengthNm,
       irradiance_w_m2_nm: sd.irradiance,
@@ -167,16 +167,16 @@ export function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Ch
   };
   const jvRows: string[] = ['curve,voltage_v,current_ma_cm2'];
   const curves = o.jv.stack ? [...o.jv.subcells, o.jv.stack] : o.jv.subcells;
-  curves.forEach((c, k) => c.voltageV.forEach((v, i) => jvRows.push(`${k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack'},${r8(v)},${r8(c.currentAm2[i] / 10)}`)));
+  curves.forEach((c, k) => c.voltageV.forEach((v, i) => jvRows.push(`${k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack'},${r8(v)},${r8(toMaCm2(c.currentAm2[i]))}`)));
   const jv: Chart = {
     name: `jv-${slug}`,
     svg: jvChartSvg({ id: `jv-${slug}`, jv: o.jv, wiringLabel: wiringTitle(o.wiring.key) }),
     csv: `${jvRows.join('\n')}\n`,
     json: {
       wiring: o.wiring.key,
-      curves: curves.map((c, k) => ({ curve: k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack', voltage_v: c.voltageV.map(r8), current_ma_cm2: c.currentAm2.map((j) => r8(j / 10)) })),
-      operating_points: o.jv.operating.map((p, i) => ({ subcell: i + 1, voltage_v: r8(p.vV), current_ma_cm2: r8(p.jAm2 / 10) })),
-      stack_mpp: o.jv.stackMpp ? { voltage_v: r8(o.jv.stackMpp.vV), current_ma_cm2: r8(o.jv.stackMpp.jAm2 / 10) } : null,
+      curves: curves.map((c, k) => ({ curve: k < o.jv.subcells.length ? `subcell ${k + 1}` : 'stack', voltage_v: c.voltageV.map(r8), current_ma_cm2: c.currentAm2.map((j) => r8(toMaCm2(j))) })),
+      operating_points: o.jv.operating.map((p, i) => ({ subcell: i + 1, voltage_v: r8(p.vV), current_ma_cm2: r8(toMaCm2(p.jAm2)) })),
+      stack_mpp: o.jv.stackMpp ? { voltage_v: r8(o.jv.stackMpp.vV), current_ma_cm2: r8(toMaCm2(o.jv.stackMpp.jAm2)) } : null,
       spectrum: ref.spectrum.name,
       caution: CAUTION,
     },

@@ -1,12 +1,2 @@
-/** The tool's version, read once from package.json (no heavy imports: the engine commands use it for file headers). */
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
-
-const PACKAGE_JSON = fileURLToPath(new URL('../../package.json', import.meta.url));
-let version: string | undefined;
-
-/** The tool's version from package.json. */
-export function toolVersion(): string {
-  version ??= (JSON.parse(readFileSync(PACKAGE_JSON, 'utf8')) as { version: string }).version;
-  return version;
-}
+/** The tool's version, as every figure file states it (one reader, in io/). */
+export { toolVersion } from '../io/version.js';

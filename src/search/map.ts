@@ -151,30 +151,35 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   return { x, y, xCell, yCell, values, profileGaps, profile: free.length > 0, best };
 }
 
+const MAP_TITLE = '# gapstack map: detailed-balance efficiency [%] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions';
+
+/** The title line, then `# ` metadata lines (wiring, light, temperature, version…), then the column names. */
+function mapCsvHead(m: GapMap, freeCells: number[], metaLines: readonly string[]): string {
+  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency_percent'];
+  return [MAP_TITLE, ...metaLines.map((l) => `# ${l}`), head.join(',')].join('\n');
+}
+
 /**
- * CSV text of a map: one row per pixel, gaps [eV] and efficiency [-]. The
- * plain form, kept as the definition of the format; commands write
- * mapToCsvBytes, which gives the same bytes faster.
+ * CSV text of a map: one row per pixel, gaps [eV] and efficiency [%] to six
+ * decimals, after a title and the caller's metadata lines. The plain form,
+ * kept as the definition of the format; commands write mapToCsvBytes, which
+ * gives the same bytes faster.
  */
-export function mapToCsv(m: GapMap, freeCells: number[] = []): string {
-  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
-  const lines = [
-    '# gapstack map: detailed-balance efficiency [-] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions',
-    head.join(','),
-  ];
+export function mapToCsv(m: GapMap, freeCells: number[] = [], metaLines: readonly string[] = []): string {
+  const lines = [mapCsvHead(m, freeCells, metaLines)];
   const nx = m.x.length;
   for (let iy = 0; iy < m.y.length; iy++) {
     for (let ix = 0; ix < nx; ix++) {
       const v = m.values[iy * nx + ix];
       if (Number.isNaN(v)) continue;
       const extra = m.profileGaps.map((g) => g[iy * nx + ix].toFixed(5));
-      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, v.toFixed(8)].join(','));
+      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, (v * 100).toFixed(DIGITS)].join(','));
     }
   }
   return `${lines.join('\n')}\n`;
 }
 
-const DIGITS = 8;
+const DIGITS = 6;
 const SCALE = 10 ** DIGITS;
 
 /** ASCII bytes of each axis value as toFixed(5), formatted once per axis rather than once per pixel. */
@@ -183,12 +188,12 @@ function fixedAxis(values: ArrayLike<number>): Buffer[] {
 }
 
 /**
- * Write v.toFixed(8) at buf[pos] and return the new position. For 0 < v < 1e7
- * the nearest integer to v·1e8 is found by rounding the product, whose error
- * (below 2e-8) cannot change it unless v·1e8 lies within 1e-6 of a half,
+ * Write v.toFixed(6) at buf[pos] and return the new position. For 0 < v < 1e7
+ * the nearest integer to v·1e6 is found by rounding the product, whose error
+ * (below 2e-6) cannot change it unless v·1e6 lies within 1e-6 of a half,
  * where toFixed itself decides; other values go through toFixed too.
  */
-function writeFixed8(buf: Buffer, pos: number, v: number): number {
+function writeFixed6(buf: Buffer, pos: number, v: number): number {
   const scaled = v * SCALE;
   const frac = scaled - Math.floor(scaled);
   if (!(v > 0 && v < 1e7) || Math.abs(frac - 0.5) < 1e-6) return pos + buf.write(v.toFixed(DIGITS), pos, 'latin1');
@@ -214,18 +219,14 @@ function writeFixed8(buf: Buffer, pos: number, v: number): number {
 }
 
 /** mapToCsv as bytes, for writing large maps: the same bytes, without a string per cell. */
-export function mapToCsvBytes(m: GapMap, freeCells: number[] = []): Uint8Array {
-  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency'];
-  const preamble = Buffer.from(
-    `# gapstack map: detailed-balance efficiency [-] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions\n${head.join(',')}`,
-    'utf8',
-  );
+export function mapToCsvBytes(m: GapMap, freeCells: number[] = [], metaLines: readonly string[] = []): Uint8Array {
+  const preamble = Buffer.from(mapCsvHead(m, freeCells, metaLines), 'utf8');
   const nx = m.x.length;
   const xs = fixedAxis(m.x);
   const ys = fixedAxis(m.y);
   let count = 0;
   for (let k = 0; k < m.values.length; k++) if (!Number.isNaN(m.values[k])) count++;
-  // Room for every line: the widest x and y, each profile gap as toFixed(5) of up to 1e6, the value up to 1e7.
+  // Room for every line: the widest x and y, each profile gap as toFixed(5) of up to 1e6, the value up to 1e7 (percent).
   const widest = (a: Buffer[]) => a.reduce((w, b) => Math.max(w, b.length), 0);
   const perLine = widest(xs) + widest(ys) + m.profileGaps.length * 16 + 20 + 4 + m.profileGaps.length;
   const buf = Buffer.allocUnsafe(preamble.length + count * perLine + 2);
@@ -245,7 +246,7 @@ export function mapToCsvBytes(m: GapMap, freeCells: number[] = []): Uint8Array {
         pos += buf.write(g[k].toFixed(5), pos, 'latin1');
         buf[pos++] = 44;
       }
-      pos = writeFixed8(buf, pos, v);
+      pos = writeFixed6(buf, pos, v * 100);
     }
   }
   buf[pos++] = 10;

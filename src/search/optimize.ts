@@ -314,7 +314,7 @@ export async function searchGapsParallel(
  * enumeration on every other axis point, itself seeded the same way. Its
  * points lie on the finer axis, so the finer pass always meets or beats it.
  */
-export function coarseIncumbent(obj: StepObjective, axis: Float64Array, ranges: [number, number][]): number {
+function coarseIncumbent(obj: StepObjective, axis: Float64Array, ranges: [number, number][]): number {
   if (axis.length < 48) return 0;
   const coarseAxis = Float64Array.from({ length: Math.ceil(axis.length / 2) }, (_, k) => axis[2 * k]);
   const coarseRanges = ranges.map(([a, b]): [number, number] => [Math.ceil(a / 2), Math.floor(b / 2)]);
@@ -378,7 +378,7 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
 }
 
 /** Slice intervals of the tolerance region: each free gap moved alone, others at the optimum. */
-export function toleranceIntervals(value: (g: number[]) => number, best: Basin, bounds: [number, number][], loss: number): ToleranceRegion {
+function toleranceIntervals(value: (g: number[]) => number, best: Basin, bounds: [number, number][], loss: number): ToleranceRegion {
   const threshold = best.value * (1 - loss);
   const intervals: ToleranceInterval[] = [];
   best.gapsEv.forEach((g0, i) => {

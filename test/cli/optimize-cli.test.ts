@@ -71,10 +71,19 @@ describe('gapstack map', () => {
     const all = readFileSync(out, 'utf8').trim().split('\n');
     expect(all[0]).toMatch(/^# .*theoretical limits/);
     const lines = all.filter((l) => !l.startsWith('#'));
-    expect(lines[0]).toBe('gap1_ev,gap2_ev,efficiency');
+    expect(lines[0]).toBe('gap1_ev,gap2_ev,efficiency_percent');
     expect(lines.length - 1).toBe(summary.points);
+    // The header says what the numbers are: tool, wiring, temperature, light with its hash, units.
+    const comments = all.filter((l) => l.startsWith('#')).join('\n');
+    expect(comments).toMatch(/# tool: gapstack \d+\.\d+\.\d+/);
+    expect(comments).toContain('# wiring: series; subcells: 2; cell temperature: 300 K');
+    expect(comments).toMatch(/# light: .*SHA-256 [0-9a-f]{64}/);
+    expect(comments).toContain('efficiency [%]');
     const e = await runJsonHere(['evaluate', '--gaps', `${summary.best.x_ev},${summary.best.y_ev}`]);
     expect(e.efficiency).toBeCloseTo(summary.best.efficiency, 9);
+    // Efficiencies in the file are in percent: the largest row is the best point, ×100.
+    const largest = Math.max(...lines.slice(1).map((l) => Number(l.split(',')[2])));
+    expect(largest).toBeCloseTo(summary.best.efficiency * 100, 5);
   });
 
   test('writes JSON rows with nulls below the diagonal', async () => {
@@ -151,7 +160,7 @@ describe('profile maps', () => {
     expect(s.profile).toBe(true);
     expect(Math.abs(s.best.efficiency - 0.5162)).toBeLessThan(3e-4);
     const [head, first] = readFileSync(out, 'utf8').split('\n').filter((l) => !l.startsWith('#'));
-    expect(head).toBe('gap1_ev,gap2_ev,gap3_ev_profile,efficiency');
+    expect(head).toBe('gap1_ev,gap2_ev,gap3_ev_profile,efficiency_percent');
     const bottom = Number(first.split(',')[2]);
     expect(bottom).toBeGreaterThan(0.5);
     expect(bottom).toBeLessThan(1.33);

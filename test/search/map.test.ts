@@ -31,7 +31,7 @@ describe('efficiency maps', () => {
     const csv = mapToCsv(m);
     const lines = csv.trim().split('\n');
     expect(lines[0]).toMatch(/^# .*not device predictions/);
-    expect(lines[1]).toBe('gap1_ev,gap2_ev,efficiency');
+    expect(lines[1]).toBe('gap1_ev,gap2_ev,efficiency_percent');
     expect(lines).toHaveLength(2 + 3);
   });
 

@@ -4,7 +4,7 @@
  * step absorbers); what no subcell takes is left grey.
  */
 import type { Spectrum } from '../../light/spectrum.js';
-import { HC_EV_NM } from '../../physics/constants.js';
+import { HC_EV_NM, toMaCm2 } from '../../physics/constants.js';
 import { buildSvg, linePath, num, svgText } from '../svg.js';
 import { drawFrame, FRAME_MARGIN, LEGEND_ROW, legendRows, subcellColour, type LegendItem, shortLabel } from './frame.js';
 
@@ -55,8 +55,8 @@ export function spectrumChartSvg(inp: SpectrumChartInput): string {
   const legend: LegendItem[] = inp.labels.map((l, i) => ({
     colour: subcellColour(i, n),
     kind: 'area' as const,
-    text: `${i + 1}: ${shortLabel(l)}, ${num(inp.gapsEv[i], 3)} eV, J_gen ${num(inp.jgenAm2[i] / 10, 2)} mA/cm²`,
-    full: `${i + 1}: ${l}, ${num(inp.gapsEv[i], 3)} eV, J_gen ${num(inp.jgenAm2[i] / 10, 2)} mA/cm²`,
+    text: `${i + 1}: ${shortLabel(l)}, ${num(inp.gapsEv[i], 3)} eV, J_gen ${num(toMaCm2(inp.jgenAm2[i]), 2)} mA/cm²`,
+    full: `${i + 1}: ${l}, ${num(inp.gapsEv[i], 3)} eV, J_gen ${num(toMaCm2(inp.jgenAm2[i]), 2)} mA/cm²`,
   }));
   legend.push({ colour: '#c8c8c8', kind: 'area', text: 'not absorbed' });
   const plotW = SPECTRUM_WIDTH - FRAME_MARGIN.left - FRAME_MARGIN.right;
