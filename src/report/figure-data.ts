@@ -6,7 +6,7 @@
  */
 import type { Design } from '../design/index.js';
 import { HC_EV_NM, toMaCm2 } from '../physics/constants.js';
-import type { GapMap } from '../search/map.js';
+import { mapToCsv, type GapMap } from '../search/map.js';
 import { toolVersion } from './version.js';
 import type { MapOutcome, ReportData, WiringOutcome } from './compute.js';
 import { mapChartSvg } from './charts/map-chart.js';
@@ -78,22 +78,6 @@ export function gapAxisTitle(design: Design, i: number): string {
   return [...full].length <= AXIS_TITLE_CHARS ? full : `gap of subcell ${i + 1} [eV]`;
 }
 
-/** A map's data for people: one row per pixel, gaps [eV] and efficiency [%] (the figure's metadata block goes above it). */
-export function mapCsvPercent(m: GapMap, freeCells: number[]): string {
-  const head = [`gap${m.xCell + 1}_ev`, `gap${m.yCell + 1}_ev`, ...freeCells.map((i) => `gap${i + 1}_ev_profile`), 'efficiency_percent'];
-  const lines = ['# gapstack map: detailed-balance efficiency [%] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions', head.join(',')];
-  const nx = m.x.length;
-  for (let iy = 0; iy < m.y.length; iy++) {
-    for (let ix = 0; ix < nx; ix++) {
-      const v = m.values[iy * nx + ix];
-      if (Number.isNaN(v)) continue;
-      const extra = m.profileGaps.map((g) => g[iy * nx + ix].toFixed(5));
-      lines.push([m.x[ix].toFixed(5), m.y[iy].toFixed(5), ...extra, (v * 100).toFixed(6)].join(','));
-    }
-  }
-  return `${lines.join('\n')}\n`;
-}
-
 export function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome, domain: ColourDomain, size?: { width: number; height: number }): { chart: Chart; grid: string; id: string; gridId: string } {
   const d = data.design;
   const id = `map-${o.wiring.slug}-${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
@@ -134,7 +118,7 @@ export function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome, doma
     caution: CAUTION,
   };
   const meta = figureMeta(data, o.wiring.key, { gaps: 'eV', efficiency_percent: '%', current_matching_ma_cm2: 'mA/cm²' });
-  return { chart: { name: id, svg, csv: mapCsvPercent(mm, m.profiled), json, meta }, grid, id, gridId };
+  return { chart: { name: id, svg, csv: mapToCsv(mm, m.profiled), json, meta }, grid, id, gridId };
 }
 
 export function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv: Chart; sensitivity: Chart } {
