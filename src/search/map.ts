@@ -78,7 +78,10 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
     const qn = new Float64Array(2);
     const j0 = new Float64Array(2);
     const a = so.options.topAbsorptance as number;
+    // Each spectrum's series solve starts from its neighbour's root along a row.
+    const warm = spectra.map(() => new Float64Array(1));
     for (let iy = 0; iy < ny; iy++) {
+      for (const w of warm) w[0] = NaN;
       for (let ix = 0; ix < nx; ix++) {
         if (!(y[iy] < x[ix])) continue;
         let p = 0;
@@ -88,7 +91,7 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
           qn[1] = t.qy[iy];
           j0[0] = t.jx[ix];
           j0[1] = t.jy[iy];
-          p += spectra[k].weight * so.powerFromTables(k, qn, j0, a);
+          p += spectra[k].weight * so.powerFromTables(k, qn, j0, a, warm[k]);
         }
         note(ix, iy, p / so.incidentPowerWm2);
       }
@@ -183,8 +186,14 @@ const DIGITS = 6;
 const SCALE = 10 ** DIGITS;
 
 /** ASCII bytes of each axis value as toFixed(5), formatted once per axis rather than once per pixel. */
-function fixedAxis(values: ArrayLike<number>): Buffer[] {
+function fixedAxis(values: ArrayLike<number>): Uint8Array[] {
   return Array.from(values as ArrayLike<number>, (v) => Buffer.from(v.toFixed(5), 'latin1'));
+}
+
+/** Copy a few bytes by hand: Buffer#copy is a native call, slower than a loop for a dozen bytes. */
+function put(buf: Uint8Array, pos: number, bytes: Uint8Array): number {
+  for (let i = 0; i < bytes.length; i++) buf[pos + i] = bytes[i];
+  return pos + bytes.length;
 }
 
 /**
@@ -200,16 +209,14 @@ function writeFixed6(buf: Buffer, pos: number, v: number): number {
   const n = Math.round(scaled);
   let int = Math.floor(n / SCALE);
   let fr = n - int * SCALE;
-  // Integer part.
-  if (int === 0) buf[pos++] = 48;
-  else {
-    const start = pos;
-    while (int > 0) {
-      buf[pos++] = 48 + (int % 10);
-      int = Math.floor(int / 10);
-    }
-    buf.subarray(start, pos).reverse();
+  // Integer part: count its digits, then write them from the last.
+  let digits = 1;
+  for (let t = int; t >= 10; t = Math.floor(t / 10)) digits++;
+  for (let d = digits - 1; d >= 0; d--) {
+    buf[pos + d] = 48 + (int % 10);
+    int = Math.floor(int / 10);
   }
+  pos += digits;
   buf[pos++] = 46;
   for (let d = DIGITS - 1; d >= 0; d--) {
     buf[pos + d] = 48 + (fr % 10);
@@ -227,10 +234,10 @@ export function mapToCsvBytes(m: GapMap, freeCells: number[] = [], metaLines: re
   let count = 0;
   for (let k = 0; k < m.values.length; k++) if (!Number.isNaN(m.values[k])) count++;
   // Room for every line: the widest x and y, each profile gap as toFixed(5) of up to 1e6, the value up to 1e7 (percent).
-  const widest = (a: Buffer[]) => a.reduce((w, b) => Math.max(w, b.length), 0);
+  const widest = (a: Uint8Array[]) => a.reduce((w, b) => Math.max(w, b.length), 0);
   const perLine = widest(xs) + widest(ys) + m.profileGaps.length * 16 + 20 + 4 + m.profileGaps.length;
   const buf = Buffer.allocUnsafe(preamble.length + count * perLine + 2);
-  let pos = preamble.copy(buf, 0);
+  let pos = put(buf, 0, preamble);
   for (let iy = 0; iy < m.y.length; iy++) {
     const yb = ys[iy];
     for (let ix = 0; ix < nx; ix++) {
@@ -238,9 +245,9 @@ export function mapToCsvBytes(m: GapMap, freeCells: number[] = [], metaLines: re
       const v = m.values[k];
       if (Number.isNaN(v)) continue;
       buf[pos++] = 10;
-      pos += xs[ix].copy(buf, pos);
+      pos = put(buf, pos, xs[ix]);
       buf[pos++] = 44;
-      pos += yb.copy(buf, pos);
+      pos = put(buf, pos, yb);
       buf[pos++] = 44;
       for (const g of m.profileGaps) {
         pos += buf.write(g[k].toFixed(5), pos, 'latin1');

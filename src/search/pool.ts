@@ -20,7 +20,7 @@ export interface EnumerationTask {
 
 /** Run enumeration tasks on a pool of `threads` workers; progress is the share of tasks done. */
 export async function runEnumerationTasks(tasks: EnumerationTask[], threads: number, progress?: (f: number) => void): Promise<EnumerationResult[]> {
-  const pool = new Piscina({ filename: fileURLToPath(new URL('./enumerate-worker.js', import.meta.url)), minThreads: threads, maxThreads: threads, idleTimeout: 50 });
+  const pool = new Piscina({ filename: fileURLToPath(new URL('../search/enumerate-worker.js', import.meta.url)), minThreads: threads, maxThreads: threads, idleTimeout: 50 });
   let done = 0;
   try {
     return await Promise.all(

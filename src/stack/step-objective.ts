@@ -36,8 +36,15 @@ export interface StepObjectiveOptions {
  * where dP/dJ is concave and increasing: started left of its root (u = J_max/(S+1),
  * S = Σ ln(1 + J_ph/J0), below the optimum's u ≈ J/S) it converges monotonically,
  * in about five steps, to |Δy| < 1e-13 (relative current error far below 1e-12).
+ *
+ * `warm` (one slot) carries y from one call to the next when neighbouring
+ * stacks are solved in turn (a map row): a finite warm[0] below y_max starts
+ * Newton there. Right of the root, the first step lands left of it (the
+ * tangent of a concave increasing function lies above it), and monotone
+ * convergence follows, so the answer is the same root to the same tolerance,
+ * reached in two or three steps instead of five.
  */
-export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number): number {
+export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number, warm?: Float64Array): number {
   let jMax = Infinity;
   let s = 0;
   for (let i = 0; i < n; i++) {
@@ -46,7 +53,7 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
   }
   if (!(jMax > 0) || !(s > 0)) return 0;
   const yMax = Math.log(jMax);
-  let y = yMax - Math.log(s + 1);
+  let y = warm !== undefined && warm[0] < yMax ? warm[0] : yMax - Math.log(s + 1);
   let j = 0;
   for (let it = 0; it < 100; it++) {
     const t = Math.exp(y);
@@ -71,6 +78,7 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
     }
     y = next;
   }
+  if (warm !== undefined) warm[0] = y;
   j = jMax - Math.exp(y);
   if (!(j > 0)) return 0;
   let sum = 0;
@@ -130,8 +138,11 @@ export class StepObjective implements GapObjective {
     this.j0Cache = new Float64Array(opts.cells * this.temps.length);
   }
 
-  /** Power [W/m²] from photons-above values q·N(E_i) [A/m²] and radiative J0 [A/m²] of each cell, under spectrum k. */
-  powerFromTables(k: number, qn: ArrayLike<number>, j0rad: ArrayLike<number>, topA: number): number {
+  /**
+   * Power [W/m²] from photons-above values q·N(E_i) [A/m²] and radiative J0 [A/m²]
+   * of each cell, under spectrum k; `warm` as for seriesPowerWm2 (one per spectrum).
+   */
+  powerFromTables(k: number, qn: ArrayLike<number>, j0rad: ArrayLike<number>, topA: number, warm?: Float64Array): number {
     const n = this.cells;
     const jph = this.jph;
     const j0 = this.j0;
@@ -149,7 +160,7 @@ export class StepObjective implements GapObjective {
       j0[0] *= topA;
     }
     const vt = this.vt[k];
-    if (this.opts.wiring === 'series') return seriesPowerWm2(jph, j0, n, vt);
+    if (this.opts.wiring === 'series') return seriesPowerWm2(jph, j0, n, vt, warm);
     let p = 0;
     for (let i = 0; i < n; i++) p += singlePowerWm2(jph[i], j0[i], vt);
     return p;
