@@ -54,7 +54,8 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   if (a.figures !== undefined) assertNoInputInside(a.figures, '--figures');
   const { reportStageCount } = await import('../report/compute.js');
   // Long work shows where it is on a terminal: each scenario's and wiring's search and map, then the figures.
-  const stageCount = set.scenarios.reduce((n, d) => n + reportStageCount(d), 0) + (a.figures !== undefined ? 1 : 0);
+  const sitesDesign = !set.named && set.scenarios[0]?.sites ? set.scenarios[0] : null;
+  const stageCount = set.scenarios.reduce((n, d) => n + reportStageCount(d), 0) + (sitesDesign ? 1 : 0) + (a.figures !== undefined ? 1 : 0);
   const bar = a.json ? null : await startStagedProgress('report', stageCount);
   const stage = bar ? (name: string) => bar.stage(name) : undefined;
   let built: { html: string; charts: import('../report/build.js').Chart[]; summary: Record<string, unknown> };
@@ -67,6 +68,17 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
       const r = buildScenarioReport(set, { date: reportDate(), stage });
       built = r;
       outcomes = r.built.flatMap((b, k) => b.data.outcomes.map((o) => ({ label: `${set.scenarios[k].name}, ${o.wiring.key}`, o })));
+    } else if (sitesDesign) {
+      // Several sites: the answer under AM1.5G, then the batch over the sites in-process (the engine of gapstack sites), then the page.
+      const { buildReport } = await import('../report/build.js');
+      const { computeReport } = await import('../report/compute.js');
+      const { runDesignSites, sitesSection } = await import('../sites/report-section.js');
+      const data = computeReport(sitesDesign, stage);
+      const rows = await runDesignSites(sitesDesign, stage?.(`sites (${sitesDesign.sites?.files.length ?? 0} weather files)`));
+      const sites = await sitesSection(sitesDesign, rows, data.outcomes.map((o) => o.search.result.best.gapsEv));
+      const r = buildReport(sitesDesign, { date: reportDate(), data, sites });
+      built = r;
+      outcomes = r.data.outcomes.map((o) => ({ label: o.wiring.key, o }));
     } else {
       const { buildReport } = await import('../report/build.js');
       const r = buildReport(set.scenarios[0], { date: reportDate(), stage });
@@ -101,6 +113,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   const lines = [
     `Wrote ${output}${a.figures !== undefined ? ` and ${files.length} files in ${a.figures}` : ''} (${seconds.toFixed(2)} s).`,
     ...outcomes.map(({ label, o }) => `  ${label}: ${(o.search.result.best.value * 100).toFixed(3)} % at ${o.search.result.best.gapsEv.map((g) => g.toFixed(4)).join(' / ')} eV`),
+    ...(built.summary.sites ? [`  sites: ${(built.summary.sites as { rows: unknown[] }).rows.length} rows in the Sites section (and in summary.json with --figures)`] : []),
     ...outcomes.flatMap(({ label, o }) => o.search.warnings.map((w) => `Warning (${label}): ${w}`)),
     ...((built.summary.light_warnings as string[] | undefined) ?? []).map((w) => `Warning: ${w}`),
     CAUTION,

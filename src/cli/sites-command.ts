@@ -12,7 +12,7 @@ import { listWeatherFiles, runSites, type SitesRunSummary } from '../sites/run.j
 import { resolveShard, shardLabel, type ShardSource } from '../sites/shard.js';
 import { toolVersion } from '../io/version.js';
 import { startProgress } from './progress.js';
-import { parsePlane, planeKey } from '../sites/plane.js';
+import { parsePlane } from '../sites/plane.js';
 import { defaultStepEv } from '../search/optimize.js';
 import { siteOptionsFromArgs, type WeatherArgs } from './weather-options.js';
 import { checkWorkSize, searchStacks } from './work-size.js';
@@ -115,19 +115,9 @@ export async function sitesWeatherCommand(a: SitesWeatherArgs): Promise<string> 
   const openCells = design.subcells.filter((c) => c.constraint.kind !== 'fixed').length;
   const stacks = searchStacks(design.subcells.map((c) => c.constraint), design.spanEv, design.searchStepEv ?? defaultStepEv(openCells));
   checkWorkSize('batch (per site)', stacks * design.wirings.length, HOURS_IN_A_LEAP_YEAR + 1, Boolean(a.acceptLarge));
-  const { weatherSiteLight } = await import('../sites/weather-light.js');
+  const { siteLightHashOptions, weatherSiteLight } = await import('../sites/weather-light.js');
   // Every option that changes a number enters the question's hash, so parts of different planes or models never merge.
-  const hashed: Record<string, string | number | boolean | null> = {
-    plane: planeKey(plane),
-    tracking: model.tracking,
-    max_rotation_deg: model.maxRotationDeg ?? null,
-    albedo: model.albedo ?? null,
-    aod500: model.aod500 ?? null,
-    water_cm: model.waterCm ?? null,
-    ozone_atm_cm: model.ozoneAtmCm ?? null,
-    faiman: model.faiman ? `${model.faiman.u0},${model.faiman.u1}` : null,
-  };
-  return sitesCommand(a, weatherSiteLight(plane, model), hashed);
+  return sitesCommand(a, weatherSiteLight(plane, model), siteLightHashOptions(plane, model));
 }
 
 /** Merge the parts of every shard into one file, byte-identical to an unsharded run's part. */

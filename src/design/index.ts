@@ -8,7 +8,7 @@ import { parseDesignText, readDesignSource } from './source.js';
 import type { Design } from './types.js';
 import { UserError } from '../errors.js';
 
-export type { Design, DesignFile, DesignSubcell, DesignWiring, DesignMapPair, DesignLight, LabelledSpectrum } from './types.js';
+export type { Design, DesignFile, DesignSites, DesignSubcell, DesignWiring, DesignMapPair, DesignLight, LabelledSpectrum } from './types.js';
 export { DESIGN_SCHEMA_PATH, validateDesignData } from './schema.js';
 export { DESIGN_DEFAULTS, MAX_MAP_AXIS_POINTS, constraintRangeEv, resolveDesign } from './resolve.js';
 export { designError, fieldName, parseDesignText, readDesignSource, type DesignSource, type FieldPath } from './source.js';

@@ -10,6 +10,7 @@ import { ParameterError, UserError } from '../errors.js';
 import { powerWeight } from '../light/ensemble-weights.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
+import { listWeatherFiles } from '../light/weather/list.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
 import { familyFromEntry, gapAtTemperature, gapReach, getFamily, type AbsorberFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
@@ -17,7 +18,7 @@ import { isSeriesString, type Coupling, type StackSpec, type Wiring } from '../s
 import { parseWiring } from '../stack/wiring-text.js';
 import { designError, type DesignSource, type FieldPath } from './source.js';
 import { perInterface, subcellAbsorptance } from './films.js';
-import type { Design, DesignFile, DesignLight, DesignMapPair, DesignSubcell, DesignWiring, LabelledSpectrum, SpectrumEntry, SubcellEntry } from './types.js';
+import type { Design, DesignFile, DesignLight, DesignSites, DesignMapPair, DesignSubcell, DesignWiring, LabelledSpectrum, SpectrumEntry, SubcellEntry } from './types.js';
 
 /** Defaults a design file may leave out. */
 export const DESIGN_DEFAULTS = {
@@ -66,6 +67,35 @@ const isBuiltinLight = (s: string) => /^(am1\.?5[gd]$|am0$|blackbody:|bb:|clears
 
 function relativeTo(src: Located, p: string): string {
   return isAbsolute(p) ? p : resolve(dirname(src.path), p);
+}
+
+/**
+ * The sites of `sites:`: one light source only (the other sections answer
+ * under AM1.5G, the reference each site is compared with), every listed file
+ * or folder present, folders expanded to their weather files.
+ */
+function resolveSites(src: Located, f: DesignFile): DesignSites | undefined {
+  const s = f.sites;
+  if (s === undefined) return undefined;
+  const others = (['spectrum', 'ensemble', 'weather'] as const).filter((k) => f[k] !== undefined);
+  if (others.length > 0) {
+    throw designError(src, ['sites'], `give one light: spectrum, ensemble, weather or sites, not both sites and ${others.join(' and ')} (with sites the other sections answer under AM1.5G)`, true);
+  }
+  const tracking = s.tracking ?? 'none';
+  if (tracking === 'single-axis' && s.tilt !== 0) throw designError(src, ['sites', 'tilt'], `single-axis tracking turns about a horizontal axis: give tilt 0 (azimuth is the axis azimuth), got ${JSON.stringify(s.tilt)}`);
+  const files = s.files.flatMap((p, k) => at(src, ['sites', 'files', k], () => listWeatherFiles([relativeTo(src, p)])));
+  return {
+    files,
+    plane: { tilt: s.tilt, azimuth: s.azimuth },
+    model: {
+      tracking,
+      albedo: s.albedo,
+      aod500: s.aod500,
+      waterCm: s.water_cm,
+      ozoneAtmCm: s.ozone_atm_cm,
+      faiman: s.faiman ? { u0: s.faiman[0], u1: s.faiman[1] } : undefined,
+    },
+  };
 }
 
 async function resolveLight(src: Located, f: DesignFile, tempK: number, spanEv: [number, number]): Promise<{ light: DesignLight; spectra: LabelledSpectrum[] }> {
@@ -334,7 +364,7 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
         ...(rs[i] > 0 ? { rsOhmCm2: rs[i] } : {}),
         ...(c.refractiveIndex !== undefined ? { refractiveIndex: c.refractiveIndex } : {}),
         // Under an ensemble, a material-bound gap is stated at 300 K and moves with each member's cell temperature (docs/PHYSICS.md §10).
-        ...((f.ensemble !== undefined || f.weather !== undefined) && c.constraint.kind === 'material' ? { dEgDtEvPerK: c.constraint.family.dEgDtEvPerK } : {}),
+        ...((f.ensemble !== undefined || f.weather !== undefined || f.sites !== undefined) && c.constraint.kind === 'material' ? { dEgDtEvPerK: c.constraint.family.dEgDtEvPerK } : {}),
       })),
       tempK,
       frontReflectance: reflectance,
@@ -345,6 +375,7 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
     // A thinned top cell helps only a series string (current matching); other wirings keep it fully absorbing.
     wirings.push({ key, slug: key.replace(/:/g, '-'), wiring, template, freeTopAbsorptance: bestTop && series });
   });
+  const sites = resolveSites(src, f);
   const { light, spectra } = await resolveLight(src, f, tempK, span);
   const reference = spectra.reduce((best, s) => (s.weight * s.spectrum.pinWm2 > best.weight * best.spectrum.pinWm2 ? s : best), spectra[0]);
   return {
@@ -364,5 +395,6 @@ export async function resolveDesign(src: DesignSource, f: DesignFile): Promise<D
     loss: f.tolerance?.loss ?? DESIGN_DEFAULTS.loss,
     mapStepEv: f.map?.step,
     pairs: resolvePairs(src, f, cells, tempK, span),
+    ...(sites ? { sites } : {}),
   };
 }

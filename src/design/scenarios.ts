@@ -39,6 +39,7 @@ function scenarioSource(src: DesignSource, s: ScenarioEntry, k: number): DesignS
 export async function resolveScenarios(src: DesignSource, f: DesignFile): Promise<ScenarioSet> {
   const base = { name: f.name, description: f.description ?? '', path: src.path, sha256: src.sha256 };
   if (!f.scenarios) return { ...base, named: false, scenarios: [await resolveDesign(src, f)] };
+  if (f.sites !== undefined) throw new UserError(`${src.path}:${src.lineOf(['sites'], true) ?? '?'}: sites: does not go with scenarios; ask the sites question in a design file of its own`);
   const names = new Set<string>();
   const scenarios: Design[] = [];
   for (const [k, s] of f.scenarios.entries()) {

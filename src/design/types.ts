@@ -4,7 +4,7 @@
  */
 import type { EnsembleSummary } from '../light/ensemble.js';
 import type { Spectrum } from '../light/spectrum.js';
-import type { SiteYear } from '../light/site-year.js';
+import type { SiteLightOptions, SiteYear } from '../light/site-year.js';
 import type { SubcellConstraint } from '../search/design-search.js';
 import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
 import type { AbsorptanceModel, StackSpec, Wiring } from '../stack/model.js';
@@ -71,6 +71,21 @@ export interface DesignFile {
     file: string;
     tilt: number;
     azimuth: number;
+    tracking?: 'none' | 'single-axis';
+    albedo?: number;
+    aod500?: number;
+    water_cm?: number;
+    ozone_atm_cm?: number;
+    faiman?: [number, number];
+  };
+  /** The question asked at several sites, each under its weather file's hourly year on one plane; the report adds a Sites section. */
+  sites?: {
+    /** Weather files or folders of them, relative to the design file. */
+    files: string[];
+    /** Tilt [°] or "latitude" (each site's own). */
+    tilt: number | 'latitude';
+    /** Azimuth [°] east of north, or "equator". */
+    azimuth: number | 'equator';
     tracking?: 'none' | 'single-axis';
     albedo?: number;
     aod500?: number;
@@ -159,6 +174,16 @@ export interface DesignMapPair {
   yRangeEv?: [number, number];
 }
 
+/** The sites a design asks its question at (design files' `sites:`), resolved. */
+export interface DesignSites {
+  /** Weather files, folders expanded (their weather files in name order), paths usable from the working directory. */
+  files: string[];
+  /** Tilt [°] from horizontal, or each site's latitude; azimuth [°] east of north (180 = south), or facing the equator. */
+  plane: { tilt: number | 'latitude'; azimuth: number | 'equator' };
+  /** The light model at every site (as for a single weather file), without the plane. */
+  model: Omit<SiteLightOptions, 'tiltDeg' | 'azimuthDeg'>;
+}
+
 /** A validated, resolved design. */
 export interface Design {
   path: string;
@@ -180,4 +205,6 @@ export interface Design {
   /** Map step given in the file [eV], else undefined (chosen per map). */
   mapStepEv?: number;
   pairs: DesignMapPair[];
+  /** The sites of the Sites section, when the file has `sites:` (the light above is then AM1.5G, the reference). */
+  sites?: DesignSites;
 }

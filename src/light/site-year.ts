@@ -142,6 +142,21 @@ function checkOptions(o: SiteLightOptions): void {
   }
 }
 
+/**
+ * The assumptions of the hourly model that hold at every site (time stamps,
+ * spectra, plane of array, cell temperature, weights), as every output states
+ * them; the weather file and the plane are stated beside them.
+ */
+export function hourlyModelAssumptions(faiman: FaimanCoefficients = FAIMAN_DEFAULT): string[] {
+  return [
+    'time stamps read as hour-ending local standard time; sun (NREL SPA) at mid-interval; hours with the sun below the horizon there are skipped',
+    'spectra: SPECTRL2 clear-sky shapes (rural aerosol, 300–4000 nm) with direct scaled to the file\'s DNI and diffuse to its DHI (all-sky approximation: clouds change amounts, not shapes; real clouds blue-shift diffuse light); the file\'s broadband irradiance is placed in 300–4000 nm',
+    'plane of array: beam by the angle of incidence, sky diffuse by Hay & Davies (1980), ground isotropic',
+    `cell temperature: Faiman (Prog. Photovolt. 16 (2008) 307), T_c = T_air + G_poa/(U0 + U1·v), U0 ${faiman.u0} W/m²/K, U1 ${faiman.u1} W·s/m³/K`,
+    'weight: one hour per used hour (Σ w·P is energy in Wh/m²)',
+  ];
+}
+
 /** Read a weather file and build its hourly ensemble (see the module comment). */
 export function loadSiteYear(path: string, o: SiteLightOptions): SiteYear {
   return siteYearFromWeather(readWeatherFile(path), o);
@@ -304,11 +319,7 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
   const assumptions = [
     `weather: ${w.path} (${w.format.toUpperCase()}, SHA-256 ${w.sha256.slice(0, 16)}…), ${w.site.name}, ${w.site.latitudeDeg}°, ${w.site.longitudeDeg}°, ${w.site.elevationM} m, UTC${w.site.utcOffsetHours >= 0 ? '+' : ''}${w.site.utcOffsetHours}`,
     `plane: ${plane}`,
-    'time stamps read as hour-ending local standard time; sun (NREL SPA) at mid-interval; hours with the sun below the horizon there are skipped',
-    'spectra: SPECTRL2 clear-sky shapes (rural aerosol, 300–4000 nm) with direct scaled to the file\'s DNI and diffuse to its DHI (all-sky approximation: clouds change amounts, not shapes; real clouds blue-shift diffuse light); the file\'s broadband irradiance is placed in 300–4000 nm',
-    'plane of array: beam by the angle of incidence, sky diffuse by Hay & Davies (1980), ground isotropic',
-    `cell temperature: Faiman (Prog. Photovolt. 16 (2008) 307), T_c = T_air + G_poa/(U0 + U1·v), U0 ${faiman.u0} W/m²/K, U1 ${faiman.u1} W·s/m³/K`,
-    'weight: one hour per used hour (Σ w·P is energy in Wh/m²)',
+    ...hourlyModelAssumptions(faiman),
   ];
   const optionsKey = JSON.stringify({ ...o, faiman });
   const ensemble: Ensemble = {

@@ -5,6 +5,7 @@
  * everything has been built, so a failure leaves existing outputs as they were.
  */
 import { siteSection } from './site-section.js';
+import type { SitesSectionView } from './sites-view.js';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import Handlebars from 'handlebars';
@@ -153,7 +154,7 @@ export interface SharedScales {
 export const pairKey = (m: { pair: { xCell: number; yCell: number } }): string => `${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
 
 /** Build the report of a design: compute (or take `data` already computed), draw, format; `scales` sets maps' colour scales shared with other reports. */
-export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter; data?: ReportData; scales?: SharedScales }): BuiltReport {
+export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter; data?: ReportData; scales?: SharedScales; sites?: SitesSectionView }): BuiltReport {
   const data = opts.data ?? computeReport(design, opts.stage);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
@@ -220,6 +221,8 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
   const light = design.light;
   const site = light.kind === 'ensemble' && light.site && data.outcomes.length > 0 ? siteSection(light.site, data.outcomes[0].bestSpec, wiringTitle(data.outcomes[0].wiring.key)) : null;
   if (site) charts.push(...site.charts);
+  const sites = opts.sites ?? null;
+  if (sites) charts.push(...sites.charts);
   const warnings = [...(design.light.kind === 'ensemble' ? design.light.warnings : []), ...lightCoverageWarnings(data), ...data.outcomes.flatMap((o) => o.search.warnings.map((w) => `${wiringTitle(o.wiring.key).split(' (')[0]}: ${w}`))];
   const html = pageTemplate()({
     version,
@@ -234,6 +237,7 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
     caution: CAUTION,
     maps,
     comparison,
+    sites: sites ? { heading: sites.heading, intro: sites.intro, table: sites.table, mapSvg: sites.mapSvg, mapCaption: sites.mapCaption, reading: sites.reading, assumptions: sites.assumptions } : null,
     site: site ? { heading: site.heading, lines: site.lines, monthlySvg: site.monthlySvg, monthlyCaption: site.monthlyCaption, apeSvg: site.apeSvg, apeCaption: site.apeCaption, assumptions: light.kind === 'ensemble' && light.site ? light.site.assumptions : [] } : null,
     details,
     assumptions: assumptionList(data),
@@ -244,5 +248,6 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
   const withMeta = charts.map((c) => (c.meta ? c : { ...c, meta: figureMeta(data, null, { see: 'the column names and the JSON fields' }) }));
   const summary = summaryJson(data, version, generated);
   if (site) summary.site = site.summary;
+  if (sites) summary.sites = sites.summary;
   return { html, charts: withMeta, summary, data };
 }

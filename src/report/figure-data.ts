@@ -38,8 +38,10 @@ export interface Chart {
 export interface FigureMeta {
   tool: string;
   wiring: string | null;
-  light: { kind: 'spectrum' | 'ensemble'; name: string; sha256: string; irradiance_w_m2?: number; spectra?: number };
-  temperature_k: number | { min: number; max: number; gaps_held_at: number };
+  /** The light; 'sites' is a batch of weather years, its SHA-256 that of the sorted site keys. */
+  light: { kind: 'spectrum' | 'ensemble' | 'sites'; name: string; sha256: string; irradiance_w_m2?: number; spectra?: number; sites?: number };
+  /** One temperature, the range over an ensemble's spectra, or the model that sets each hour's (sites). */
+  temperature_k: number | { min: number; max: number; gaps_held_at: number } | { model: string; gaps_held_at: number };
   units: Record<string, string>;
   caution: string;
 }

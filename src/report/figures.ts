@@ -44,9 +44,10 @@ export interface FigureFile {
 /** A figure's metadata as CSV comment lines: tool, wiring, light with SHA-256, temperature, units, caution. */
 export function csvMetaLines(m: FigureMeta): string[] {
   const l = m.light;
-  const light = l.kind === 'spectrum' ? `${l.name}, P_in ${l.irradiance_w_m2} W/m², SHA-256 ${l.sha256}` : `ensemble ${l.name} (${l.spectra} spectra), SHA-256 ${l.sha256}`;
+  const light =
+    l.kind === 'spectrum' ? `${l.name}, P_in ${l.irradiance_w_m2} W/m², SHA-256 ${l.sha256}` : l.kind === 'sites' ? `${l.name} (${l.sites} sites), site set SHA-256 ${l.sha256}` : `ensemble ${l.name} (${l.spectra} spectra), SHA-256 ${l.sha256}`;
   const t = m.temperature_k;
-  const temp = typeof t === 'number' ? `${t} K` : `${t.min}–${t.max} K per spectrum, gaps held at their ${t.gaps_held_at} K values`;
+  const temp = typeof t === 'number' ? `${t} K` : 'model' in t ? `${t.model}, gaps held at their ${t.gaps_held_at} K values` : `${t.min}–${t.max} K per spectrum, gaps held at their ${t.gaps_held_at} K values`;
   return [
     `# tool: ${m.tool}`,
     `# wiring: ${m.wiring ?? 'all (this figure does not depend on the wiring)'}`,

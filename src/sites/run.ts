@@ -4,8 +4,8 @@
  * finishes (memory does not grow with the number of sites), resumable after
  * the last complete row.
  */
-import { appendFileSync, existsSync, readdirSync, statSync, truncateSync, writeFileSync, mkdirSync } from 'node:fs';
-import { basename, extname, join } from 'node:path';
+import { appendFileSync, existsSync, truncateSync, writeFileSync, mkdirSync } from 'node:fs';
+import { basename, join } from 'node:path';
 import { UserError } from '../errors.js';
 import { readLines } from './lines.js';
 import { columnsFor, csvHeader, csvRow, CSV_HEADER_LINES, identityMismatch, jsonHeader, jsonRow, parseCsvHeader, parseJsonHeader, rowKey, sitesSha256, type PartIdentity, type SiteResult } from './parts.js';
@@ -27,28 +27,7 @@ export interface WeatherFile {
   key: string;
 }
 
-/** Weather-file extensions picked up from a folder. */
-export const WEATHER_EXTENSIONS = ['.epw', '.csv'];
-
-/** Expand folders (their weather files, not recursive) and keep files as given. */
-export function listWeatherFiles(inputs: readonly string[]): string[] {
-  const out: string[] = [];
-  for (const input of inputs) {
-    let st;
-    try {
-      st = statSync(input);
-    } catch {
-      throw new UserError(`${input}: no such weather file or folder`);
-    }
-    if (st.isDirectory()) {
-      const found = readdirSync(input).filter((f) => WEATHER_EXTENSIONS.includes(extname(f).toLowerCase())).sort();
-      if (found.length === 0) throw new UserError(`${input}: no weather files (${WEATHER_EXTENSIONS.join(', ')}) in this folder`);
-      out.push(...found.map((f) => join(input, f)));
-    } else out.push(input);
-  }
-  if (out.length === 0) throw new UserError('no weather files given');
-  return out;
-}
+export { listWeatherFiles, WEATHER_EXTENSIONS } from '../light/weather/list.js';
 
 /**
  * Identify every weather file by the SHA-256 of its bytes, one file in memory at

@@ -8,6 +8,7 @@
 import { createRequire } from 'node:module';
 import { UserError } from '../errors.js';
 import { FONT_FAMILY } from '../report/svg.js';
+import { LabelBoard, pointBox, type Candidate } from '../report/charts/labels.js';
 
 /** One dot: where, and the value it is coloured by (null: no value, drawn hollow). */
 export interface SiteMapPoint {
@@ -25,6 +26,36 @@ export interface SiteMapInput {
   caption: string[];
   /** 'world' always shows the whole Earth; 'auto' frames the sites when they fit in a region. */
   extent?: 'world' | 'auto';
+  /** The SVG's id, also the prefix of its clip path and gradient ids (several maps on one page); default "site-map". */
+  id?: string;
+  /** Colour range [value units] shared with other maps; default siteColourDomain of these points. */
+  domain?: SiteColourDomain;
+}
+
+/** The colour range of a site map [value units]: the bar's ends, rounded outwards to nice ticks. */
+export interface SiteColourDomain {
+  lo: number;
+  hi: number;
+}
+
+const BAR_TICKS = 6;
+
+/**
+ * The colour range of site maps over these values: their lowest to highest,
+ * widened a little when all are equal, rounded outwards to the colour bar's
+ * ticks. Maps a reader compares get one range over all their values.
+ */
+export async function siteColourDomain(values: readonly (number | null)[]): Promise<SiteColourDomain> {
+  const v = values.filter((x): x is number => x !== null && Number.isFinite(x));
+  let lo = v.length ? Math.min(...v) : 0;
+  let hi = v.length ? Math.max(...v) : 1;
+  if (hi - lo < 1e-12) {
+    lo -= 0.5 * Math.max(Math.abs(lo) * 0.01, 1e-3);
+    hi += 0.5 * Math.max(Math.abs(hi) * 0.01, 1e-3);
+  }
+  const scale = await import('d3-scale');
+  const [nlo, nhi] = scale.scaleLinear().domain([lo, hi]).range([BAR.height, 0]).nice(BAR_TICKS).domain() as [number, number];
+  return { lo: nlo, hi: nhi };
 }
 
 export const SITE_MAP_WIDTH = 960;
@@ -97,37 +128,48 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
   const path = geoPath(projection).digits(1);
 
   const values = valid.map((p) => p.value).filter((v): v is number => v !== null && Number.isFinite(v));
-  let lo = values.length ? Math.min(...values) : 0;
-  let hi = values.length ? Math.max(...values) : 1;
-  if (hi - lo < 1e-12) {
-    lo -= 0.5 * Math.max(Math.abs(lo) * 0.01, 1e-3);
-    hi += 0.5 * Math.max(Math.abs(hi) * 0.01, 1e-3);
-  }
-  const colour = scale.scaleSequential(chromatic.interpolateViridis).domain([lo, hi]);
-  const barScale = scale.scaleLinear().domain([lo, hi]).range([BAR.height, 0]).nice(6);
-  const [nlo, nhi] = barScale.domain() as [number, number];
-  colour.domain([nlo, nhi]);
+  const { lo: nlo, hi: nhi } = inp.domain ?? (await siteColourDomain(values));
+  const colour = scale.scaleSequential(chromatic.interpolateViridis).domain([nlo, nhi]).clamp(true);
+  const barScale = scale.scaleLinear().domain([nlo, nhi]).range([BAR.height, 0]);
+  const id = inp.id ?? 'site-map';
 
   const captionLines = inp.caption.flatMap((c) => wrap(c, 130));
   const height = MAP_HEIGHT + 16 + captionLines.length * CAPTION_LINE + 8;
   const parts: string[] = [];
-  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${SITE_MAP_WIDTH}" height="${height}" viewBox="0 0 ${SITE_MAP_WIDTH} ${height}" font-family="${FONT_FAMILY}" font-size="12">`);
+  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" id="${xml(id)}" class="gs-chart gs-site-map" data-colour-lo="${nlo}" data-colour-hi="${nhi}" width="${SITE_MAP_WIDTH}" height="${height}" viewBox="0 0 ${SITE_MAP_WIDTH} ${height}" font-family="${FONT_FAMILY}" font-size="12" role="img">`);
   parts.push(`<title>${xml(`Sites coloured by ${inp.valueLabel}`)}</title>`);
   parts.push(`<rect width="${SITE_MAP_WIDTH}" height="${height}" fill="#ffffff"/>`);
-  parts.push(`<defs><clipPath id="site-map-clip"><rect x="0" y="0" width="${mapW}" height="${MAP_HEIGHT}"/></clipPath></defs>`);
-  parts.push(`<g clip-path="url(#site-map-clip)">`);
+  parts.push(`<defs><clipPath id="${xml(id)}-clip"><rect x="0" y="0" width="${mapW}" height="${MAP_HEIGHT}"/></clipPath></defs>`);
+  parts.push(`<g clip-path="url(#${xml(id)}-clip)">`);
   parts.push(`<path d="${path({ type: 'Sphere' }) ?? ''}" fill="#eef4f8" stroke="#9fb3c2" stroke-width="0.8"/>`);
   parts.push(`<path d="${path(geoGraticule10()) ?? ''}" fill="none" stroke="#d5e0e8" stroke-width="0.5"/>`);
   parts.push(`<path d="${path(land) ?? ''}" fill="#e4e1d8" stroke="#a8a294" stroke-width="0.6"/>`);
   parts.push(`<path d="${path(borders) ?? ''}" fill="none" stroke="#c4bfb2" stroke-width="0.4"/>`);
-  // Dots: larger values on top would hide nothing of interest; draw in site order, labelled when few.
-  for (const p of valid) {
+  // Dots in site order; when few, each is named where its label clears every dot and every other label (one board for the map).
+  const dots = valid.flatMap((p) => {
     const xy = projection([p.lonDeg, p.latDeg]);
-    if (!xy) continue;
+    return xy ? [{ p, x: xy[0], y: xy[1] }] : [];
+  });
+  const board = new LabelBoard({ x0: 2, y0: 2, x1: mapW - 2, y1: MAP_HEIGHT - 2 }, 2);
+  for (const d of dots) board.reserve(pointBox(d.x, d.y, 6.5));
+  for (const { p, x, y } of dots) {
     const fill = p.value === null || !Number.isFinite(p.value) ? 'none' : colour(p.value);
     const tip = `${p.site}: ${p.value === null || !Number.isFinite(p.value) ? 'no value' : p.value} (${f2(p.latDeg)}°, ${f2(p.lonDeg)}°)`;
-    parts.push(`<circle cx="${f2(xy[0])}" cy="${f2(xy[1])}" r="5.5" fill="${fill}" stroke="#222222" stroke-width="1"><title>${xml(tip)}</title></circle>`);
-    if (valid.length <= LABEL_LIMIT) parts.push(`<text x="${f2(xy[0] + 8)}" y="${f2(xy[1] + 4)}" font-size="10" fill="#333333">${xml(p.site)}</text>`);
+    parts.push(`<circle cx="${f2(x)}" cy="${f2(y)}" r="5.5" fill="${fill}" stroke="#222222" stroke-width="1"><title>${xml(tip)}</title></circle>`);
+  }
+  if (dots.length <= LABEL_LIMIT) {
+    for (const { p, x, y } of dots) {
+      const cands: Candidate[] = [
+        { x: x + 9, y: y + 4, anchor: 'start' },
+        { x: x - 9, y: y + 4, anchor: 'end' },
+        { x, y: y - 10, anchor: 'middle' },
+        { x, y: y + 18, anchor: 'middle' },
+      ];
+      const t = board.placeOrShorten(cands, p.site, { size: 10 });
+      if (!t) continue;
+      const title = t.full ? `<title>${xml(t.full)}</title>` : '';
+      parts.push(`<text class="gs-site-label" x="${f2(t.x)}" y="${f2(t.y)}" text-anchor="${t.anchor}" font-size="10" fill="#222222" stroke="#ffffff" stroke-width="2.5" paint-order="stroke">${title}${xml(t.text)}</text>`);
+    }
   }
   parts.push('</g>');
 
@@ -135,14 +177,14 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
   const bx = mapW + BAR.gap;
   const by = (MAP_HEIGHT - BAR.height) / 2;
   const stops = Array.from({ length: 11 }, (_, i) => `<stop offset="${i * 10}%" stop-color="${colour(nhi - ((nhi - nlo) * i) / 10)}"/>`).join('');
-  parts.push(`<defs><linearGradient id="site-map-bar" x1="0" y1="0" x2="0" y2="1">${stops}</linearGradient></defs>`);
+  parts.push(`<defs><linearGradient id="${xml(id)}-bar" x1="0" y1="0" x2="0" y2="1">${stops}</linearGradient></defs>`);
   const labelLines = wrap(inp.valueLabel, 18).slice(0, 3);
   labelLines.forEach((line, i) => parts.push(`<text x="${bx - 8}" y="${by - 14 - (labelLines.length - 1 - i) * 14}" font-size="11">${xml(line)}</text>`));
-  parts.push(`<rect x="${bx}" y="${by}" width="${BAR.width}" height="${BAR.height}" fill="url(#site-map-bar)" stroke="#555555" stroke-width="0.6"/>`);
-  for (const t of barScale.ticks(6)) {
+  parts.push(`<rect class="gs-colourbar" data-lo="${nlo}" data-hi="${nhi}" x="${bx}" y="${by}" width="${BAR.width}" height="${BAR.height}" fill="url(#${xml(id)}-bar)" stroke="#555555" stroke-width="0.6"/>`);
+  for (const t of barScale.ticks(BAR_TICKS)) {
     const y = by + barScale(t);
     parts.push(`<line x1="${bx + BAR.width}" x2="${bx + BAR.width + 4}" y1="${f2(y)}" y2="${f2(y)}" stroke="#555555"/>`);
-    parts.push(`<text x="${bx + BAR.width + 7}" y="${f2(y + 4)}" font-size="10">${xml(barScale.tickFormat(6)(t))}</text>`);
+    parts.push(`<text x="${bx + BAR.width + 7}" y="${f2(y + 4)}" font-size="10">${xml(barScale.tickFormat(BAR_TICKS)(t))}</text>`);
   }
   if (values.length < valid.length) {
     parts.push(`<circle cx="${bx + 6}" cy="${by + BAR.height + 24}" r="5" fill="none" stroke="#222222"/><text x="${bx + 16}" y="${by + BAR.height + 28}" font-size="10">no value</text>`);
