@@ -24,6 +24,8 @@ const EXAMPLES: { file: string; maxPages: number }[] = [
   { file: 'perovskite-cigs-wirings.yaml', maxPages: 9 },
   // Three scenarios, each with its own sections after one comparison table.
   { file: 'three-tandems.yaml', maxPages: 16 },
+  // Several sites: the AM1.5G answer, then the Sites section (table and site map) from the batch over four invented sites.
+  { file: 'sites/sites-report.yaml', maxPages: 9 },
 ];
 
 /** A4 at 96 CSS px per inch, less the report's @page margins (14 mm top, 16 mm bottom, 12 mm each side). */
@@ -79,7 +81,7 @@ for (const ex of EXAMPLES) {
 
     beforeAll(async () => {
       mkdirSync(ARTIFACTS, { recursive: true });
-      const out = join(ARTIFACTS, ex.file.replace(/\.yaml$/, '.html'));
+      const out = join(ARTIFACTS, ex.file.replace(/\.yaml$/, '.html').replace(/\//g, '-'));
       await reportCommand({ design: join(ROOT, 'examples', ex.file), output: out });
       ({ ctx } = await launchChromium());
       page = await ctx.newPage();
