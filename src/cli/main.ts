@@ -302,8 +302,8 @@ export async function run(rawArgv: string[]): Promise<void> {
           (async (a: Record<string, unknown>) => print(await (await import('./sites-command.js')).sitesMapCommand(a as never))) as never,
         )
         .command(
-          '$0 <design> <weather..>',
-          'answer the design\'s question at every weather file (this task\'s shard of them): one row per site, streamed and resumable',
+          '$0 <design> [weather..]',
+          'answer the design\'s question at every weather file (this task\'s shard of them): one row per site, streamed and resumable; without weather files, at the sites its sites: names',
           (r: Argv) =>
             r
               .positional('design', { type: 'string', describe: 'design file: subcells, wirings, temperature (its own light is replaced by each site\'s)' })
@@ -311,8 +311,8 @@ export async function run(rawArgv: string[]): Promise<void> {
               .option('out', { type: 'string', describe: 'folder for part-K-of-N.csv and .jsonl', demandOption: true })
               .option('shard', { type: 'string', describe: 'this task\'s share K/N (K from 1); default: from SLURM_ARRAY_TASK_* or JOB_COMPLETION_INDEX, else all' })
               .option('shard-count', { type: 'string', describe: 'number of shards where the scheduler does not say it (Kubernetes: spec.completions)' })
-              .option('tilt', { type: 'string', describe: 'module plane tilt from horizontal [°], or "latitude" (each site\'s own)', demandOption: true })
-              .option('azimuth', { type: 'string', describe: 'direction the plane faces, east of north [°] (180 = south), or "equator"', demandOption: true })
+              .option('tilt', { type: 'string', describe: 'module plane tilt from horizontal [°], or "latitude" (each site\'s own); needed with weather files' })
+              .option('azimuth', { type: 'string', describe: 'direction the plane faces, east of north [°] (180 = south), or "equator"; needed with weather files' })
               .option('albedo', { type: 'string', describe: 'ground albedo, overriding the files\' (default 0.2 where a file has none)' })
               .option('tracking', { type: 'string', describe: 'none | single-axis (default none)' })
               .option('max-rotation', { type: 'string', describe: 'single-axis tracker limit [°] (default 60)' })

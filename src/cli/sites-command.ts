@@ -106,6 +106,7 @@ const HOURS_IN_A_LEAP_YEAR = 8784;
 
 /** `gapstack sites DESIGN WEATHER… --tilt --azimuth`: each site's light is its weather file's hourly year on that plane. */
 export async function sitesWeatherCommand(a: SitesWeatherArgs): Promise<string> {
+  if ((a.weather ?? []).length === 0) return sitesOfDesignCommand(a);
   if (a.tilt === undefined || a.azimuth === undefined) throw new UserError('sites needs --tilt <° | latitude> and --azimuth <° east of north | equator>');
   const plane = parsePlane(String(a.tilt), String(a.azimuth));
   // The engine's own option parser for everything but the plane, which may differ per site here.
@@ -118,6 +119,37 @@ export async function sitesWeatherCommand(a: SitesWeatherArgs): Promise<string> 
   const { siteLightHashOptions, weatherSiteLight } = await import('../sites/weather-light.js');
   // Every option that changes a number enters the question's hash, so parts of different planes or models never merge.
   return sitesCommand(a, weatherSiteLight(plane, model), siteLightHashOptions(plane, model));
+}
+
+/** Light-model options that a design's `sites:` sets, as flags. */
+const LIGHT_FLAGS: [keyof SitesWeatherArgs, string][] = [
+  ['tilt', 'tilt'],
+  ['azimuth', 'azimuth'],
+  ['albedo', 'albedo'],
+  ['tracking', 'tracking'],
+  ['maxRotation', 'max-rotation'],
+  ['aod500', 'aod500'],
+  ['waterCm', 'water-cm'],
+  ['ozoneAtmCm', 'ozone-atm-cm'],
+  ['faiman', 'faiman'],
+];
+
+/**
+ * `gapstack sites DESIGN` without weather files: the sites, plane and light
+ * model of the design's own `sites:` — the same question (same hash, same
+ * rows) that `gapstack report DESIGN` puts in its Sites section.
+ */
+async function sitesOfDesignCommand(a: SitesWeatherArgs): Promise<string> {
+  const design = await loadDesign(a.design);
+  const s = design.sites;
+  if (!s) throw new UserError(`name the weather files or folders of the sites after the design, or give ${a.design} a sites: list`);
+  const given = LIGHT_FLAGS.filter(([k]) => a[k] !== undefined).map(([, flag]) => `--${flag}`);
+  if (given.length > 0) throw new UserError(`${given.join(', ')}: ${a.design} sets the plane and light model in its sites:; change them there, or name weather files on the command line`);
+  const openCells = design.subcells.filter((c) => c.constraint.kind !== 'fixed').length;
+  const stacks = searchStacks(design.subcells.map((c) => c.constraint), design.spanEv, design.searchStepEv ?? defaultStepEv(openCells));
+  checkWorkSize('batch (per site)', stacks * design.wirings.length, HOURS_IN_A_LEAP_YEAR + 1, Boolean(a.acceptLarge));
+  const { siteLightHashOptions, weatherSiteLight } = await import('../sites/weather-light.js');
+  return sitesCommand({ ...a, weather: s.files }, weatherSiteLight(s.plane, s.model), siteLightHashOptions(s.plane, s.model));
 }
 
 /** Merge the parts of every shard into one file, byte-identical to an unsharded run's part. */

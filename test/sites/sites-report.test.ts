@@ -140,6 +140,17 @@ describe('the report of a design with sites', () => {
     batchCsv = readFileSync(join(out, 'part-1-of-1.csv'), 'utf8').trim().split('\n').filter((l) => !l.startsWith('#')).slice(1).map((l) => l.match(/("[^"]*"|[^,]+)/g)!.map((c) => c.replace(/^"|"$/g, '')));
   }, LONG);
 
+  test('gapstack sites DESIGN without weather files asks at the design\'s own sites: the same part, byte for byte', async () => {
+    const own = join(work, 'batch-own');
+    await sitesWeatherCommand({ design: path, weather: [], out: own });
+    expect(readFileSync(join(own, 'part-1-of-1.jsonl'), 'utf8')).toBe(readFileSync(join(work, 'batch', 'part-1-of-1.jsonl'), 'utf8'));
+    expect(readFileSync(join(own, 'part-1-of-1.csv'), 'utf8')).toBe(readFileSync(join(work, 'batch', 'part-1-of-1.csv'), 'utf8'));
+    // The design sets the plane; a flag beside it would ask another question.
+    await expect(sitesWeatherCommand({ design: path, weather: [], out: own, tilt: '10' })).rejects.toThrow(/--tilt: .*two-sites\.yaml sets the plane and light model in its sites:/);
+    const plain = design('plain.yaml', `name: p\n${STACK}`);
+    await expect(sitesWeatherCommand({ design: plain, weather: [], out: own })).rejects.toThrow(/name the weather files or folders of the sites after the design, or give .*plain\.yaml a sites: list/);
+  }, LONG);
+
   test('summary.json carries the batch\'s rows: same question, same numbers, same order', () => {
     expect(summary.sites.question_sha256).toBe(batchHeader.question_sha256);
     expect(summary.sites.sites_sha256).toBe(batchHeader.sites_sha256);
