@@ -111,4 +111,4 @@ export {
 
 // ── Reports ───────────────────────────────────────────────────────────────
 export { CAUTION } from './report/assumptions.js';
-export { buildReportFromFile, buildReportFromText, type ReportOutput } from './report/from-design.js';
+export { buildReportFromFile, buildReportFromText, type ReportOutput } from './sites/report-from-design.js';

@@ -70,13 +70,8 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
       outcomes = r.built.flatMap((b, k) => b.data.outcomes.map((o) => ({ label: `${set.scenarios[k].name}, ${o.wiring.key}`, o })));
     } else if (sitesDesign) {
       // Several sites: the answer under AM1.5G, then the batch over the sites in-process (the engine of gapstack sites), then the page.
-      const { buildReport } = await import('../report/build.js');
-      const { computeReport } = await import('../report/compute.js');
-      const { runDesignSites, sitesSection } = await import('../sites/report-section.js');
-      const data = computeReport(sitesDesign, stage);
-      const rows = await runDesignSites(sitesDesign, stage?.(`sites (${sitesDesign.sites?.files.length ?? 0} weather files)`));
-      const sites = await sitesSection(sitesDesign, rows, data.outcomes.map((o) => o.search.result.best.gapsEv));
-      const r = buildReport(sitesDesign, { date: reportDate(), data, sites });
+      const { buildSitesReport } = await import('../sites/report-section.js');
+      const r = await buildSitesReport(sitesDesign, { date: reportDate(), stage });
       built = r;
       outcomes = r.data.outcomes.map((o) => ({ label: o.wiring.key, o }));
     } else {

@@ -1,7 +1,8 @@
 /**
- * A report as a string, for library callers: read a design, compute, render.
- * The page builder (templating, charts) loads only when a report is asked for,
- * so importing the library stays light.
+ * What a report gives library callers. The builders (`buildReportFromFile`,
+ * `buildReportFromText`) live in src/sites/report-from-design.ts, a layer up,
+ * because a design that names several sites needs the batch over sites for
+ * its Sites section.
  */
 import type { ReportData } from './compute.js';
 
@@ -13,30 +14,4 @@ export interface ReportOutput {
   summary: Record<string, unknown>;
   /** Every number the page shows. */
   data: ReportData;
-}
-
-/**
- * Build the report of a design file (YAML or JSON; paths inside it are relative to it).
- * @param path design file
- * @param opts.date the date printed on the page (default now)
- */
-export async function buildReportFromFile(path: string, opts: { date?: Date } = {}): Promise<ReportOutput> {
-  const { loadDesign } = await import('../design/index.js');
-  return render(await loadDesign(path), opts.date);
-}
-
-/**
- * The same from design text already in memory.
- * @param path names the design in messages and anchors relative paths in it
- * @param text the design (YAML or JSON)
- */
-export async function buildReportFromText(path: string, text: string, opts: { date?: Date } = {}): Promise<ReportOutput> {
-  const { loadDesignText } = await import('../design/index.js');
-  return render(await loadDesignText(path, text), opts.date);
-}
-
-async function render(design: Awaited<ReturnType<typeof import('../design/index.js').loadDesign>>, date = new Date()): Promise<ReportOutput> {
-  const { buildReport } = await import('./build.js');
-  const built = buildReport(design, { date });
-  return { html: built.html, summary: built.summary, data: built.data };
 }

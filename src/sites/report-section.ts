@@ -15,6 +15,8 @@ import { toolVersion } from '../io/version.js';
 import { FAIMAN_DEFAULT } from '../light/atmosphere.js';
 import { hourlyModelAssumptions, SITE_DEFAULTS } from '../light/site-year.js';
 import { CAUTION } from '../report/assumptions.js';
+import type { BuiltReport } from '../report/build.js';
+import type { StageReporter } from '../report/compute.js';
 import type { Chart, FigureMeta } from '../report/figure-data.js';
 import type { SitesSectionView } from '../report/sites-view.js';
 import { fx, wiringTitle } from '../report/view.js';
@@ -267,4 +269,18 @@ export async function sitesSection(design: Design, s: DesignSitesRows, am15gGaps
       caution: CAUTION,
     },
   };
+}
+
+/**
+ * The whole report of a design with `sites:`: the answer under AM1.5G, the
+ * batch over the sites, and the page with its Sites section.
+ * @param opts.stage named progress stages (the report's, then "sites")
+ */
+export async function buildSitesReport(design: Design, opts: { date: Date; stage?: StageReporter }): Promise<BuiltReport> {
+  const { buildReport } = await import('../report/build.js');
+  const { computeReport } = await import('../report/compute.js');
+  const data = computeReport(design, opts.stage);
+  const rows = await runDesignSites(design, opts.stage?.(`sites (${sitesOf(design).files.length} weather files)`));
+  const sites = await sitesSection(design, rows, data.outcomes.map((o) => o.search.result.best.gapsEv));
+  return buildReport(design, { date: opts.date, data, sites });
 }

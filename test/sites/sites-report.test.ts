@@ -204,6 +204,19 @@ describe('the report of a design with sites', () => {
   });
 });
 
+describe('the library builds the same report', () => {
+  test('buildReportFromFile on a design with sites gives the Sites section and its rows', async () => {
+    const { buildReportFromFile } = await import('../../src/index.js');
+    const p = design('lib.yaml', `name: library sites\nsites:\n  files: [${join(SITES, 'orvale.epw')}]\n  tilt: 15\n  azimuth: 180\n${STACK}wirings: [series]\nsearch:\n  step: 0.02\nmap:\n  step: 0.05\n  pairs:\n    - axes: [1, 2]\n      x: [1.6, 2.2]\n      y: [1.0, 1.2]\n`);
+    const r = await buildReportFromFile(p, { date: new Date(0) });
+    const sites = r.summary.sites as { rows: SiteRow[]; columns: string[] };
+    expect(sites.rows).toHaveLength(1);
+    expect(sites.rows[0]!.file).toBe('orvale.epw');
+    expect(sites.columns.slice(-4)).toEqual(['2t_gaps_ev', '2t_yield_kwh_m2', '2t_efficiency_pct', '2t_am15g_loss_pct']);
+    expect(r.html).toContain('<section class="sites" id="sites">');
+  }, LONG);
+});
+
 describe('the reading of the rows', () => {
   test('names where the top gap moves most, the largest AM1.5G loss and the largest 4T-over-2T gain, from the rows themselves', async () => {
     const d = await loadDesign(design('reading.yaml', `name: r\nsites:\n  files: [${join(SITES, 'orvale.epw')}]\n  tilt: 20\n  azimuth: 180\n${STACK}wirings: [series, independent]\n`));
