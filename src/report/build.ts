@@ -237,7 +237,7 @@ export function buildReport(design: Design, opts: { date: Date; stage?: StageRep
     caution: CAUTION,
     maps,
     comparison,
-    sites: sites ? { heading: sites.heading, intro: sites.intro, table: sites.table, mapSvg: sites.mapSvg, mapCaption: sites.mapCaption, reading: sites.reading, assumptions: sites.assumptions } : null,
+    sites: sites ? { heading: sites.heading, intro: sites.intro, table: sites.table, maps: sites.maps, reading: sites.reading, assumptions: sites.assumptions } : null,
     site: site ? { heading: site.heading, lines: site.lines, monthlySvg: site.monthlySvg, monthlyCaption: site.monthlyCaption, apeSvg: site.apeSvg, apeCaption: site.apeCaption, assumptions: light.kind === 'ensemble' && light.site ? light.site.assumptions : [] } : null,
     details,
     assumptions: assumptionList(data),

@@ -16,8 +16,8 @@ export interface SitesSectionView {
   /** What the rows are and how they were asked. */
   intro: string[];
   table: { groups: ColumnGroup[]; head: string[]; rows: string[][] };
-  mapSvg: string;
-  mapCaption: string;
+  /** Site maps, each with its own colour bar and caption. */
+  maps: { id: string; svg: string; caption: string }[];
   /** The rows in plain words: where the optimum moves most, the largest gains and losses. */
   reading: string[];
   /** The assumptions of the site light, as the single-site section states them. */

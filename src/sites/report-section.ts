@@ -26,7 +26,7 @@ import type { BatchPlane } from './plane.js';
 import { siteQuestion, wiringPrefix, type SiteLightSource } from './question.js';
 import { runSites, type SiteQuestion } from './run.js';
 import { WHOLE } from './shard.js';
-import { siteColourDomain, siteMapSvg } from './site-map.js';
+import { siteColourDomain, siteMapSvg, type SiteColourDomain } from './site-map.js';
 import { siteLightHashOptions, weatherSiteLight } from './weather-light.js';
 
 /** The batch's rows of a design's sites, as `gapstack sites` writes them (JSON Lines values). */
@@ -189,6 +189,53 @@ export function sitesReading(design: Design, rows: readonly SiteRow[], am15gGaps
   return out;
 }
 
+interface SiteMapFigure {
+  chart: Chart;
+  caption: string;
+}
+
+/** One site map of the rows coloured by a column, with its caption and its figure files' data and metadata block. */
+async function siteMapFigure(
+  design: Design,
+  s: DesignSitesRows,
+  o: { name: string; column: ReturnType<typeof mapColumn>; valueName: string; unit: string; digits: number; wiring: string | null; note: string | ((d: SiteColourDomain) => string); extraJson: Record<string, unknown> },
+): Promise<SiteMapFigure> {
+  const ds = sitesOf(design);
+  const points = mapPoints(s.rows, o.column);
+  const domain = await siteColourDomain(points.map((p) => p.value));
+  const svg = await siteMapSvg({ points, valueLabel: o.column.label, extent: 'auto', caption: [], id: o.name, domain });
+  const note = typeof o.note === 'string' ? o.note : o.note(domain);
+  const caption =
+    `Each dot is one site, coloured by the ${o.column.label}: one colour scale, ${fx(domain.lo, o.digits)}–${fx(domain.hi, o.digits)} ${o.unit} (viridis, the report's map palette), for this map; a hollow dot would mark a site without a value.${note}` +
+    " Positions from each weather file's header; land and borders: Natural Earth 1:110m (world-atlas), Equal Earth projection. Labels that would overlap are left out (the table names every site).";
+  const meta: FigureMeta = {
+    tool: `gapstack ${toolVersion()}`,
+    wiring: o.wiring,
+    light: { kind: 'sites', name: `hourly weather years on one plane (${planeWords(ds.plane, ds)})`, sha256: s.sitesSha256, sites: s.rows.length },
+    temperature_k: { model: "each hour's Faiman cell temperature", gaps_held_at: design.tempK },
+    units: { lat_deg: '°', lon_deg: '°', [o.valueName]: o.unit, note: 'columns ending in _pct are in percent' },
+    caution: CAUTION,
+  };
+  const q = (t: string) => (/[",\n]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t);
+  const value = (v: number | null) => (v === null ? '' : v.toFixed(4));
+  const chart: Chart = {
+    name: o.name,
+    svg,
+    csv: `site,file,lat_deg,lon_deg,${o.valueName}\n${s.rows.map((r, k) => `${q(String(r.site))},${q(String(r.file))},${cell(r.lat_deg, 4)},${cell(r.lon_deg, 4)},${value(points[k]!.value)}`).join('\n')}\n`,
+    json: {
+      colour: o.column.label,
+      colour_range: { low: domain.lo, high: domain.hi, unit: o.unit },
+      ...o.extraJson,
+      question_sha256: s.questionSha256,
+      sites_sha256: s.sitesSha256,
+      points: points.map((p) => ({ site: p.site, lat_deg: p.latDeg, lon_deg: p.lonDeg, [o.valueName]: p.value })),
+      caution: CAUTION,
+    },
+    meta,
+  };
+  return { chart, caption };
+}
+
 /** Build the Sites section from the batch's rows; `am15gGapsEv` are the report's AM1.5G optima, one per wiring (top first). */
 export async function sitesSection(design: Design, s: DesignSitesRows, am15gGapsEv: readonly (readonly number[])[]): Promise<SitesSectionView> {
   const ds = sitesOf(design);
@@ -203,58 +250,50 @@ export async function sitesSection(design: Design, s: DesignSitesRows, am15gGaps
     ...prefixes.flatMap((p) => [gapsOf(r[`${p}_gaps_ev`]).map((g) => g.toFixed(4)).join(' / '), cell(r[`${p}_yield_kwh_m2`], 3), cell(r[`${p}_efficiency_pct`], 3), cell(r[`${p}_am15g_loss_pct`], 3)]),
   ]);
 
-  // The map: each site coloured by the first wiring's site-optimal top gap.
+  // The maps: each site coloured by the first wiring's site-optimal top gap, and by the 4T-over-2T gain when both are asked.
   const first = prefixes[0]!;
-  const column = mapColumn('top-gap', s.columns, first);
-  const points = mapPoints(s.rows, column);
-  const domain = await siteColourDomain(points.map((p) => p.value));
-  const svg = await siteMapSvg({ points, valueLabel: column.label, extent: 'auto', caption: [], id: 'sites-map', domain });
   const ref = am15gGapsEv[0]?.[0];
-  const refWords = ref === undefined ? '' : ` Under AM1.5G the ${shortName(design.wirings[0]!.key)} top gap is ${fx(ref, 3)} eV${ref < domain.lo || ref > domain.hi ? ', outside this colour range' : ''}.`;
-  const mapCaption =
-    `Each dot is one site, coloured by the ${column.label}: one colour scale, ${fx(domain.lo, 3)}–${fx(domain.hi, 3)} eV (viridis, the report's map palette), for this map; a hollow dot would mark a site without a value.${refWords}` +
-    ' Positions from each weather file\'s header; land and borders: Natural Earth 1:110m (world-atlas), Equal Earth projection. Labels that would overlap are left out (the table names every site).';
-  const meta: FigureMeta = {
-    tool: `gapstack ${toolVersion()}`,
-    wiring: design.wirings[0]!.key,
-    light: { kind: 'sites', name: `hourly weather years on one plane (${planeWords(ds.plane, ds)})`, sha256: s.sitesSha256, sites: s.rows.length },
-    temperature_k: { model: "each hour's Faiman cell temperature", gaps_held_at: design.tempK },
-    units: { lat_deg: '°', lon_deg: '°', top_gap_ev: 'eV', poa_kwh_m2: 'kWh/m²', yield_kwh_m2: 'kWh/m²', efficiency_pct: '%', am15g_loss_pct: '%', note: 'columns ending in _pct are in percent' },
-    caution: CAUTION,
-  };
-  const q = (t: string) => (/[",\n]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t);
-  const valueName = `${first}_top_gap_ev`;
-  const chart: Chart = {
-    name: 'sites-map',
-    svg,
-    csv: `site,file,lat_deg,lon_deg,${valueName}\n${s.rows.map((r, k) => `${q(String(r.site))},${q(String(r.file))},${cell(r.lat_deg, 4)},${cell(r.lon_deg, 4)},${points[k]!.value === null ? '' : (points[k]!.value as number).toFixed(4)}`).join('\n')}\n`,
-    json: {
-      colour: column.label,
-      colour_range: { low: domain.lo, high: domain.hi, unit: 'eV' },
-      am15g_top_gap_ev: ref ?? null,
-      question_sha256: s.questionSha256,
-      sites_sha256: s.sitesSha256,
-      points: points.map((p) => ({ site: p.site, lat_deg: p.latDeg, lon_deg: p.lonDeg, [valueName]: p.value })),
-      caution: CAUTION,
-    },
-    meta,
-  };
+  const maps: SiteMapFigure[] = [
+    await siteMapFigure(design, s, {
+      name: 'sites-map',
+      column: mapColumn('top-gap', s.columns, first),
+      valueName: `${first}_top_gap_ev`,
+      unit: 'eV',
+      digits: 3,
+      wiring: design.wirings[0]!.key,
+      note: ref === undefined ? '' : (domain) => ` Under AM1.5G the ${shortName(design.wirings[0]!.key)} top gap is ${fx(ref, 3)} eV${ref < domain.lo || ref > domain.hi ? ', outside this colour range' : ''}.`,
+      extraJson: { am15g_top_gap_ev: ref ?? null },
+    }),
+  ];
+  if (prefixes.includes('2t') && prefixes.includes('4t')) {
+    maps.push(
+      await siteMapFigure(design, s, {
+        name: 'sites-map-4t-gain',
+        column: mapColumn('4t-gain', s.columns),
+        valueName: '4t_over_2t_yield_gain_pct',
+        unit: '%',
+        digits: 2,
+        wiring: null,
+        note: () => ' The gain is (4T yield − 2T yield) / 2T yield, each wiring at its own site-optimal gaps; a different quantity from the map above, so a scale of its own.',
+        extraJson: { convention: '(4t_yield_kwh_m2 - 2t_yield_kwh_m2) / 2t_yield_kwh_m2 × 100, each at its site-optimal gaps' },
+      }),
+    );
+  }
 
   const intro = [
     `The question above asked at ${s.rows.length} site${s.rows.length === 1 ? '' : 's'}, each under its weather file's hourly year on one module plane (${planeWords(ds.plane, ds)}): per wiring the site-optimal gaps, their annual yield and yield-weighted efficiency, and how much less the AM1.5G-optimal design yields there. The sections above answer under AM1.5G; this one under each site's light.`,
     `These are the rows gapstack sites writes for this design and these weather files (question SHA-256 ${s.questionSha256.slice(0, 12)}…, gapstack ${s.version}), in its order (by the SHA-256 of each weather file); summary.json carries them in full.`,
     ...(s.duplicates.length > 0 ? [`Counted once, as identical to another listed file: ${s.duplicates.map((d) => basename(d)).join(', ')}.`] : []),
   ];
-  const assumptions = sitesLightAssumptions(design);
+  const assumptions = [`weather files (SHA-256 of their bytes): ${s.rows.map((r) => `${String(r.file)} ${String(r.site_key).slice(0, 12)}…`).join(', ')}`, ...sitesLightAssumptions(design)];
   return {
     heading: `Sites: the question at ${s.rows.length} site${s.rows.length === 1 ? '' : 's'}`,
     intro,
     table: { groups, head, rows },
-    mapSvg: svg,
-    mapCaption,
+    maps: maps.map((m) => ({ id: m.chart.name, svg: m.chart.svg, caption: m.caption })),
     reading: sitesReading(design, s.rows, am15gGapsEv),
     assumptions,
-    charts: [chart],
+    charts: maps.map((m) => m.chart),
     summary: {
       question_sha256: s.questionSha256,
       sites_sha256: s.sitesSha256,

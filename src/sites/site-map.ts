@@ -125,6 +125,13 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
   } else {
     projection.fitExtent([[10, 10], [mapW - 10, MAP_HEIGHT - 10]], { type: 'Sphere' });
   }
+  // The whole Earth is about twice as wide as tall: the map is as tall as the projected sphere, with no empty bands above and below.
+  let mapH = MAP_HEIGHT;
+  if (!regional) {
+    const [[, y0], [, y1]] = geoPath(projection).bounds({ type: 'Sphere' });
+    mapH = Math.max(BAR.height + 60, Math.ceil(y1 - y0 + 20));
+    projection.fitExtent([[10, 10], [mapW - 10, mapH - 10]], { type: 'Sphere' });
+  }
   const path = geoPath(projection).digits(1);
 
   const values = valid.map((p) => p.value).filter((v): v is number => v !== null && Number.isFinite(v));
@@ -134,12 +141,12 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
   const id = inp.id ?? 'site-map';
 
   const captionLines = inp.caption.flatMap((c) => wrap(c, 130));
-  const height = MAP_HEIGHT + 16 + captionLines.length * CAPTION_LINE + 8;
+  const height = captionLines.length > 0 ? mapH + 16 + captionLines.length * CAPTION_LINE + 8 : mapH;
   const parts: string[] = [];
   parts.push(`<svg xmlns="http://www.w3.org/2000/svg" id="${xml(id)}" class="gs-chart gs-site-map" data-colour-lo="${nlo}" data-colour-hi="${nhi}" width="${SITE_MAP_WIDTH}" height="${height}" viewBox="0 0 ${SITE_MAP_WIDTH} ${height}" font-family="${FONT_FAMILY}" font-size="12" role="img">`);
   parts.push(`<title>${xml(`Sites coloured by ${inp.valueLabel}`)}</title>`);
   parts.push(`<rect width="${SITE_MAP_WIDTH}" height="${height}" fill="#ffffff"/>`);
-  parts.push(`<defs><clipPath id="${xml(id)}-clip"><rect x="0" y="0" width="${mapW}" height="${MAP_HEIGHT}"/></clipPath></defs>`);
+  parts.push(`<defs><clipPath id="${xml(id)}-clip"><rect x="0" y="0" width="${mapW}" height="${mapH}"/></clipPath></defs>`);
   parts.push(`<g clip-path="url(#${xml(id)}-clip)">`);
   parts.push(`<path d="${path({ type: 'Sphere' }) ?? ''}" fill="#eef4f8" stroke="#9fb3c2" stroke-width="0.8"/>`);
   parts.push(`<path d="${path(geoGraticule10()) ?? ''}" fill="none" stroke="#d5e0e8" stroke-width="0.5"/>`);
@@ -150,7 +157,7 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
     const xy = projection([p.lonDeg, p.latDeg]);
     return xy ? [{ p, x: xy[0], y: xy[1] }] : [];
   });
-  const board = new LabelBoard({ x0: 2, y0: 2, x1: mapW - 2, y1: MAP_HEIGHT - 2 }, 2);
+  const board = new LabelBoard({ x0: 2, y0: 2, x1: mapW - 2, y1: mapH - 2 }, 2);
   for (const d of dots) board.reserve(pointBox(d.x, d.y, 6.5));
   for (const { p, x, y } of dots) {
     const fill = p.value === null || !Number.isFinite(p.value) ? 'none' : colour(p.value);
@@ -175,7 +182,7 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
 
   // Colour bar.
   const bx = mapW + BAR.gap;
-  const by = (MAP_HEIGHT - BAR.height) / 2;
+  const by = (mapH - BAR.height) / 2;
   const stops = Array.from({ length: 11 }, (_, i) => `<stop offset="${i * 10}%" stop-color="${colour(nhi - ((nhi - nlo) * i) / 10)}"/>`).join('');
   parts.push(`<defs><linearGradient id="${xml(id)}-bar" x1="0" y1="0" x2="0" y2="1">${stops}</linearGradient></defs>`);
   const labelLines = wrap(inp.valueLabel, 18).slice(0, 3);
@@ -189,7 +196,7 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
   if (values.length < valid.length) {
     parts.push(`<circle cx="${bx + 6}" cy="${by + BAR.height + 24}" r="5" fill="none" stroke="#222222"/><text x="${bx + 16}" y="${by + BAR.height + 28}" font-size="10">no value</text>`);
   }
-  captionLines.forEach((line, i) => parts.push(`<text x="10" y="${MAP_HEIGHT + 20 + i * CAPTION_LINE}" font-size="11" fill="#333333">${xml(line)}</text>`));
+  captionLines.forEach((line, i) => parts.push(`<text x="10" y="${mapH + 20 + i * CAPTION_LINE}" font-size="11" fill="#333333">${xml(line)}</text>`));
   parts.push('</svg>');
   return parts.join('\n');
 }

@@ -178,7 +178,11 @@ describe('the report of a design with sites', () => {
     expect(section).toMatch(/<h2>Sites: the question at 2 sites<\/h2>/);
     expect(section).toMatch(/<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" id="sites-map" class="gs-chart gs-site-map"/);
     expect(section).toMatch(/class="gs-colourbar"/);
-    expect((section.match(/<circle /g) ?? []).length).toBe(2);
+    // Two maps (the 2T top gap; the 4T-over-2T gain, as both wirings are asked), one dot per site on each.
+    expect((section.match(/<circle /g) ?? []).length).toBe(4);
+    expect(section).toMatch(/<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" id="sites-map-4t-gain" class="gs-chart gs-site-map"/);
+    expect(section).toMatch(/<figcaption>Each dot is one site, coloured by the 4T over 2T yield gain \[%\]: one colour scale, [\d.−-]+–[\d.]+ %/);
+    expect(section).toMatch(/weather files \(SHA-256 of their bytes\): [a-z-]+\.epw [0-9a-f]{12}…, [a-z-]+\.epw [0-9a-f]{12}…/);
     expect(section).toMatch(/<figcaption>Each dot is one site, coloured by the 2T site-optimal top gap \[eV\]: one colour scale, [\d.]+–[\d.]+ eV/);
     expect(section).toMatch(/Reading the sites/);
     expect(section).toMatch(/plane: fixed plane tilted at each site&#x27;s latitude, facing the equator/);
@@ -191,15 +195,18 @@ describe('the report of a design with sites', () => {
     const csv = readFileSync(join(figures, 'sites-map.csv'), 'utf8').split('\n');
     expect(csv[0]).toMatch(/^# tool: gapstack /);
     expect(csv.find((l) => l.startsWith('# light:'))).toMatch(/2 sites\), site set SHA-256 [0-9a-f]{64}/);
-    expect(csv.find((l) => l.startsWith('# units:'))).toMatch(/top_gap_ev \[eV\]/);
+    expect(csv.find((l) => l.startsWith('# units:'))).toMatch(/2t_top_gap_ev \[eV\]/);
     expect(csv.find((l) => l.startsWith('# caution:'))).toMatch(/theoretical|detailed-balance limits/);
     const head = csv.findIndex((l) => l.startsWith('site,'));
     expect(csv[head]).toBe('site,file,lat_deg,lon_deg,2t_top_gap_ev');
     // The drawn value is the batch's 2T top gap of each site, in the batch's order.
     expect(csv.slice(head + 1, head + 3).map((l) => Number(l.split(',').at(-1)))).toEqual(batchRows.map((r) => (r['2t_gaps_ev'] as number[])[0]));
+    // The gain map draws (4T − 2T) / 2T of the batch's yields.
+    const gain = readFileSync(join(figures, 'sites-map-4t-gain.csv'), 'utf8').split('\n').filter((l) => l !== '' && !l.startsWith('#')).slice(1);
+    expect(gain.map((l) => Number(l.split(',').at(-1)))).toEqual(batchRows.map((r) => Number(((((r['4t_yield_kwh_m2'] as number) - (r['2t_yield_kwh_m2'] as number)) / (r['2t_yield_kwh_m2'] as number)) * 100).toFixed(4))));
     const json = JSON.parse(readFileSync(join(figures, 'sites-map.json'), 'utf8'));
     expect(json.meta.light).toMatchObject({ kind: 'sites', sites: 2 });
-    expect(json.meta.units.top_gap_ev).toBe('eV');
+    expect(json.meta.units['2t_top_gap_ev']).toBe('eV');
     expect(readFileSync(join(figures, 'sites-map.png')).subarray(1, 4).toString()).toBe('PNG');
   });
 });
