@@ -11,6 +11,7 @@ import { powerWeight } from '../light/ensemble-weights.js';
 import { resolveSpectrum } from '../light/sources.js';
 import { parseUnitDeclaration } from '../light/table-file.js';
 import { listWeatherFiles } from '../light/weather/list.js';
+import { noteInput } from '../io/inputs.js';
 import { ereFromVocLoss } from '../junction/radiative.js';
 import { familyFromEntry, gapAtTemperature, gapReach, getFamily, type AbsorberFamily } from '../materials/index.js';
 import type { SubcellConstraint } from '../search/design-search.js';
@@ -84,6 +85,8 @@ function resolveSites(src: Located, f: DesignFile): DesignSites | undefined {
   const tracking = s.tracking ?? 'none';
   if (tracking === 'single-axis' && s.tilt !== 0) throw designError(src, ['sites', 'tilt'], `single-axis tracking turns about a horizontal axis: give tilt 0 (azimuth is the axis azimuth), got ${JSON.stringify(s.tilt)}`);
   const files = s.files.flatMap((p, k) => at(src, ['sites', 'files', k], () => listWeatherFiles([relativeTo(src, p)])));
+  // Inputs of the run from now on (read later, site by site): no output may replace one.
+  for (const file of files) noteInput(file);
   return {
     files,
     plane: { tilt: s.tilt, azimuth: s.azimuth },

@@ -5,7 +5,7 @@
  * same numbers, same order — with the map, the reading and the rows in
  * summary.json.
  */
-import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
@@ -208,6 +208,29 @@ describe('the report of a design with sites', () => {
     expect(json.meta.light).toMatchObject({ kind: 'sites', sites: 2 });
     expect(json.meta.units['2t_top_gap_ev']).toBe('eV');
     expect(readFileSync(join(figures, 'sites-map.png')).subarray(1, 4).toString()).toBe('PNG');
+  });
+});
+
+describe('a report whose sites cannot all be answered', () => {
+  test('a malformed weather file stops the report with exit-2 words naming it; nothing is written and the temporary rows are gone', async () => {
+    const folder = join(work, 'bad-sites');
+    mkdirSync(folder, { recursive: true });
+    writeFileSync(join(folder, 'broken.epw'), 'LOCATION,Nowhere\nthis is not an EPW file\n');
+    const p = design('bad.yaml', `name: bad\nsites:\n  files: [bad-sites]\n  tilt: 20\n  azimuth: 180\n${STACK}wirings: [series]\nsearch:\n  step: 0.02\nmap:\n  step: 0.05\n  pairs:\n    - axes: [1, 2]\n      x: [1.6, 2.2]\n      y: [1.0, 1.2]\n`);
+    const out = join(work, 'bad.html');
+    const err = await reportCommand({ design: p, output: out }).then(() => null, (e: unknown) => e);
+    expect(err).toBeInstanceOf(UserError);
+    expect((err as Error).message).toMatch(/broken\.epw/);
+    expect(existsSync(out)).toBe(false);
+    const { trackedTemps } = await import('../../src/io/temp-files.js');
+    expect(trackedTemps()).toEqual([]);
+  }, LONG);
+
+  test('a figures folder that holds a weather file of the design is refused before any work', async () => {
+    const p = design('inside.yaml', `name: inside\nsites:\n  files: [two-sites]\n  tilt: 20\n  azimuth: 180\n${STACK}`);
+    mkdirSync(join(work, 'two-sites'), { recursive: true });
+    writeFileSync(join(work, 'two-sites', 'a.epw'), readFileSync(join(SITES, 'verdance.epw')));
+    await expect(reportCommand({ design: p, output: join(work, 'inside.html'), figures: join(work, 'two-sites') })).rejects.toThrow(/--figures .*two-sites holds an input of this run/);
   });
 });
 
