@@ -85,7 +85,8 @@ export function questionText(design: Design): string {
   const compare = wirings.length > 1 ? `, and how do ${joinWords(wirings)} wiring compare` : ` with ${wirings[0]} wiring`;
   return (
     `Which band gaps give a ${n}-subcell stack (top first) — ${design.subcells.map((s) => constraintPhrase(s, design)).join('; ')} — the highest detailed-balance ${objective} ` +
-    `under ${lightPhrase(design)} ${temperaturePhrase(design)}${compare}? How far may each gap stray before the ${objective} falls by more than ${fx(design.loss * 100, 1)} % (relative)?`
+    `under ${lightPhrase(design)} ${temperaturePhrase(design)}${compare}? How far may each gap stray before the ${objective} falls by more than ${fx(design.loss * 100, 1)} % (relative)?` +
+    (design.sites ? ` And at each site the design names (${design.sites.files.length} weather files), under its weather year: which gaps win there, and what does the AM1.5G answer give up (the Sites section)?` : '')
   );
 }
 
