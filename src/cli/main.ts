@@ -179,6 +179,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .positional('design', { type: 'string', describe: 'design file (see examples/ and schema/design.schema.json)' })
         .option('output', { alias: 'o', type: 'string', describe: 'report file to write (default report.html), atomically' })
         .option('figures', { type: 'string', describe: 'also write every chart as SVG and PNG, with its data as CSV and JSON, into this folder' })
+        .option('sites-rows', { type: 'string', describe: 'a design with sites: take the Sites rows from this batch already run (gapstack sites, merged; .csv or .jsonl) instead of running it again' })
         .option('json', { type: 'boolean', default: false, describe: 'print a JSON summary of the answer' }),
     async (a) => print(await (await import('./report-command.js')).reportCommand(a as never)),
   );

@@ -25,6 +25,8 @@ export interface ReportArgs {
   figures?: string;
   /** Return a JSON summary instead of text. */
   json?: boolean;
+  /** Rows of a batch already run over the design's sites (merged part, .csv or .jsonl), instead of running it again. */
+  sitesRows?: string;
 }
 
 /**
@@ -55,7 +57,8 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   const { reportStageCount } = await import('../report/compute.js');
   // Long work shows where it is on a terminal: each scenario's and wiring's search and map, then the figures.
   const sitesDesign = !set.named && set.scenarios[0]?.sites ? set.scenarios[0] : null;
-  const stageCount = set.scenarios.reduce((n, d) => n + reportStageCount(d), 0) + (sitesDesign ? 1 : 0) + (a.figures !== undefined ? 1 : 0);
+  if (a.sitesRows !== undefined && !sitesDesign) throw new UserError(`--sites-rows needs a design that names its sites (sites: in ${a.design})`);
+  const stageCount = set.scenarios.reduce((n, d) => n + reportStageCount(d), 0) + (sitesDesign && a.sitesRows === undefined ? 1 : 0) + (a.figures !== undefined ? 1 : 0);
   const bar = a.json ? null : await startStagedProgress('report', stageCount);
   const stage = bar ? (name: string) => bar.stage(name) : undefined;
   let built: { html: string; charts: import('../report/build.js').Chart[]; summary: Record<string, unknown> };
@@ -71,7 +74,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
     } else if (sitesDesign) {
       // Several sites: the answer under AM1.5G, then the batch over the sites in-process (the engine of gapstack sites), then the page.
       const { buildSitesReport } = await import('../sites/report-section.js');
-      const r = await buildSitesReport(sitesDesign, { date: reportDate(), stage });
+      const r = await buildSitesReport(sitesDesign, { date: reportDate(), stage, rowsFile: a.sitesRows });
       built = r;
       outcomes = r.data.outcomes.map((o) => ({ label: o.wiring.key, o }));
     } else {

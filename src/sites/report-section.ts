@@ -5,11 +5,12 @@
  * folder and read back), then the site table, the site map, a plain reading
  * of the rows and the assumptions of the site light.
  */
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import { constraintRangeEv, type Design, type DesignSites } from '../design/index.js';
 import { UserError } from '../errors.js';
+import { noteInput } from '../io/inputs.js';
 import { discardTemp, trackTemp } from '../io/temp-files.js';
 import { toolVersion } from '../io/version.js';
 import { FAIMAN_DEFAULT } from '../light/atmosphere.js';
@@ -21,11 +22,11 @@ import type { Chart, FigureMeta } from '../report/figure-data.js';
 import type { SitesSectionView } from '../report/sites-view.js';
 import { fx, wiringTitle } from '../report/view.js';
 import { mapColumn, mapPoints, readRowsFile, type SiteRow } from './map-data.js';
-import { sitesSha256 } from './parts.js';
+import { columnsFor, CSV_HEADER_LINES, parseCsvHeader, parseJsonHeader, sitesSha256 } from './parts.js';
 import type { BatchPlane } from './plane.js';
 import { siteQuestion, wiringPrefix, type SiteLightSource } from './question.js';
-import { runSites, type SiteQuestion } from './run.js';
-import { WHOLE } from './shard.js';
+import { identifySites, runSites, type SiteQuestion } from './run.js';
+import { shardLabel, WHOLE } from './shard.js';
 import { siteColourDomain, siteMapSvg, type SiteColourDomain } from './site-map.js';
 import { siteLightHashOptions, weatherSiteLight } from './weather-light.js';
 
@@ -78,6 +79,43 @@ export async function runDesignSites(design: Design, onProgress?: (fraction: num
   } finally {
     discardTemp(dir);
   }
+}
+
+/** A CSV row's text values as the JSON Lines rows hold them: numbers as numbers, gaps as lists, site names as text. */
+function typedRow(r: SiteRow): SiteRow {
+  const out: SiteRow = {};
+  for (const [k, v] of Object.entries(r)) {
+    const text = String(v ?? '');
+    if (k === 'site_key' || k === 'file' || k === 'site') out[k] = text;
+    else if (k.endsWith('_gaps_ev')) out[k] = text === '' ? [] : text.split(';').map(Number);
+    else out[k] = text === '' ? null : Number(text);
+  }
+  return out;
+}
+
+/**
+ * The rows of a batch already run (`gapstack sites`, merged when sharded),
+ * checked to answer this design's question over its own weather files with
+ * this gapstack version, so the Sites section can use them as they are.
+ */
+export function designSitesRowsFromFile(design: Design, path: string): DesignSitesRows {
+  const s = sitesOf(design);
+  const question = designSitesQuestion(design);
+  const file = readRowsFile(path);
+  const lines = readFileSync(path, 'utf8').split('\n');
+  const id = /\.csv$/i.test(path) ? parseCsvHeader(lines.slice(0, CSV_HEADER_LINES), path) : parseJsonHeader(lines[0] ?? '', path);
+  if (id.shard.count !== 1) throw new UserError(`${path}: holds shard ${shardLabel(id.shard)} of a batch; merge every shard first (gapstack sites merge) and give the merged file`);
+  if (id.version !== toolVersion()) throw new UserError(`${path}: computed by gapstack ${id.version}, this is ${toolVersion()}; rerun the batch or leave out --sites-rows`);
+  if (id.questionSha256 !== question.questionSha256) {
+    throw new UserError(`${path}: rows of another question (question SHA-256 ${id.questionSha256.slice(0, 12)}…, this design's ${question.questionSha256.slice(0, 12)}…): the design, its plane or its light model differ; rerun gapstack sites with this design or leave out --sites-rows`);
+  }
+  const { sites, duplicates } = identifySites(s.files);
+  if (id.sitesSha256 !== sitesSha256(sites.map((x) => x.key))) throw new UserError(`${path}: rows of other weather files (${id.sitesTotal} sites) than this design names (${sites.length} sites)`);
+  if (file.rows.length !== id.shardSites) throw new UserError(`${path}: unfinished, ${file.rows.length} of ${id.shardSites} rows; let the batch finish (a rerun resumes)`);
+  if (id.columns.join(',') !== columnsFor(question.wirings).join(',')) throw new UserError(`${path}: columns differ from this design's wirings`);
+  noteInput(path);
+  const rows = /\.csv$/i.test(path) ? file.rows.map(typedRow) : file.rows;
+  return { columns: id.columns, questionSha256: id.questionSha256, sitesSha256: id.sitesSha256, version: id.version, rows, duplicates };
 }
 
 /** The plane in words: "fixed plane tilted 30°, facing azimuth 180° (east of north)". */
@@ -312,14 +350,17 @@ export async function sitesSection(design: Design, s: DesignSitesRows, am15gGaps
 
 /**
  * The whole report of a design with `sites:`: the answer under AM1.5G, the
- * batch over the sites, and the page with its Sites section.
+ * batch over the sites (or its rows from `opts.rowsFile`, a batch already
+ * run and merged), and the page with its Sites section.
  * @param opts.stage named progress stages (the report's, then "sites")
  */
-export async function buildSitesReport(design: Design, opts: { date: Date; stage?: StageReporter }): Promise<BuiltReport> {
+export async function buildSitesReport(design: Design, opts: { date: Date; stage?: StageReporter; rowsFile?: string }): Promise<BuiltReport> {
   const { buildReport } = await import('../report/build.js');
   const { computeReport } = await import('../report/compute.js');
+  // Rows of a batch already run are checked before the work, so a mismatch costs nothing.
+  const given = opts.rowsFile !== undefined ? designSitesRowsFromFile(design, opts.rowsFile) : null;
   const data = computeReport(design, opts.stage);
-  const rows = await runDesignSites(design, opts.stage?.(`sites (${sitesOf(design).files.length} weather files)`));
+  const rows = given ?? (await runDesignSites(design, opts.stage?.(`sites (${sitesOf(design).files.length} weather files)`)));
   const sites = await sitesSection(design, rows, data.outcomes.map((o) => o.search.result.best.gapsEv));
   return buildReport(design, { date: opts.date, data, sites });
 }

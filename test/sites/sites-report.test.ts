@@ -151,6 +151,27 @@ describe('the report of a design with sites', () => {
     await expect(sitesWeatherCommand({ design: plain, weather: [], out: own })).rejects.toThrow(/name the weather files or folders of the sites after the design, or give .*plain\.yaml a sites: list/);
   }, LONG);
 
+  test('--sites-rows takes the rows of the batch already run (JSON Lines or CSV) after checking they answer this design\'s question', async () => {
+    for (const ext of ['jsonl', 'csv']) {
+      const figs = join(work, `figures-from-${ext}`);
+      await reportCommand({ design: path, output: join(work, `from-${ext}.html`), figures: figs, sitesRows: join(work, 'batch', `part-1-of-1.${ext}`) });
+      const again = JSON.parse(readFileSync(join(figs, 'summary.json'), 'utf8'));
+      expect(again.sites.rows, ext).toEqual(summary.sites.rows);
+      expect(again.sites.question_sha256, ext).toBe(summary.sites.question_sha256);
+    }
+    // A part of a sharded batch is not the whole set of sites.
+    const part = join(work, 'shard-part.jsonl');
+    writeFileSync(part, readFileSync(join(work, 'batch', 'part-1-of-1.jsonl'), 'utf8').replace('"shard":"1/1"', '"shard":"1/2"'));
+    await expect(reportCommand({ design: path, output: join(work, 'x.html'), sitesRows: part })).rejects.toThrow(/shard-part\.jsonl: holds shard 1\/2 of a batch; merge every shard first/);
+    // The same files on another plane are another question.
+    const tilted = design('tilted.yaml', readFileSync(path, 'utf8').replace('tilt: latitude', 'tilt: 10'));
+    await expect(reportCommand({ design: tilted, output: join(work, 'x.html'), sitesRows: join(work, 'batch', 'part-1-of-1.jsonl') })).rejects.toThrow(/part-1-of-1\.jsonl: rows of another question/);
+    // A design without sites has no use for them.
+    const plain = design('plain-rows.yaml', `name: p\n${STACK}`);
+    await expect(reportCommand({ design: plain, output: join(work, 'x.html'), sitesRows: join(work, 'batch', 'part-1-of-1.jsonl') })).rejects.toThrow(/--sites-rows needs a design that names its sites/);
+    expect(existsSync(join(work, 'x.html'))).toBe(false);
+  }, LONG);
+
   test('summary.json carries the batch\'s rows: same question, same numbers, same order', () => {
     expect(summary.sites.question_sha256).toBe(batchHeader.question_sha256);
     expect(summary.sites.sites_sha256).toBe(batchHeader.sites_sha256);
