@@ -10,7 +10,7 @@
  * Yield over spectra k: Σ w_k·P_k / Σ w_k·P_in,k (docs/PHYSICS.md §8).
  */
 import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
-import { photonsAboveEv } from '../light/spectrum.js';
+import { photonsAboveEv, stepJscManyAm2 } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
 import { lambertW0OfExp } from '../junction/lambert-w.js';
 import { bestTopAbsorptance, type TopAbsorptanceChoice } from './top-absorptance.js';
@@ -36,15 +36,8 @@ export interface StepObjectiveOptions {
  * where dP/dJ is concave and increasing: started left of its root (u = J_max/(S+1),
  * S = Σ ln(1 + J_ph/J0), below the optimum's u ≈ J/S) it converges monotonically,
  * in about five steps, to |Δy| < 1e-13 (relative current error far below 1e-12).
- *
- * `warm` (one slot) carries y from one call to the next when neighbouring
- * stacks are solved in turn (a map row): a finite warm[0] below y_max starts
- * Newton there. Right of the root, the first step lands left of it (the
- * tangent of a concave increasing function lies above it), and monotone
- * convergence follows, so the answer is the same root to the same tolerance,
- * reached in two or three steps instead of five.
  */
-export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number, warm?: Float64Array): number {
+export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number): number {
   let jMax = Infinity;
   let s = 0;
   for (let i = 0; i < n; i++) {
@@ -53,7 +46,7 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
   }
   if (!(jMax > 0) || !(s > 0)) return 0;
   const yMax = Math.log(jMax);
-  let y = warm !== undefined && warm[0] < yMax ? warm[0] : yMax - Math.log(s + 1);
+  let y = yMax - Math.log(s + 1);
   let j = 0;
   for (let it = 0; it < 100; it++) {
     const t = Math.exp(y);
@@ -78,7 +71,6 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
     }
     y = next;
   }
-  if (warm !== undefined) warm[0] = y;
   j = jMax - Math.exp(y);
   if (!(j > 0)) return 0;
   let sum = 0;
@@ -138,11 +130,8 @@ export class StepObjective implements GapObjective {
     this.j0Cache = new Float64Array(opts.cells * this.temps.length);
   }
 
-  /**
-   * Power [W/m²] from photons-above values q·N(E_i) [A/m²] and radiative J0 [A/m²]
-   * of each cell, under spectrum k; `warm` as for seriesPowerWm2 (one per spectrum).
-   */
-  powerFromTables(k: number, qn: ArrayLike<number>, j0rad: ArrayLike<number>, topA: number, warm?: Float64Array): number {
+  /** Power [W/m²] from photons-above values q·N(E_i) [A/m²] and radiative J0 [A/m²] of each cell, under spectrum k. */
+  powerFromTables(k: number, qn: ArrayLike<number>, j0rad: ArrayLike<number>, topA: number): number {
     const n = this.cells;
     const jph = this.jph;
     const j0 = this.j0;
@@ -160,7 +149,7 @@ export class StepObjective implements GapObjective {
       j0[0] *= topA;
     }
     const vt = this.vt[k];
-    if (this.opts.wiring === 'series') return seriesPowerWm2(jph, j0, n, vt, warm);
+    if (this.opts.wiring === 'series') return seriesPowerWm2(jph, j0, n, vt);
     let p = 0;
     for (let i = 0; i < n; i++) p += singlePowerWm2(jph[i], j0[i], vt);
     return p;
@@ -192,7 +181,7 @@ export class StepObjective implements GapObjective {
     for (let i = 0; i < this.cells; i++) {
       const g = gapsEv[i];
       if (g !== this.lastGapQn[i]) {
-        for (let k = 0; k < ns; k++) this.qnCache[i * ns + k] = ELEMENTARY_CHARGE_C * photonsAboveEv(spectra[k].spectrum, g);
+        stepJscManyAm2(spectra, g, this.qnCache, i * ns);
         this.lastGapQn[i] = g;
       }
       if (g !== this.lastGapJ0[i]) {
