@@ -108,11 +108,18 @@ export class StepObjective implements GapObjective {
   private readonly qnCache: Float64Array;
   private readonly lastGapJ0: Float64Array;
   private readonly j0Cache: Float64Array;
+  /** Per-cell ERE, per-spectrum weight, and whether the cells form one series string: read on every evaluation. */
+  private readonly ere: Float64Array;
+  private readonly weights: Float64Array;
+  private readonly series: boolean;
 
   constructor(opts: StepObjectiveOptions) {
     this.opts = opts;
     this.cells = opts.cells;
     this.vt = Float64Array.from(opts.spectra, (s) => thermalVoltageV(s.tempK));
+    this.ere = Float64Array.from(opts.ere);
+    this.weights = Float64Array.from(opts.spectra, (s) => s.weight);
+    this.series = opts.wiring === 'series';
     this.pinTotal = opts.spectra.reduce((a, s) => a + s.weight * s.spectrum.pinWm2, 0);
     this.jph = new Float64Array(opts.cells);
     this.j0 = new Float64Array(opts.cells);
@@ -135,13 +142,21 @@ export class StepObjective implements GapObjective {
     const n = this.cells;
     const jph = this.jph;
     const j0 = this.j0;
-    const ere = this.opts.ere;
+    const ere = this.ere;
     let prev = 0;
     for (let i = 0; i < n; i++) {
       jph[i] = qn[i] - prev;
       prev = qn[i];
       j0[i] = j0rad[i] / ere[i];
     }
+    return this.powerOfCells(k, topA);
+  }
+
+  /** Power [W/m²] of the cells' photocurrents and J0 in this.jph and this.j0 (top absorptance applied here), under spectrum k. */
+  private powerOfCells(k: number, topA: number): number {
+    const n = this.cells;
+    const jph = this.jph;
+    const j0 = this.j0;
     if (topA !== 1) {
       const band = jph[0];
       jph[0] = topA * band;
@@ -149,7 +164,7 @@ export class StepObjective implements GapObjective {
       j0[0] *= topA;
     }
     const vt = this.vt[k];
-    if (this.opts.wiring === 'series') return seriesPowerWm2(jph, j0, n, vt);
+    if (this.series) return seriesPowerWm2(jph, j0, n, vt);
     let p = 0;
     for (let i = 0; i < n; i++) p += singlePowerWm2(jph[i], j0[i], vt);
     return p;
@@ -170,8 +185,6 @@ export class StepObjective implements GapObjective {
     }));
   }
 
-  private readonly qnScratch = new Float64Array(6);
-  private readonly j0Scratch = new Float64Array(6);
 
   /** Efficiency at a fixed top absorptance [-]. */
   valueAt(gapsEv: ArrayLike<number>, topA: number): number {
@@ -189,14 +202,25 @@ export class StepObjective implements GapObjective {
         this.lastGapJ0[i] = g;
       }
     }
+    // powerFromTables for each spectrum, its cells filled straight from the caches.
+    const n = this.cells;
+    const jph = this.jph;
+    const j0 = this.j0;
+    const ere = this.ere;
+    const qn = this.qnCache;
+    const j0c = this.j0Cache;
+    const weights = this.weights;
     let p = 0;
     for (let k = 0; k < ns; k++) {
       const t = this.tempOf[k];
-      for (let i = 0; i < this.cells; i++) {
-        this.qnScratch[i] = this.qnCache[i * ns + k];
-        this.j0Scratch[i] = this.j0Cache[i * nt + t];
+      let prev = 0;
+      for (let i = 0; i < n; i++) {
+        const q = qn[i * ns + k];
+        jph[i] = q - prev;
+        prev = q;
+        j0[i] = j0c[i * nt + t] / ere[i];
       }
-      p += spectra[k].weight * this.powerFromTables(k, this.qnScratch, this.j0Scratch, topA);
+      p += weights[k] * this.powerOfCells(k, topA);
     }
     return p / this.pinTotal;
   }
