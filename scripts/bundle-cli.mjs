@@ -25,8 +25,8 @@ import * as esbuild from 'esbuild';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const pkg = JSON.parse(readFileSync(`${root}package.json`, 'utf8'));
-const bundled = new Set(['yargs']);
-const external = [...Object.keys(pkg.dependencies ?? {}), ...Object.keys(pkg.devDependencies ?? {})].filter((d) => !bundled.has(d));
+const bundled = new Set(['yargs', 'd3-node']);
+const external = [...Object.keys(pkg.dependencies ?? {}), ...Object.keys(pkg.devDependencies ?? {}), 'canvas'].filter((d) => !bundled.has(d));
 
 /** string-width, loaded on the first string that is not printable ASCII. */
 const deferStringWidth = (name = 'string-width') => ({
@@ -53,6 +53,25 @@ const deferStringWidth = (name = 'string-width') => ({
   },
 });
 
+/**
+ * jsdom (under d3-node) resolves its synchronous-XHR worker file next to its own
+ * module when loaded; from the bundle that path is wrong, so it is resolved from
+ * the installed package instead (null, as jsdom allows, where it cannot be: the
+ * report never makes a request).
+ */
+const jsdomXhrWorker = {
+  name: 'jsdom-xhr-worker',
+  setup(build) {
+    build.onLoad({ filter: /jsdom[\\/]lib[\\/]jsdom[\\/]living[\\/]xhr[\\/]XMLHttpRequest-impl\.js$/ }, (args) => {
+      const text = readFileSync(args.path, 'utf8');
+      const from = 'require.resolve ? require.resolve("./xhr-sync-worker.js") : null';
+      if (!text.includes(from)) throw new Error(`${args.path}: the worker look-up this build rewrites has changed; update scripts/bundle-cli.mjs`);
+      const to = '(() => { try { return require.resolve("jsdom/lib/jsdom/living/xhr/xhr-sync-worker.js"); } catch { return null; } })()';
+      return { contents: text.replace(from, to), loader: 'js' };
+    });
+  },
+};
+
 const outdir = `${root}dist/bundle`;
 rmSync(outdir, { recursive: true, force: true });
 await esbuild.build({
@@ -64,8 +83,10 @@ await esbuild.build({
   target: 'node20',
   outdir,
   external,
-  plugins: [deferStringWidth()],
+  plugins: [deferStringWidth(), jsdomXhrWorker],
   logLevel: 'warning',
+  // Bundled CommonJS code (jsdom under d3-node) calls require() for Node's own modules.
+  banner: { js: "import { createRequire as gapstackCreateRequire } from 'node:module'; const require = gapstackCreateRequire(import.meta.url);" },
   legalComments: 'inline',
   minifyWhitespace: true,
   minifySyntax: true,

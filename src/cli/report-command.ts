@@ -65,28 +65,30 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   let outcomes: { label: string; o: import('../report/outcomes.js').WiringOutcome }[];
   let files: { name: string; data: string | Uint8Array }[] = [];
   try {
+    // With figures, each chart's PNG starts rendering on the thread pool as soon as it is drawn.
+    const figures = a.figures !== undefined ? await import('../report/figures.js') : undefined;
+    const onChart = figures ? (c: { svg: string }) => figures.startPng(c.svg) : undefined;
     if (set.named) {
       // Several scenarios: one comparison table first, then each scenario's own sections.
       const { buildScenarioReport } = await import('../report/scenarios.js');
-      const r = buildScenarioReport(set, { date: reportDate(), stage });
+      const r = buildScenarioReport(set, { date: reportDate(), stage, onChart });
       built = r;
       outcomes = r.built.flatMap((b, k) => b.data.outcomes.map((o) => ({ label: `${set.scenarios[k].name}, ${o.wiring.key}`, o })));
     } else if (sitesDesign) {
       // Several sites: the answer under AM1.5G, then the batch over the sites in-process (the engine of gapstack sites), then the page.
       const { buildSitesReport } = await import('../sites/report-section.js');
-      const r = await buildSitesReport(sitesDesign, { date: reportDate(), stage, rowsFile: a.sitesRows });
+      const r = await buildSitesReport(sitesDesign, { date: reportDate(), stage, onChart, rowsFile: a.sitesRows });
       built = r;
       outcomes = r.data.outcomes.map((o) => ({ label: o.wiring.key, o }));
     } else {
       const { buildReport } = await import('../report/build.js');
-      const r = buildReport(set.scenarios[0], { date: reportDate(), stage });
+      const r = buildReport(set.scenarios[0], { date: reportDate(), stage, onChart });
       built = r;
       outcomes = r.data.outcomes.map((o) => ({ label: o.wiring.key, o }));
     }
-    if (a.figures !== undefined) {
-      const { figureFiles } = await import('../report/figures.js');
+    if (figures) {
       bar?.stage('figures')(0);
-      files = figureFiles(built.charts, built.summary);
+      files = await figures.figureFilesAsync(built.charts, built.summary);
     }
   } finally {
     bar?.stop();

@@ -746,7 +746,7 @@ function loadWideStreaming(file: string, opts: LoadEnsembleOptions): Ensemble | 
       const label = labels[k];
       const spectrum = spectrumOfArrays({
         name: label,
-        sha256: sha256OfTable(wavelengthNm, irradiance),
+        sha256: () => sha256OfTable(wavelengthNm, irradiance),
         source: `column ${k + 2} "${label}" of ${file} (${unitText})`,
         wavelengthNm,
         irradiance,

@@ -12,7 +12,7 @@
 import { ParameterError, UserError, ref, says } from '../errors.js';
 import { FAIMAN_DEFAULT, faimanCellTempC, precipitableWaterFromDewPointCm, standardPressureHpa, type FaimanCoefficients } from './atmosphere.js';
 import type { Ensemble, EnsembleMember } from './ensemble.js';
-import { makeSpectrum, sha256Hex, sha256OfTable } from './spectrum.js';
+import { sha256Hex, sha256OfTable, spectrumOfArrays } from './spectrum.js';
 import { bandIntegralWm2, planeParts, SPECTRL2_RURAL, spectrl2 } from './spectrl2.js';
 import { airMassKastenYoung, sunPosition } from './sun-position.js';
 import { readWeatherFile, type WeatherFile, type WeatherSite } from './weather/index.js';
@@ -181,6 +181,7 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
   const monthly = Array.from({ length: 12 }, (_, k) => ({ month: k + 1, hours: 0, poaKwhM2: 0 }));
   const observer = { latitudeDeg: w.site.latitudeDeg, longitudeDeg: w.site.longitudeDeg, elevationM: w.site.elevationM, pressureHpa: 1013.25, airTempC: 12 };
   const sitePressure = standardPressureHpa(w.site.elevationM);
+  let sharedGrid: Float64Array | undefined;
 
   for (const h of w.hours) {
     if (Number.isFinite(h.ghiWm2)) totals.ghiKwhM2 += h.ghiWm2 / 1000;
@@ -255,7 +256,10 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
       },
       { aoiDeg, tiltDeg },
     );
-    const wl = cs.wavelengthNm;
+    // One grid array for every hour (SPECTRL2's grid is fixed): searches then find each
+    // gap's grid interval once for the whole year.
+    sharedGrid ??= cs.wavelengthNm;
+    const wl = sameValues(sharedGrid, cs.wavelengthNm) ? sharedGrid : cs.wavelengthNm;
     const dniClear = bandIntegralWm2(wl, cs.dniWm2Nm);
     const dhiClear = bandIntegralWm2(wl, cs.dhiWm2Nm);
     let beamScale = dniClear > 1e-3 ? Math.max(0, h.dniWm2) / dniClear : 0;
@@ -283,7 +287,8 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
     members.push({
       label,
       timestamp: new Date(h.endUtcMs + w.site.utcOffsetHours * 3_600_000).toISOString().slice(0, 16),
-      spectrum: makeSpectrum({ name: `${w.site.name} ${label}`, sha256: sha256OfTable(wl, poa), source: `${w.path}:${h.line}`, wavelengthNm: wl, irradiance: poa }),
+      // The hour's own arrays (never changed afterwards), the grid shared by every hour.
+      spectrum: spectrumOfArrays({ name: `${w.site.name} ${label}`, sha256: () => sha256OfTable(wl, poa), source: `${w.path}:${h.line}`, wavelengthNm: wl, irradiance: poa }),
       weight: 1,
       tempK: cellTempC + 273.15,
     });
@@ -335,6 +340,14 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
 }
 
 /** Day of year 1–366 of a local-time instant [ms]. */
+/** Whether two arrays hold the same values. */
+function sameValues(a: Float64Array, b: Float64Array): boolean {
+  if (a === b) return true;
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
 function dayOfYear(localMs: number): number {
   const d = new Date(localMs);
   return Math.floor((localMs - Date.UTC(d.getUTCFullYear(), 0, 1)) / 86_400_000) + 1;

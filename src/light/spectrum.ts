@@ -63,33 +63,49 @@ export function makeSpectrum(input: SpectrumInput): Spectrum {
  * ensemble's members are views into one table, and members with the same rows
  * share one wavelength array. The arrays must not change afterwards.
  */
-export function spectrumOfArrays(input: SpectrumInput & { wavelengthNm: Float64Array; irradiance: Float64Array }): Spectrum {
+export function spectrumOfArrays(input: Omit<SpectrumInput, 'sha256'> & { sha256: string | (() => string); wavelengthNm: Float64Array; irradiance: Float64Array }): Spectrum {
   const n = input.wavelengthNm.length;
   if (n < 2 || input.irradiance.length !== n) throw new UserError('a spectrum needs at least two points with one irradiance each');
   const wavelengthNm = input.wavelengthNm;
   const irradiance = input.irradiance;
-  const photonFlux = new Float64Array(n);
-  for (let i = 0; i < n; i++) photonFlux[i] = (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
+  // φ_λ = E_λ·λ/(hc), computed where it is used (the same expression, so the same values).
   const cumulativePhotons = new Float64Array(n);
+  let fPrev = (irradiance[0] * wavelengthNm[0]) / HC_J_NM;
   for (let i = 1; i < n; i++) {
-    cumulativePhotons[i] = cumulativePhotons[i - 1] + 0.5 * (photonFlux[i] + photonFlux[i - 1]) * (wavelengthNm[i] - wavelengthNm[i - 1]);
+    const f = (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
+    cumulativePhotons[i] = cumulativePhotons[i - 1] + 0.5 * (f + fPrev) * (wavelengthNm[i] - wavelengthNm[i - 1]);
+    fPrev = f;
   }
   const pinWm2 = input.pinWm2 ?? trapezoid(wavelengthNm, irradiance);
   if (!Number.isFinite(pinWm2) || !Number.isFinite(cumulativePhotons[n - 1])) {
     throw new UserError(`${input.name}: the spectrum's values are too large to integrate (its irradiance or photon flux overflows); check the units`);
   }
   if (!(pinWm2 > 0)) throw new UserError(`${input.name}: the spectrum carries no power (P_in = ${pinWm2} W/m²)`);
-  return {
-    name: input.name,
-    sha256: input.sha256,
-    source: input.source,
-    wavelengthNm,
-    irradiance,
-    photonFlux,
-    cumulativePhotons,
-    pinWm2,
-    scale: 1,
-  };
+  const spectrum = { name: input.name, source: input.source, wavelengthNm, irradiance, cumulativePhotons, pinWm2, scale: 1 } as Omit<Spectrum, 'photonFlux' | 'sha256'>;
+  // An hourly year holds thousands of spectra: the photon-flux table (as large as the
+  // irradiance) and a hash given as a function are made on first read, then kept.
+  lazyProperty(spectrum, 'photonFlux', () => {
+    const photonFlux = new Float64Array(n);
+    for (let i = 0; i < n; i++) photonFlux[i] = (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
+    return photonFlux;
+  });
+  const sha = input.sha256;
+  if (typeof sha === 'string') (spectrum as { sha256?: string }).sha256 = sha;
+  else lazyProperty(spectrum, 'sha256', sha);
+  return spectrum as Spectrum;
+}
+
+/** An enumerable property computed on first read and then stored as a plain value (spreads and JSON see it). */
+function lazyProperty<T>(obj: object, key: string, make: () => T): void {
+  Object.defineProperty(obj, key, {
+    enumerable: true,
+    configurable: true,
+    get() {
+      const value = make();
+      Object.defineProperty(obj, key, { value, enumerable: true, writable: false, configurable: false });
+      return value;
+    },
+  });
 }
 
 /** The same spectrum multiplied by a factor (concentration, rescale) [-]. */
@@ -123,9 +139,42 @@ export function photonsBelowWavelength(s: Spectrum, wavelengthNm: number): numbe
   if (wavelengthNm >= w[n - 1]) return s.cumulativePhotons[n - 1];
   const i = bracket(w, wavelengthNm);
   const t = wavelengthNm - w[i];
-  const f = s.photonFlux;
-  const fx = f[i] + ((f[i + 1] - f[i]) * t) / (w[i + 1] - w[i]);
-  return s.cumulativePhotons[i] + 0.5 * (f[i] + fx) * t;
+  // φ at the two grid points, as the photon-flux table holds them (spectrumOfArrays).
+  const e = s.irradiance;
+  const f0 = (e[i] * w[i]) / HC_J_NM;
+  const f1 = (e[i + 1] * w[i + 1]) / HC_J_NM;
+  const fx = f0 + ((f1 - f0) * t) / (w[i + 1] - w[i]);
+  return s.cumulativePhotons[i] + 0.5 * (f0 + fx) * t;
+}
+
+/**
+ * q·N(E) [A/m²] of many spectra at one energy [eV] into out[k]: photonsAboveEv
+ * for each, with the grid interval found once for spectra sharing a
+ * wavelength array (an hourly year's members share one), so the same values.
+ */
+export function stepJscManyAm2(spectra: readonly { spectrum: Spectrum }[], energyEv: number, out: Float64Array, offset = 0): void {
+  const lambda = HC_EV_NM / energyEv;
+  let grid: Float64Array | undefined;
+  let i = -1;
+  for (let k = 0; k < spectra.length; k++) {
+    const s = spectra[k].spectrum;
+    const w = s.wavelengthNm;
+    const n = w.length;
+    if (!(energyEv > 0) || !(lambda > w[0]) || lambda >= w[n - 1]) {
+      out[offset + k] = ELEMENTARY_CHARGE_C * photonsAboveEv(s, energyEv);
+      continue;
+    }
+    if (w !== grid) {
+      grid = w;
+      i = bracket(w, lambda);
+    }
+    const t = lambda - w[i];
+    const e = s.irradiance;
+    const f0 = (e[i] * w[i]) / HC_J_NM;
+    const f1 = (e[i + 1] * w[i + 1]) / HC_J_NM;
+    const fx = f0 + ((f1 - f0) * t) / (w[i + 1] - w[i]);
+    out[offset + k] = ELEMENTARY_CHARGE_C * (s.cumulativePhotons[i] + 0.5 * (f0 + fx) * t);
+  }
 }
 
 /** Photon flux above a photon energy N(E) [m⁻² s⁻¹] for an energy [eV]. */

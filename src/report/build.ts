@@ -154,11 +154,35 @@ export interface SharedScales {
 export const pairKey = (m: { pair: { xCell: number; yCell: number } }): string => `${m.pair.xCell + 1}-${m.pair.yCell + 1}`;
 
 /** Build the report of a design: compute (or take `data` already computed), draw, format; `scales` sets maps' colour scales shared with other reports. */
-export function buildReport(design: Design, opts: { date: Date; stage?: StageReporter; data?: ReportData; scales?: SharedScales; sites?: SitesSectionView }): BuiltReport {
+/** How to build a report: its date, progress, precomputed data, shared colour scales, and a listener for each chart drawn. */
+export interface BuildReportOptions {
+  date: Date;
+  stage?: StageReporter;
+  data?: ReportData;
+  scales?: SharedScales;
+  /** Called with each chart as soon as it is drawn (the report command starts rasterising it then, on another thread). */
+  onChart?: (chart: Chart) => void;
+  /** The Sites section of a design that names several sites, computed above the report (src/sites/report-section.ts). */
+  sites?: SitesSectionView;
+}
+
+/** A list of charts that tells `onChart` of each one added. */
+function chartList(onChart?: (chart: Chart) => void): Chart[] {
+  const charts: Chart[] = [];
+  if (onChart) {
+    charts.push = (...added: Chart[]) => {
+      for (const c of added) onChart(c);
+      return Array.prototype.push.apply(charts, added);
+    };
+  }
+  return charts;
+}
+
+export function buildReport(design: Design, opts: BuildReportOptions): BuiltReport {
   const data = opts.data ?? computeReport(design, opts.stage);
   const version = toolVersion();
   const generated = generatedLine(opts.date);
-  const charts: Chart[] = [];
+  const charts = chartList(opts.onChart);
   // One colour scale per gap pair, shared by every wiring's map of it (or given, shared with other reports).
   const pairCount = Math.max(0, ...data.outcomes.map((o) => o.maps.length));
   const domains = Array.from({ length: pairCount }, (_, j) => {

@@ -4,7 +4,7 @@
  * JSON.
  */
 import { existsSync } from 'node:fs';
-import { Resvg, type ResvgRenderOptions } from '@resvg/resvg-js';
+import { Resvg, renderAsync, type ResvgRenderOptions } from '@resvg/resvg-js';
 import type { Chart, FigureMeta } from './figure-data.js';
 
 /** PNG pixels per SVG user unit. */
@@ -22,6 +22,21 @@ function fontOptions(): ResvgRenderOptions['font'] {
 /** A standalone SVG file's text. */
 export function standaloneSvg(svg: string): string {
   return `<?xml version="1.0" encoding="UTF-8"?>\n${svg}\n`;
+}
+
+/** PNG renders started ahead of need, by SVG text (figureFilesAsync takes them). */
+const pending = new Map<string, Promise<Uint8Array>>();
+
+/**
+ * Start rasterising a chart's SVG at PNG_SCALE on libuv's thread pool, while
+ * the main thread goes on drawing the next chart; figureFilesAsync collects it.
+ */
+export function startPng(svg: string): void {
+  if (pending.has(svg)) return;
+  const job = renderAsync(standaloneSvg(svg), { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font: fontOptions(), logLevel: 'off' }).then((r) => r.asPng());
+  // A render that fails is reported where it is awaited, not as an unhandled rejection.
+  job.catch(() => undefined);
+  pending.set(svg, job);
 }
 
 /** Rasterise an SVG to PNG bytes at PNG_SCALE. */
@@ -70,16 +85,22 @@ export function figureJson(c: Chart): string {
   return `${JSON.stringify(c.meta ? { meta: c.meta, ...c.json } : c.json, null, 2)}\n`;
 }
 
-/** Every file of a figures folder for these charts, plus the summary. */
-export function figureFiles(charts: Chart[], summary: Record<string, unknown>): FigureFile[] {
+/**
+ * Every file of a figures folder for these charts (SVG, PNG, CSV and JSON of
+ * each), plus the summary. The PNGs render on the thread pool, in parallel,
+ * and those startPng began while the charts were drawn are taken as they are.
+ */
+export async function figureFilesAsync(charts: Chart[], summary: Record<string, unknown>): Promise<FigureFile[]> {
+  for (const c of charts) startPng(c.svg);
+  const pngs = await Promise.all(charts.map((c) => pending.get(c.svg) as Promise<Uint8Array>));
+  for (const c of charts) pending.delete(c.svg);
   const files: FigureFile[] = [];
-  for (const c of charts) {
-    const svg = standaloneSvg(c.svg);
-    files.push({ name: `${c.name}.svg`, data: svg });
-    files.push({ name: `${c.name}.png`, data: svgToPng(svg) });
+  charts.forEach((c, k) => {
+    files.push({ name: `${c.name}.svg`, data: standaloneSvg(c.svg) });
+    files.push({ name: `${c.name}.png`, data: pngs[k] });
     files.push({ name: `${c.name}.csv`, data: figureCsv(c) });
     files.push({ name: `${c.name}.json`, data: figureJson(c) });
-  }
+  });
   files.push({ name: 'summary.json', data: `${JSON.stringify(summary, null, 2)}\n` });
   return files;
 }

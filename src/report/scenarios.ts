@@ -7,7 +7,7 @@
  */
 import type { ScenarioSet } from '../design/index.js';
 import type { GapMap } from '../search/map.js';
-import { buildReport, pairKey, type BuiltReport, type Chart } from './build.js';
+import { buildReport, pairKey, type BuildReportOptions, type BuiltReport, type Chart } from './build.js';
 import { sharedColourDomain } from './charts/map-layers.js';
 import { computeReport } from './compute.js';
 import { CAUTION } from './assumptions.js';
@@ -53,7 +53,7 @@ function scopedBody(html: string, prefix: string): string {
 }
 
 /** The combined page, its charts (names prefixed per scenario) and a JSON summary. */
-export function buildScenarioReport(set: ScenarioSet, opts: { date: Date; stage?: StageReporter }): { html: string; charts: Chart[]; summary: Record<string, unknown>; built: BuiltReport[] } {
+export function buildScenarioReport(set: ScenarioSet, opts: Pick<BuildReportOptions, 'date' | 'stage' | 'onChart'>): { html: string; charts: Chart[]; summary: Record<string, unknown>; built: BuiltReport[] } {
   // Scenarios are compared: maps of the same gap pair share one colour scale across every scenario and wiring.
   const datas = set.scenarios.map((d) => computeReport(d, opts.stage));
   const byKey = new Map<string, GapMap[]>();

@@ -70,7 +70,8 @@ export function svgText(s: string): string {
 /** A number for an attribute: fixed decimals, no "-0". */
 export function num(x: number, digits = 2): string {
   const s = x.toFixed(digits);
-  return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
+  // "-0", "-0.00": a negative that rounds to zero loses its sign (a number test, not a pattern: maps format thousands).
+  return s.charCodeAt(0) === 45 && Number(s) === 0 ? s.slice(1) : s;
 }
 
 /** Path data through points, breaking the line at nulls. */

@@ -9,7 +9,8 @@ import { UserError } from '../errors.js';
 import { compositionInterval, type CompositionInterval } from './composition-tolerance.js';
 import { describeGap, gapAtReference, gapAtTemperature, gapReach, type AbsorberFamily } from '../materials/index.js';
 import { buildObjective } from '../stack/objectives.js';
-import { bandEdgeEnergiesEv, searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
+import { searchGaps, searchGapsParallel, type SearchProblem, type SearchResult } from './optimize.js';
+import { weightedBandEdgeEnergiesEv } from './axis.js';
 import type { WeightedSpectrum } from '../light/weighted-spectrum.js';
 import type { GapObjective } from '../stack/gap-objective.js';
 import { StepObjective } from '../stack/step-objective.js';
@@ -30,6 +31,8 @@ export interface DesignSearchRequest {
   stepEv?: number;
   loss: number;
   freeTopAbsorptance?: boolean;
+  /** false: only the optimum is wanted; the tolerance region is left empty (default true). */
+  tolerance?: boolean;
   progress?: (fraction: number) => void;
 }
 
@@ -92,6 +95,7 @@ function problemFor(req: DesignSearchRequest, constraints: SubcellConstraint[]):
     fixed: b.map((x) => x.fixed),
     stepEv: req.stepEv,
     loss: req.loss,
+    tolerance: req.tolerance,
     progress: req.progress,
   };
 }
@@ -115,7 +119,7 @@ function prepareDesign(req: DesignSearchRequest): PreparedDesign {
   if (req.freeTopAbsorptance && !(objective instanceof StepObjective)) {
     throw new UserError('a free top-cell absorptance needs ideal step subcells without coupling, reflectance or interlayer loss');
   }
-  const edges = [...new Set(req.spectra.flatMap((s) => bandEdgeEnergiesEv(s.spectrum, req.spanEv[0], req.spanEv[1])))];
+  const edges = weightedBandEdgeEnergiesEv(req.spectra, req.spanEv[0], req.spanEv[1]);
   const bound = req.constraints.map((c, i) => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? i : -1)).filter((i) => i >= 0);
   const loose = req.constraints.map((c): SubcellConstraint => (c.kind === 'material' && c.family.kind === 'alloy' && !c.fullRange ? { kind: 'free' } : c));
   return { objective, edges, problem: problemFor(req, req.constraints), looseProblem: bound.length > 0 ? problemFor(req, loose) : undefined, bound };

@@ -78,10 +78,7 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
     const qn = new Float64Array(2);
     const j0 = new Float64Array(2);
     const a = so.options.topAbsorptance as number;
-    // Each spectrum's series solve starts from its neighbour's root along a row.
-    const warm = spectra.map(() => new Float64Array(1));
     for (let iy = 0; iy < ny; iy++) {
-      for (const w of warm) w[0] = NaN;
       for (let ix = 0; ix < nx; ix++) {
         if (!(y[iy] < x[ix])) continue;
         let p = 0;
@@ -91,7 +88,7 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
           qn[1] = t.qy[iy];
           j0[0] = t.jx[ix];
           j0[1] = t.jy[iy];
-          p += spectra[k].weight * so.powerFromTables(k, qn, j0, a, warm[k]);
+          p += spectra[k].weight * so.powerFromTables(k, qn, j0, a);
         }
         note(ix, iy, p / so.incidentPowerWm2);
       }

@@ -32,6 +32,8 @@ export interface SearchProblem {
   margin?: number;
   /** Seeds refined locally. */
   seeds?: number;
+  /** false: leave the tolerance region empty (a question that needs only the optimum, as a batch over sites); default true. */
+  tolerance?: boolean;
   progress?: (fraction: number) => void;
 }
 
@@ -255,7 +257,7 @@ function searchOneGap(obj: GapObjective, p: SearchProblem, prep: PreparedSearch)
   for (const r of refined) if (basins.every((b) => Math.abs(b.gapsEv[cell] - r.gapsEv[cell]) > 0.003)) basins.push(r);
   const best = basins[0];
   p.progress?.(0.9);
-  const tolerance = toleranceIntervals(value, best, bounds, p.loss);
+  const tolerance = p.tolerance === false ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
   return {
     best,
     basins: basins.slice(1, 8),
@@ -358,7 +360,7 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
   const basins: Basin[] = [];
   for (const r of refined) if (basins.every((b) => b.gapsEv.some((g, i) => Math.abs(g - r.gapsEv[i]) > 0.003))) basins.push(r);
   const best = basins[0];
-  const tolerance = toleranceIntervals(value, best, bounds, p.loss);
+  const tolerance = p.tolerance === false ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
   return {
     best,
     basins: basins.slice(1, 8),
@@ -375,6 +377,11 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
       seconds: (performance.now() - t0) / 1000,
     },
   };
+}
+
+/** The tolerance region of a question that did not ask for it: its threshold, no intervals. */
+function noTolerance(best: Basin, loss: number): ToleranceRegion {
+  return { loss, threshold: best.value * (1 - loss), intervals: [] };
 }
 
 /** Slice intervals of the tolerance region: each free gap moved alone, others at the optimum. */

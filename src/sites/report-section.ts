@@ -354,7 +354,7 @@ export async function sitesSection(design: Design, s: DesignSitesRows, am15gGaps
  * run and merged), and the page with its Sites section.
  * @param opts.stage named progress stages (the report's, then "sites")
  */
-export async function buildSitesReport(design: Design, opts: { date: Date; stage?: StageReporter; rowsFile?: string }): Promise<BuiltReport> {
+export async function buildSitesReport(design: Design, opts: { date: Date; stage?: StageReporter; onChart?: (chart: Chart) => void; rowsFile?: string }): Promise<BuiltReport> {
   const { buildReport } = await import('../report/build.js');
   const { computeReport } = await import('../report/compute.js');
   // Rows of a batch already run are checked before the work, so a mismatch costs nothing.
@@ -362,5 +362,5 @@ export async function buildSitesReport(design: Design, opts: { date: Date; stage
   const data = computeReport(design, opts.stage);
   const rows = given ?? (await runDesignSites(design, opts.stage?.(`sites (${sitesOf(design).files.length} weather files)`)));
   const sites = await sitesSection(design, rows, data.outcomes.map((o) => o.search.result.best.gapsEv));
-  return buildReport(design, { date: opts.date, data, sites });
+  return buildReport(design, { date: opts.date, data, sites, onChart: opts.onChart });
 }

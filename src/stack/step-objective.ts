@@ -10,7 +10,7 @@
  * Yield over spectra k: Σ w_k·P_k / Σ w_k·P_in,k (docs/PHYSICS.md §8).
  */
 import { ELEMENTARY_CHARGE_C, thermalVoltageV } from '../physics/constants.js';
-import { photonsAboveEv } from '../light/spectrum.js';
+import { photonsAboveEv, stepJscManyAm2 } from '../light/spectrum.js';
 import { j0RadStepAm2 } from '../junction/radiative.js';
 import { lambertW0OfExp } from '../junction/lambert-w.js';
 import { bestTopAbsorptance, type TopAbsorptanceChoice } from './top-absorptance.js';
@@ -36,15 +36,8 @@ export interface StepObjectiveOptions {
  * where dP/dJ is concave and increasing: started left of its root (u = J_max/(S+1),
  * S = Σ ln(1 + J_ph/J0), below the optimum's u ≈ J/S) it converges monotonically,
  * in about five steps, to |Δy| < 1e-13 (relative current error far below 1e-12).
- *
- * `warm` (one slot) carries y from one call to the next when neighbouring
- * stacks are solved in turn (a map row): a finite warm[0] below y_max starts
- * Newton there. Right of the root, the first step lands left of it (the
- * tangent of a concave increasing function lies above it), and monotone
- * convergence follows, so the answer is the same root to the same tolerance,
- * reached in two or three steps instead of five.
  */
-export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number, warm?: Float64Array): number {
+export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number): number {
   let jMax = Infinity;
   let s = 0;
   for (let i = 0; i < n; i++) {
@@ -53,7 +46,7 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
   }
   if (!(jMax > 0) || !(s > 0)) return 0;
   const yMax = Math.log(jMax);
-  let y = warm !== undefined && warm[0] < yMax ? warm[0] : yMax - Math.log(s + 1);
+  let y = yMax - Math.log(s + 1);
   let j = 0;
   for (let it = 0; it < 100; it++) {
     const t = Math.exp(y);
@@ -78,7 +71,6 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
     }
     y = next;
   }
-  if (warm !== undefined) warm[0] = y;
   j = jMax - Math.exp(y);
   if (!(j > 0)) return 0;
   let sum = 0;
@@ -116,11 +108,18 @@ export class StepObjective implements GapObjective {
   private readonly qnCache: Float64Array;
   private readonly lastGapJ0: Float64Array;
   private readonly j0Cache: Float64Array;
+  /** Per-cell ERE, per-spectrum weight, and whether the cells form one series string: read on every evaluation. */
+  private readonly ere: Float64Array;
+  private readonly weights: Float64Array;
+  private readonly series: boolean;
 
   constructor(opts: StepObjectiveOptions) {
     this.opts = opts;
     this.cells = opts.cells;
     this.vt = Float64Array.from(opts.spectra, (s) => thermalVoltageV(s.tempK));
+    this.ere = Float64Array.from(opts.ere);
+    this.weights = Float64Array.from(opts.spectra, (s) => s.weight);
+    this.series = opts.wiring === 'series';
     this.pinTotal = opts.spectra.reduce((a, s) => a + s.weight * s.spectrum.pinWm2, 0);
     this.jph = new Float64Array(opts.cells);
     this.j0 = new Float64Array(opts.cells);
@@ -138,21 +137,26 @@ export class StepObjective implements GapObjective {
     this.j0Cache = new Float64Array(opts.cells * this.temps.length);
   }
 
-  /**
-   * Power [W/m²] from photons-above values q·N(E_i) [A/m²] and radiative J0 [A/m²]
-   * of each cell, under spectrum k; `warm` as for seriesPowerWm2 (one per spectrum).
-   */
-  powerFromTables(k: number, qn: ArrayLike<number>, j0rad: ArrayLike<number>, topA: number, warm?: Float64Array): number {
+  /** Power [W/m²] from photons-above values q·N(E_i) [A/m²] and radiative J0 [A/m²] of each cell, under spectrum k. */
+  powerFromTables(k: number, qn: ArrayLike<number>, j0rad: ArrayLike<number>, topA: number): number {
     const n = this.cells;
     const jph = this.jph;
     const j0 = this.j0;
-    const ere = this.opts.ere;
+    const ere = this.ere;
     let prev = 0;
     for (let i = 0; i < n; i++) {
       jph[i] = qn[i] - prev;
       prev = qn[i];
       j0[i] = j0rad[i] / ere[i];
     }
+    return this.powerOfCells(k, topA);
+  }
+
+  /** Power [W/m²] of the cells' photocurrents and J0 in this.jph and this.j0 (top absorptance applied here), under spectrum k. */
+  private powerOfCells(k: number, topA: number): number {
+    const n = this.cells;
+    const jph = this.jph;
+    const j0 = this.j0;
     if (topA !== 1) {
       const band = jph[0];
       jph[0] = topA * band;
@@ -160,7 +164,7 @@ export class StepObjective implements GapObjective {
       j0[0] *= topA;
     }
     const vt = this.vt[k];
-    if (this.opts.wiring === 'series') return seriesPowerWm2(jph, j0, n, vt, warm);
+    if (this.series) return seriesPowerWm2(jph, j0, n, vt);
     let p = 0;
     for (let i = 0; i < n; i++) p += singlePowerWm2(jph[i], j0[i], vt);
     return p;
@@ -181,8 +185,6 @@ export class StepObjective implements GapObjective {
     }));
   }
 
-  private readonly qnScratch = new Float64Array(6);
-  private readonly j0Scratch = new Float64Array(6);
 
   /** Efficiency at a fixed top absorptance [-]. */
   valueAt(gapsEv: ArrayLike<number>, topA: number): number {
@@ -192,7 +194,7 @@ export class StepObjective implements GapObjective {
     for (let i = 0; i < this.cells; i++) {
       const g = gapsEv[i];
       if (g !== this.lastGapQn[i]) {
-        for (let k = 0; k < ns; k++) this.qnCache[i * ns + k] = ELEMENTARY_CHARGE_C * photonsAboveEv(spectra[k].spectrum, g);
+        stepJscManyAm2(spectra, g, this.qnCache, i * ns);
         this.lastGapQn[i] = g;
       }
       if (g !== this.lastGapJ0[i]) {
@@ -200,14 +202,25 @@ export class StepObjective implements GapObjective {
         this.lastGapJ0[i] = g;
       }
     }
+    // powerFromTables for each spectrum, its cells filled straight from the caches.
+    const n = this.cells;
+    const jph = this.jph;
+    const j0 = this.j0;
+    const ere = this.ere;
+    const qn = this.qnCache;
+    const j0c = this.j0Cache;
+    const weights = this.weights;
     let p = 0;
     for (let k = 0; k < ns; k++) {
       const t = this.tempOf[k];
-      for (let i = 0; i < this.cells; i++) {
-        this.qnScratch[i] = this.qnCache[i * ns + k];
-        this.j0Scratch[i] = this.j0Cache[i * nt + t];
+      let prev = 0;
+      for (let i = 0; i < n; i++) {
+        const q = qn[i * ns + k];
+        jph[i] = q - prev;
+        prev = q;
+        j0[i] = j0c[i * nt + t] / ere[i];
       }
-      p += spectra[k].weight * this.powerFromTables(k, this.qnScratch, this.j0Scratch, topA);
+      p += weights[k] * this.powerOfCells(k, topA);
     }
     return p / this.pinTotal;
   }
