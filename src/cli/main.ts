@@ -180,6 +180,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('output', { alias: 'o', type: 'string', describe: 'report file to write (default report.html), atomically' })
         .option('figures', { type: 'string', describe: 'also write every chart as SVG and PNG, with its data as CSV and JSON, into this folder' })
         .option('sites-rows', { type: 'string', describe: 'a design with sites: take the Sites rows from this batch already run (gapstack sites, merged; .csv or .jsonl) instead of running it again' })
+        .option('accept-large', { type: 'boolean', default: false, describe: 'a design with sites: run its batch even when the size check (stacks × hours of a year) estimates hours of work per site' })
         .option('json', { type: 'boolean', default: false, describe: 'print a JSON summary of the answer' }),
     async (a) => print(await (await import('./report-command.js')).reportCommand(a as never)),
   );

@@ -27,6 +27,8 @@ export interface ReportArgs {
   json?: boolean;
   /** Rows of a batch already run over the design's sites (merged part, .csv or .jsonl), instead of running it again. */
   sitesRows?: string;
+  /** Run a design's batch over sites even when the size check estimates hours of work per site. */
+  acceptLarge?: boolean;
 }
 
 /**
@@ -58,6 +60,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   // Long work shows where it is on a terminal: each scenario's and wiring's search and map, then the figures.
   const sitesDesign = !set.named && set.scenarios[0]?.sites ? set.scenarios[0] : null;
   if (a.sitesRows !== undefined && !sitesDesign) throw new UserError(`--sites-rows needs a design that names its sites (sites: in ${a.design})`);
+  if (sitesDesign && a.sitesRows === undefined) (await import('./sites-command.js')).checkSiteBatchSize(sitesDesign, "report's batch over sites (per site)", Boolean(a.acceptLarge));
   const stageCount = set.scenarios.reduce((n, d) => n + reportStageCount(d), 0) + (sitesDesign && a.sitesRows === undefined ? 1 : 0) + (a.figures !== undefined ? 1 : 0);
   const bar = a.json ? null : await startStagedProgress('report', stageCount);
   const stage = bar ? (name: string) => bar.stage(name) : undefined;

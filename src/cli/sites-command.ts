@@ -3,7 +3,7 @@
  * task's shard of them, into part files; `gapstack sites merge` combines the
  * parts of all shards.
  */
-import { loadDesign } from '../design/index.js';
+import { loadDesign, type Design } from '../design/index.js';
 import { UserError } from '../errors.js';
 import { CAUTION } from '../report/assumptions.js';
 import { mergeParts } from '../sites/merge.js';
@@ -104,6 +104,17 @@ export interface SitesWeatherArgs extends SitesArgs, Omit<WeatherArgs, 'weather'
 /** The most hourly spectra one site's year can give (a leap year of daylight and night). */
 const HOURS_IN_A_LEAP_YEAR = 8784;
 
+/**
+ * The size check once per batch, before any site: the design's search grid
+ * times the most hours a year can hold, per wiring (`gapstack sites`, and
+ * `gapstack report` on a design that names sites).
+ */
+export function checkSiteBatchSize(design: Design, what: string, accepted: boolean): void {
+  const openCells = design.subcells.filter((c) => c.constraint.kind !== 'fixed').length;
+  const stacks = searchStacks(design.subcells.map((c) => c.constraint), design.spanEv, design.searchStepEv ?? defaultStepEv(openCells));
+  checkWorkSize(what, stacks * design.wirings.length, HOURS_IN_A_LEAP_YEAR + 1, accepted);
+}
+
 /** `gapstack sites DESIGN WEATHER… --tilt --azimuth`: each site's light is its weather file's hourly year on that plane. */
 export async function sitesWeatherCommand(a: SitesWeatherArgs): Promise<string> {
   if ((a.weather ?? []).length === 0) return sitesOfDesignCommand(a);
@@ -111,11 +122,7 @@ export async function sitesWeatherCommand(a: SitesWeatherArgs): Promise<string> 
   const plane = parsePlane(String(a.tilt), String(a.azimuth));
   // The engine's own option parser for everything but the plane, which may differ per site here.
   const { tiltDeg: _t, azimuthDeg: _a, ...model } = siteOptionsFromArgs({ ...a, tilt: '0', azimuth: '0' });
-  // The size check once per batch: the design's search grid times the most hours a year can hold, per wiring.
-  const design = await loadDesign(a.design);
-  const openCells = design.subcells.filter((c) => c.constraint.kind !== 'fixed').length;
-  const stacks = searchStacks(design.subcells.map((c) => c.constraint), design.spanEv, design.searchStepEv ?? defaultStepEv(openCells));
-  checkWorkSize('batch (per site)', stacks * design.wirings.length, HOURS_IN_A_LEAP_YEAR + 1, Boolean(a.acceptLarge));
+  checkSiteBatchSize(await loadDesign(a.design), 'batch (per site)', Boolean(a.acceptLarge));
   const { siteLightHashOptions, weatherSiteLight } = await import('../sites/weather-light.js');
   // Every option that changes a number enters the question's hash, so parts of different planes or models never merge.
   return sitesCommand(a, weatherSiteLight(plane, model), siteLightHashOptions(plane, model));
@@ -145,9 +152,7 @@ async function sitesOfDesignCommand(a: SitesWeatherArgs): Promise<string> {
   if (!s) throw new UserError(`name the weather files or folders of the sites after the design, or give ${a.design} a sites: list`);
   const given = LIGHT_FLAGS.filter(([k]) => a[k] !== undefined).map(([, flag]) => `--${flag}`);
   if (given.length > 0) throw new UserError(`${given.join(', ')}: ${a.design} sets the plane and light model in its sites:; change them there, or name weather files on the command line`);
-  const openCells = design.subcells.filter((c) => c.constraint.kind !== 'fixed').length;
-  const stacks = searchStacks(design.subcells.map((c) => c.constraint), design.spanEv, design.searchStepEv ?? defaultStepEv(openCells));
-  checkWorkSize('batch (per site)', stacks * design.wirings.length, HOURS_IN_A_LEAP_YEAR + 1, Boolean(a.acceptLarge));
+  checkSiteBatchSize(design, 'batch (per site)', Boolean(a.acceptLarge));
   const { siteLightHashOptions, weatherSiteLight } = await import('../sites/weather-light.js');
   return sitesCommand({ ...a, weather: s.files }, weatherSiteLight(s.plane, s.model), siteLightHashOptions(s.plane, s.model));
 }

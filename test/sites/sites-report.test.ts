@@ -247,6 +247,13 @@ describe('a report whose sites cannot all be answered', () => {
     expect(trackedTemps()).toEqual([]);
   }, LONG);
 
+  test('a batch estimated at hours per site is refused before any work unless accepted, as gapstack sites refuses it', async () => {
+    const p = design('huge.yaml', `name: huge\nsites:\n  files: [${join(SITES, 'orvale.epw')}]\n  tilt: 20\n  azimuth: 180\nsubcells:\n  - free: true\n  - free: true\n  - free: true\n  - free: true\nsearch:\n  step: 0.005\n`);
+    await expect(reportCommand({ design: p, output: join(work, 'huge.html') })).rejects.toThrow(/this report's batch over sites \(per site\) would evaluate about [\d.]+e\d+ stack–spectrum pairs/);
+    await expect(sitesWeatherCommand({ design: p, weather: [], out: join(work, 'huge') })).rejects.toThrow(/this batch \(per site\) would evaluate about/);
+    expect(existsSync(join(work, 'huge.html'))).toBe(false);
+  });
+
   test('a figures folder that holds a weather file of the design is refused before any work', async () => {
     const p = design('inside.yaml', `name: inside\nsites:\n  files: [two-sites]\n  tilt: 20\n  azimuth: 180\n${STACK}`);
     mkdirSync(join(work, 'two-sites'), { recursive: true });
