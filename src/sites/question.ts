@@ -11,7 +11,7 @@ import type { Design, DesignWiring } from '../design/index.js';
 import { UserError } from '../errors.js';
 import { am15g } from '../light/sources.js';
 import type { LabelledSpectrum } from '../light/weighted-spectrum.js';
-import { runDesignSearch, type DesignSearchRequest } from '../search/design-search.js';
+import { runDesignSearch, withFamilySlopes, type DesignSearchRequest } from '../search/design-search.js';
 import type { SiteResult, SiteWiringResult } from './parts.js';
 import type { SiteQuestion } from './run.js';
 
@@ -47,7 +47,8 @@ export function questionSha256(designSha256: string, options: Record<string, str
 
 function request(design: Design, w: DesignWiring, spectra: DesignSearchRequest['spectra']): DesignSearchRequest {
   return {
-    template: w.template,
+    // Under a site's hours, material-bound gaps are stated at 300 K and move with each hour's cell temperature, whatever light the design file itself names (docs/PHYSICS.md §10).
+    template: withFamilySlopes(w.template, design.subcells.map((s) => s.constraint)),
     spectra,
     constraints: design.subcells.map((s) => s.constraint),
     spanEv: design.spanEv,

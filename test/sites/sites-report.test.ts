@@ -15,7 +15,7 @@ import { reportCommand } from '../../src/cli/report-command.js';
 import { sitesWeatherCommand } from '../../src/cli/sites-command.js';
 import { sitesReading } from '../../src/sites/report-section.js';
 import type { SiteRow } from '../../src/sites/map-data.js';
-import { ROOT } from '../helpers/cli.js';
+import { ROOT, runJsonHere } from '../helpers/cli.js';
 
 const SITES = join(ROOT, 'examples/sites');
 /** Whole-year batches of two sites and a report take seconds, more on a loaded machine. */
@@ -272,6 +272,26 @@ describe('the library builds the same report', () => {
     expect(sites.rows[0]!.file).toBe('orvale.epw');
     expect(sites.columns.slice(-4)).toEqual(['2t_gaps_ev', '2t_yield_kwh_m2', '2t_efficiency_pct', '2t_am15g_loss_pct']);
     expect(r.html).toContain('<section class="sites" id="sites">');
+  }, LONG);
+});
+
+describe('material-bound gaps at a site', () => {
+  test('move with each hour\'s cell temperature whether or not the design names sites: the site question answers as optimize --ensemble does', async () => {
+    const manifest = join(ROOT, 'examples/ensemble-demo/manifest.yaml');
+    const { loadEnsemble } = await import('../../src/light/ensemble.js');
+    const { siteQuestion } = await import('../../src/sites/question.js');
+    const members = loadEnsemble(manifest, { defaultTempK: 300 }).members;
+    const light = async () => ({ name: 'Demo Year', latDeg: 0, lonDeg: 0, spectra: members });
+    const subcells = 'subcells:\n  - material: perovskite-i-br\n  - gap: 1.12\nwirings: [series]\n';
+    const plain = await loadDesign(design('material-plain.yaml', `name: m\n${subcells}`));
+    const withSites = await loadDesign(design('material-sites.yaml', `name: m\nsites:\n  files: [${join(SITES, 'orvale.epw')}]\n  tilt: 20\n  azimuth: 180\n${subcells}`));
+    const a = await siteQuestion(plain, light).evaluate('unused.epw');
+    const b = await siteQuestion(withSites, light).evaluate('unused.epw');
+    expect(a.wirings).toEqual(b.wirings);
+    // The reference: the command line's own yield search with the same material binding (it carries dE_g/dT under an ensemble).
+    const cli = await runJsonHere(['optimize', '--cells', '2', '--material', '1=perovskite-i-br', '--fix', '2=1.12', '--wiring', 'series', '--ensemble', manifest]);
+    expect(a.wirings[0]!.gapsEv[0]).toBeCloseTo(cli.best.gaps_ev[0], 5);
+    expect(a.wirings[0]!.yieldEfficiency).toBeCloseTo(cli.am15g_comparison.ensemble_best_yield_efficiency, 8);
   }, LONG);
 });
 
