@@ -86,7 +86,15 @@ await esbuild.build({
   plugins: [deferStringWidth(), jsdomXhrWorker],
   logLevel: 'warning',
   // Bundled CommonJS code (jsdom under d3-node) calls require() for Node's own modules.
-  banner: { js: "import { createRequire as gapstackCreateRequire } from 'node:module'; const require = gapstackCreateRequire(import.meta.url);" },
+  // Made on first use: createRequire costs milliseconds, and most chunks never call it.
+  banner: {
+    js: [
+      "import { createRequire as gapstackCreateRequire } from 'node:module';",
+      'let gapstackRequire;',
+      'const gapstackLoad = () => (gapstackRequire ??= gapstackCreateRequire(import.meta.url));',
+      'const require = Object.assign((id) => gapstackLoad()(id), { resolve: (id, options) => gapstackLoad().resolve(id, options) });',
+    ].join(' '),
+  },
   legalComments: 'inline',
   minifyWhitespace: true,
   minifySyntax: true,

@@ -339,6 +339,13 @@ export async function run(rawArgv: string[]): Promise<void> {
     .fail((msg, err) => {
       throw err ?? new UserError(msg);
     });
+  if (!HELP_SHOWN) {
+    // yargs lays out the whole help text after every command it runs, to show it on a
+    // later failure; failures here throw instead (.fail above), so that text is never shown.
+    // getInternalMethods() is public on the instance but missing from its type declarations.
+    const usage = (cli as unknown as { getInternalMethods(): { getUsageInstance(): { cacheHelpMessage(): void } } }).getInternalMethods().getUsageInstance();
+    usage.cacheHelpMessage = () => {};
+  }
   try {
     // Fault injection for the test of the internal-error path (see DEVELOPERS.md).
     if (process.env.GAPSTACK_FAULT_INJECTION === 'internal') throw new Error('injected fault');

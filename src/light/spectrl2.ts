@@ -9,7 +9,7 @@
  * (1980, anisotropy index A = I_d/(H₀D)), ground reflection isotropic.
  */
 import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
+import { csvParseSync } from '../io/csv-parse.js';
 import { UserError } from '../errors.js';
 import { fileURLToPath } from 'node:url';
 
@@ -26,13 +26,12 @@ export interface Spectrl2Tables {
 }
 
 let tablesCache: Spectrl2Tables | undefined;
-const requireCjs = createRequire(import.meta.url);
 
 /** The 122-wavelength tables shipped in spectra/spectrl2-coefficients.csv (see its provenance note). */
 export function spectrl2Tables(): Spectrl2Tables {
   if (tablesCache) return tablesCache;
   const path = fileURLToPath(new URL('../../spectra/spectrl2-coefficients.csv', import.meta.url));
-  const { parse } = requireCjs('csv-parse/sync') as typeof import('csv-parse/sync');
+  const parse = csvParseSync();
   const rows = parse(readFileSync(path, 'utf8'), { comment: '#', from_line: 1, skip_empty_lines: true }) as string[][];
   const data = rows.slice(1).map((r) => r.map(Number));
   const col = (k: number) => Float64Array.from(data, (r) => r[k]);

@@ -5,7 +5,7 @@
  * or unambiguous, and every rejected value names its file and line.
  */
 import { readUserText } from '../io/read-user-file.js';
-import { createRequire } from 'node:module';
+import { csvParseSync } from '../io/csv-parse.js';
 import { HC_EV_NM, HC_J_NM } from '../physics/constants.js';
 import { UserError, fileError, fileParameterError, ParameterError, ref, says } from '../errors.js';
 import { makeSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
@@ -86,9 +86,8 @@ export interface Row {
   cells: string[];
 }
 
-const requireCjs = createRequire(import.meta.url);
 /** csv-parse loads on first use: the built-in spectrum never needs it. */
-const csvParse = (): typeof import('csv-parse/sync').parse => (requireCjs('csv-parse/sync') as typeof import('csv-parse/sync')).parse;
+const csvParse = csvParseSync;
 
 /**
  * Rows of a table without quoting, split directly (fast path: large ensembles

@@ -6,9 +6,8 @@
  */
 import { siteSection } from './site-section.js';
 import type { SitesSectionView } from './sites-view.js';
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
-import Handlebars from 'handlebars';
+import HandlebarsRuntime from 'handlebars/runtime.js';
+import precompiledPage from './report-template.generated.js';
 import type { Design } from '../design/index.js';
 import { coverageWarnings } from '../light/coverage.js';
 import { toolVersion } from './version.js';
@@ -40,7 +39,6 @@ import {
   wiringTitle,
 } from './view.js';
 
-export const TEMPLATE_PATH = fileURLToPath(new URL('../../templates/report.hbs', import.meta.url));
 export { toolVersion } from './version.js';
 export type { Chart, FigureMeta } from './figure-data.js';
 export { colourScaleWords, figureMeta } from './figure-data.js';
@@ -133,16 +131,20 @@ function summaryJson(data: ReportData, version: string, generated: string): Reco
   };
 }
 
+/** The Handlebars runtime (its declarations only re-export the full package's types). */
+const Handlebars = HandlebarsRuntime as unknown as typeof import('handlebars');
 let template: HandlebarsTemplateDelegate | undefined;
 
+/**
+ * The page template, precompiled at build time from templates/report.hbs
+ * (scripts/compile-report-template.mjs, strict: a field the template names but
+ * the context lacks is a bug, not an empty string); only the runtime loads here.
+ */
 function pageTemplate(): HandlebarsTemplateDelegate {
-  // strict: a field the template names but the context lacks is a bug, not an empty string.
-  template ??= Handlebars.create().compile(readFileSync(TEMPLATE_PATH, 'utf8'), { strict: true });
+  template ??= Handlebars.create().template(precompiledPage);
   return template;
 }
 
-
-/** Build the report of a design: compute, draw, format. */
 /** Colour scales given from outside, one per mapped gap pair ("x-y", 1-based), with the words naming who shares them. */
 export interface SharedScales {
   byPair: Map<string, ColourDomain>;

@@ -4,7 +4,9 @@
  * JSON.
  */
 import { existsSync } from 'node:fs';
-import { Resvg, renderAsync, type ResvgRenderOptions } from '@resvg/resvg-js';
+import { fileURLToPath } from 'node:url';
+import { Worker } from 'node:worker_threads';
+import { Resvg, type ResvgRenderOptions } from '@resvg/resvg-js';
 import type { Chart, FigureMeta } from './figure-data.js';
 
 /** PNG pixels per SVG user unit. */
@@ -28,15 +30,57 @@ export function standaloneSvg(svg: string): string {
 const pending = new Map<string, Promise<Uint8Array>>();
 
 /**
- * Start rasterising a chart's SVG at PNG_SCALE on libuv's thread pool, while
- * the main thread goes on drawing the next chart; figureFilesAsync collects it.
+ * The PNG worker thread, started with the first chart. Its module is the compiled
+ * one in dist/report, found the same way from src/, dist/report/ and dist/bundle/.
+ */
+let worker: { thread: Worker; jobs: Map<number, { resolve: (png: Uint8Array) => void; reject: (e: Error) => void }>; next: number } | null | undefined;
+
+function pngWorker(): NonNullable<typeof worker> | null {
+  if (worker !== undefined) return worker;
+  const file = fileURLToPath(new URL('../../dist/report/png-worker.js', import.meta.url));
+  if (!existsSync(file)) return (worker = null);
+  const thread = new Worker(file);
+  const w = { thread, jobs: new Map<number, { resolve: (png: Uint8Array) => void; reject: (e: Error) => void }>(), next: 0 };
+  thread.on('message', (m: { id: number; png?: Uint8Array; error?: string }) => {
+    const job = w.jobs.get(m.id);
+    w.jobs.delete(m.id);
+    if (w.jobs.size === 0) thread.unref();
+    if (m.png) job?.resolve(m.png);
+    else job?.reject(new Error(m.error ?? 'the PNG worker gave no image'));
+  });
+  thread.on('error', (e) => {
+    for (const job of w.jobs.values()) job.reject(e);
+    w.jobs.clear();
+    thread.unref();
+  });
+  // The worker keeps the process alive only while it has work (startPng refs it).
+  thread.unref();
+  return (worker = w);
+}
+
+/**
+ * Start rasterising a chart's SVG (standalone, at PNG_SCALE) on the PNG worker
+ * thread while the main thread goes on drawing the next chart; figureFilesAsync
+ * collects it. Without the compiled worker it is rendered when collected.
  */
 export function startPng(svg: string): void {
   if (pending.has(svg)) return;
-  const job = renderAsync(standaloneSvg(svg), { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font: fontOptions(), logLevel: 'off' }).then((r) => r.asPng());
+  const w = pngWorker();
+  if (!w) return;
+  const id = w.next++;
+  const job = new Promise<Uint8Array>((resolve, reject) => w.jobs.set(id, { resolve, reject }));
   // A render that fails is reported where it is awaited, not as an unhandled rejection.
   job.catch(() => undefined);
   pending.set(svg, job);
+  w.thread.ref();
+  w.thread.postMessage({ id, svg: standaloneSvg(svg) });
+}
+
+/** The PNG of a chart's SVG: the worker's when it was started, else rendered here. */
+async function takePng(svg: string): Promise<Uint8Array> {
+  const job = pending.get(svg);
+  pending.delete(svg);
+  return job ? new Uint8Array(await job) : svgToPng(standaloneSvg(svg));
 }
 
 /** Rasterise an SVG to PNG bytes at PNG_SCALE. */
@@ -87,13 +131,13 @@ export function figureJson(c: Chart): string {
 
 /**
  * Every file of a figures folder for these charts (SVG, PNG, CSV and JSON of
- * each), plus the summary. The PNGs render on the thread pool, in parallel,
- * and those startPng began while the charts were drawn are taken as they are.
+ * each), plus the summary. The PNGs render on the worker thread, those that
+ * startPng began while the charts were drawn already under way.
  */
 export async function figureFilesAsync(charts: Chart[], summary: Record<string, unknown>): Promise<FigureFile[]> {
   for (const c of charts) startPng(c.svg);
-  const pngs = await Promise.all(charts.map((c) => pending.get(c.svg) as Promise<Uint8Array>));
-  for (const c of charts) pending.delete(c.svg);
+  const pngs: Uint8Array[] = [];
+  for (const c of charts) pngs.push(await takePng(c.svg));
   const files: FigureFile[] = [];
   charts.forEach((c, k) => {
     files.push({ name: `${c.name}.svg`, data: standaloneSvg(c.svg) });

@@ -206,7 +206,7 @@ function writeFixed6(buf: Buffer, pos: number, v: number): number {
   const n = Math.round(scaled);
   let int = Math.floor(n / SCALE);
   let fr = n - int * SCALE;
-  // Integer part: count its digits, then write them from the last.
+  // Integer part: count its digits, then write them from the last (small integers: int32 arithmetic).
   let digits = 1;
   for (let t = int; t >= 10; t = Math.floor(t / 10)) digits++;
   for (let d = digits - 1; d >= 0; d--) {
@@ -215,9 +215,11 @@ function writeFixed6(buf: Buffer, pos: number, v: number): number {
   }
   pos += digits;
   buf[pos++] = 46;
+  // fr < 10^6 fits an int32.
   for (let d = DIGITS - 1; d >= 0; d--) {
-    buf[pos + d] = 48 + (fr % 10);
-    fr = Math.floor(fr / 10);
+    const q = ((fr | 0) / 10) | 0;
+    buf[pos + d] = 48 + ((fr | 0) - q * 10);
+    fr = q;
   }
   return pos + DIGITS;
 }

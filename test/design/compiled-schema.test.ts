@@ -13,7 +13,7 @@ describe('the design schema is compiled ahead of time', () => {
     const out = join(mkdtempSync(join(tmpdir(), 'gapstack-schema-')), 'v.ts');
     execFileSync(process.execPath, ['scripts/compile-design-schema.mjs', out]);
     const sha = (path: string) => createHash('sha256').update(readFileSync(path)).digest('hex');
-    // Compared by hash: on a mismatch, run `npm run schema` (every build does) rather than read 70 kB of code.
+    // Compared by hash: on a mismatch, run `npm run generate` (every build does) rather than read 70 kB of code.
     expect(sha(out)).toBe(sha('src/design/validate-design.generated.ts'));
   });
 

@@ -1,5 +1,5 @@
 /** Shared pieces of the weather readers: file reading, numbers with missing-value codes, time stamps. */
-import { createRequire } from 'node:module';
+import { csvParseSync } from '../../io/csv-parse.js';
 import { UserError, fileError } from '../../errors.js';
 import { sha256Hex } from '../spectrum.js';
 import { readUserFile } from '../../io/read-user-file.js';
@@ -14,7 +14,6 @@ export function readWeatherBytes(path: string): { text: string; sha256: string }
   return { text: bytes.toString('utf8').replace(/^\uFEFF/, ''), sha256: sha256Hex(bytes) };
 }
 
-const requireCjs = createRequire(import.meta.url);
 
 /**
  * Rows of CSV text from a 1-based line on, with their line numbers. Quote-free
@@ -41,7 +40,7 @@ export function csvRows(path: string, text: string, fromLine: number): { line: n
 
 /** The same through csv-parse (quoted fields). */
 export function csvParseRows(path: string, text: string, fromLine: number): { line: number; cells: string[] }[] {
-  const { parse } = requireCjs('csv-parse/sync') as typeof import('csv-parse/sync');
+  const parse = csvParseSync();
   try {
     const records = parse(text, { from_line: fromLine, relax_column_count: true, skip_empty_lines: true, info: true, trim: true }) as unknown as { record: string[]; info: { lines: number } }[];
     return records.map((r) => ({ line: r.info.lines, cells: r.record }));
