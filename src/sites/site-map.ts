@@ -157,24 +157,33 @@ export async function siteMapSvg(inp: SiteMapInput): Promise<string> {
     const xy = projection([p.lonDeg, p.latDeg]);
     return xy ? [{ p, x: xy[0], y: xy[1] }] : [];
   });
-  const board = new LabelBoard({ x0: 2, y0: 2, x1: mapW - 2, y1: mapH - 2 }, 2);
-  for (const d of dots) board.reserve(pointBox(d.x, d.y, 6.5));
   for (const { p, x, y } of dots) {
     const fill = p.value === null || !Number.isFinite(p.value) ? 'none' : colour(p.value);
     const tip = `${p.site}: ${p.value === null || !Number.isFinite(p.value) ? 'no value' : p.value} (${f2(p.latDeg)}°, ${f2(p.lonDeg)}°)`;
     parts.push(`<circle cx="${f2(x)}" cy="${f2(y)}" r="5.5" fill="${fill}" stroke="#222222" stroke-width="1"><title>${xml(tip)}</title></circle>`);
   }
   if (dots.length <= LABEL_LIMIT) {
-    for (const { p, x, y } of dots) {
-      const cands: Candidate[] = [
-        { x: x + 9, y: y + 4, anchor: 'start' },
-        { x: x - 9, y: y + 4, anchor: 'end' },
-        { x, y: y - 10, anchor: 'middle' },
-        { x, y: y + 18, anchor: 'middle' },
-      ];
-      const t = board.placeOrShorten(cands, p.site, { size: 10 });
+    // Whole names when every one fits; otherwise every site by the first part of its name (a weather file's
+    // "City, Region, Country" → "City"), cut where even that does not fit. The full name stays as a tooltip.
+    const shortName = (site: string) => site.split(',')[0]!.trim() || site;
+    const placeAll = (text: (site: string) => string) => {
+      const board = new LabelBoard({ x0: 2, y0: 2, x1: mapW - 2, y1: mapH - 2 }, 2);
+      for (const d of dots) board.reserve(pointBox(d.x, d.y, 6.5));
+      return dots.map(({ p, x, y }) => {
+        const cands: Candidate[] = [
+          { x: x + 9, y: y + 4, anchor: 'start' },
+          { x: x - 9, y: y + 4, anchor: 'end' },
+          { x, y: y - 10, anchor: 'middle' },
+          { x, y: y + 18, anchor: 'middle' },
+        ];
+        return { site: p.site, t: board.placeOrShorten(cands, text(p.site), { size: 10 }) };
+      });
+    };
+    let labels = placeAll((site) => site);
+    if (labels.some((l) => l.t === null || l.t.full !== undefined)) labels = placeAll(shortName);
+    for (const { site, t } of labels) {
       if (!t) continue;
-      const title = t.full ? `<title>${xml(t.full)}</title>` : '';
+      const title = t.text !== site ? `<title>${xml(site)}</title>` : '';
       parts.push(`<text class="gs-site-label" x="${f2(t.x)}" y="${f2(t.y)}" text-anchor="${t.anchor}" font-size="10" fill="#222222" stroke="#ffffff" stroke-width="2.5" paint-order="stroke">${title}${xml(t.text)}</text>`);
     }
   }

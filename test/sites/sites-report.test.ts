@@ -295,6 +295,33 @@ describe('material-bound gaps at a site', () => {
   }, LONG);
 });
 
+describe('the site map\'s labels', () => {
+  test('crowded sites: labels never overlap each other or a dot, and read the first part of each name with the whole name as tooltip', async () => {
+    const { siteMapSvg } = await import('../../src/sites/site-map.js');
+    const { textBox, boxesOverlap, pointBox } = await import('../../src/report/charts/labels.js');
+    // Seven invented sites a few degrees apart on a world map: too close for their whole names.
+    const points = Array.from({ length: 7 }, (_, k) => ({ site: `Site ${String.fromCharCode(65 + k)}, Long Invented Region, Invented`, latDeg: 36 + 3 * k, lonDeg: 5 + 7 * (k % 3), value: 1.7 + 0.01 * k }));
+    const svg = await siteMapSvg({ points, valueLabel: 'top gap [eV]', caption: [], id: 'crowded', extent: 'world' });
+    const dots = [...svg.matchAll(/<circle cx="([\d.-]+)" cy="([\d.-]+)" r="5\.5"/g)].map((m) => pointBox(Number(m[1]), Number(m[2]), 5.5));
+    const labels = [...svg.matchAll(/<text class="gs-site-label" x="([\d.-]+)" y="([\d.-]+)" text-anchor="(start|middle|end)"[^>]*>(?:<title>([^<]*)<\/title>)?([^<]*)<\/text>/g)].map((m) => ({
+      box: textBox({ x: Number(m[1]), y: Number(m[2]), anchor: m[3] as 'start' | 'middle' | 'end' }, m[5]!, { size: 10 }),
+      tip: m[4],
+      text: m[5]!,
+    }));
+    expect(dots).toHaveLength(7);
+    // Crowded: every label is the first part of a name, the whole name its tooltip; most sites keep one.
+    expect(labels.length).toBeGreaterThanOrEqual(4);
+    for (const l of labels) expect([l.text, l.tip]).toEqual([expect.stringMatching(/^Site [A-G]$/), `${l.text}, Long Invented Region, Invented`]);
+    for (const [i, l] of labels.entries()) {
+      for (const d of dots) expect(boxesOverlap(l.box, d)).toBe(false);
+      for (const m of labels.slice(i + 1)) expect(boxesOverlap(l.box, m.box)).toBe(false);
+      const full = points.find((p) => p.site === (l.tip ?? l.text));
+      expect(full, l.text).toBeDefined();
+      if (l.tip) expect(l.tip.startsWith(l.text.replace(/…$/, ''))).toBe(true);
+    }
+  });
+});
+
 describe('the reading of the rows', () => {
   test('names where the top gap moves most, the largest AM1.5G loss and the largest 4T-over-2T gain, from the rows themselves', async () => {
     const d = await loadDesign(design('reading.yaml', `name: r\nsites:\n  files: [${join(SITES, 'orvale.epw')}]\n  tilt: 20\n  azimuth: 180\n${STACK}wirings: [series, independent]\n`));
