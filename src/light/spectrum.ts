@@ -148,20 +148,39 @@ export function photonsBelowWavelength(s: Spectrum, wavelengthNm: number): numbe
 }
 
 /**
- * q·N(E) [A/m²] of many spectra at one energy [eV] into out[k]: photonsAboveEv
- * for each, with the grid interval found once for spectra sharing a
- * wavelength array (an hourly year's members share one), so the same values.
+ * The tables of many spectra as parallel arrays, for loops over thousands of
+ * spectra: one array look-up per table instead of property look-ups on each
+ * spectrum (which differ in shape where lazy fields were or were not read).
  */
-export function stepJscManyAm2(spectra: readonly { spectrum: Spectrum }[], energyEv: number, out: Float64Array, offset = 0): void {
+export interface SpectraColumns {
+  spectra: Spectrum[];
+  wavelengthNm: Float64Array[];
+  irradiance: Float64Array[];
+  cumulativePhotons: Float64Array[];
+}
+
+/** The columns of these spectra (the arrays themselves, not copies). */
+export function spectraColumns(spectra: readonly { spectrum: Spectrum }[]): SpectraColumns {
+  const list = spectra.map((s) => s.spectrum);
+  return { spectra: list, wavelengthNm: list.map((s) => s.wavelengthNm), irradiance: list.map((s) => s.irradiance), cumulativePhotons: list.map((s) => s.cumulativePhotons) };
+}
+
+/**
+ * q·N(E) [A/m²] of many spectra at one energy [eV] into out[offset + k]:
+ * photonsAboveEv for each, with the grid interval found once for spectra
+ * sharing a wavelength array (an hourly year's members share one), so the
+ * same values.
+ */
+export function stepJscManyAm2(cols: SpectraColumns, energyEv: number, out: Float64Array, offset = 0): void {
   const lambda = HC_EV_NM / energyEv;
   let grid: Float64Array | undefined;
   let i = -1;
-  for (let k = 0; k < spectra.length; k++) {
-    const s = spectra[k].spectrum;
-    const w = s.wavelengthNm;
-    const n = w.length;
-    if (!(energyEv > 0) || !(lambda > w[0]) || lambda >= w[n - 1]) {
-      out[offset + k] = ELEMENTARY_CHARGE_C * photonsAboveEv(s, energyEv);
+  const n = cols.spectra.length;
+  for (let k = 0; k < n; k++) {
+    const w = cols.wavelengthNm[k];
+    const last = w.length - 1;
+    if (!(energyEv > 0) || !(lambda > w[0]) || lambda >= w[last]) {
+      out[offset + k] = ELEMENTARY_CHARGE_C * photonsAboveEv(cols.spectra[k], energyEv);
       continue;
     }
     if (w !== grid) {
@@ -169,11 +188,11 @@ export function stepJscManyAm2(spectra: readonly { spectrum: Spectrum }[], energ
       i = bracket(w, lambda);
     }
     const t = lambda - w[i];
-    const e = s.irradiance;
+    const e = cols.irradiance[k];
     const f0 = (e[i] * w[i]) / HC_J_NM;
     const f1 = (e[i + 1] * w[i + 1]) / HC_J_NM;
     const fx = f0 + ((f1 - f0) * t) / (w[i + 1] - w[i]);
-    out[offset + k] = ELEMENTARY_CHARGE_C * (s.cumulativePhotons[i] + 0.5 * (f0 + fx) * t);
+    out[offset + k] = ELEMENTARY_CHARGE_C * (cols.cumulativePhotons[k][i] + 0.5 * (f0 + fx) * t);
   }
 }
 
