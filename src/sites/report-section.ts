@@ -42,6 +42,8 @@ export interface DesignSitesRows {
   rows: SiteRow[];
   /** Files skipped because their bytes equal another listed file's. */
   duplicates: string[];
+  /** The rows file they were read from, when the batch ran before the report (--sites-rows). */
+  source?: string;
 }
 
 function sitesOf(design: Design): DesignSites {
@@ -115,7 +117,7 @@ export function designSitesRowsFromFile(design: Design, path: string): DesignSit
   if (id.columns.join(',') !== columnsFor(question.wirings).join(',')) throw new UserError(`${path}: columns differ from this design's wirings`);
   noteInput(path);
   const rows = /\.csv$/i.test(path) ? file.rows.map(typedRow) : file.rows;
-  return { columns: id.columns, questionSha256: id.questionSha256, sitesSha256: id.sitesSha256, version: id.version, rows, duplicates };
+  return { columns: id.columns, questionSha256: id.questionSha256, sitesSha256: id.sitesSha256, version: id.version, rows, duplicates, source: path };
 }
 
 /** The plane in words: "fixed plane tilted 30°, facing azimuth 180° (east of north)". */
@@ -320,7 +322,7 @@ export async function sitesSection(design: Design, s: DesignSitesRows, am15gGaps
 
   const intro = [
     `The question above asked at ${s.rows.length} site${s.rows.length === 1 ? '' : 's'}, each under its weather file's hourly year on one module plane (${planeWords(ds.plane, ds)}): per wiring the site-optimal gaps, their annual yield and yield-weighted efficiency, and how much less the AM1.5G-optimal design yields there. The sections above answer under AM1.5G; this one under each site's light.`,
-    `These are the rows gapstack sites writes for this design and these weather files (question SHA-256 ${s.questionSha256.slice(0, 12)}…, gapstack ${s.version}), in its order (by the SHA-256 of each weather file); summary.json carries them in full.`,
+    `These are the rows gapstack sites writes for this design and these weather files (question SHA-256 ${s.questionSha256.slice(0, 12)}…, gapstack ${s.version}), in its order (by the SHA-256 of each weather file); summary.json carries them in full.${s.source ? ` They were read from ${basename(s.source)}, a batch run before this report, after checking its question, version and weather files.` : ''}`,
     ...(s.duplicates.length > 0 ? [`Counted once, as identical to another listed file: ${s.duplicates.map((d) => basename(d)).join(', ')}.`] : []),
   ];
   const assumptions = [`weather files (SHA-256 of their bytes): ${s.rows.map((r) => `${String(r.file)} ${String(r.site_key).slice(0, 12)}…`).join(', ')}`, ...sitesLightAssumptions(design)];

@@ -158,6 +158,7 @@ describe('the report of a design with sites', () => {
       const again = JSON.parse(readFileSync(join(figs, 'summary.json'), 'utf8'));
       expect(again.sites.rows, ext).toEqual(summary.sites.rows);
       expect(again.sites.question_sha256, ext).toBe(summary.sites.question_sha256);
+      expect(readFileSync(join(work, `from-${ext}.html`), 'utf8'), ext).toContain(`They were read from part-1-of-1.${ext}, a batch run before this report`);
     }
     // A part of a sharded batch is not the whole set of sites.
     const part = join(work, 'shard-part.jsonl');
