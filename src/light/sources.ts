@@ -8,7 +8,7 @@ import { DILUTION_ONE_SUN, MAX_CONCENTRATION } from '../physics/constants.js';
 import { ParameterError, ref, says, UserError } from '../errors.js';
 import { blackbodySpectrum } from './blackbody.js';
 import { clearSkySpectrum } from './clear-sky-source.js';
-import { scaleSpectrum, sha256Hex, type Spectrum } from './spectrum.js';
+import { scaleSpectrum, sha256Hex, spectrumOfArrays, type Spectrum } from './spectrum.js';
 import { extendWithReferenceShape } from './coverage.js';
 import { readSpectrumFile, spectrumFromText, type TableUnits } from './table-file.js';
 
@@ -19,17 +19,47 @@ function builtinSpectrumPath(fileName: string): string {
 
 const builtinCache = new Map<string, Spectrum>();
 
-/** A shipped ASTM G173-03 column, read once and cached. */
+/** A shipped table as the build packs it (scripts/pack-builtin-spectra.mjs): its parsed columns and the SHA-256 of its file. */
+export interface PackedSpectrum {
+  sha256: string;
+  wavelengthNm: number[];
+  irradiance: number[];
+}
+
+/** Parse a shipped table from its file: what the build packs, and the way when no pack is there. */
+export function parseBuiltinTable(file: string): PackedSpectrum {
+  const path = builtinSpectrumPath(file);
+  const bytes = readFileSync(path);
+  const s = spectrumFromText(path, bytes.toString('utf8'), undefined, sha256Hex(bytes));
+  return { sha256: s.sha256, wavelengthNm: Array.from(s.wavelengthNm), irradiance: Array.from(s.irradiance) };
+}
+
+/** The build's pack of a shipped table (dist/spectra/<file>.json, found from src/, dist/light/ and dist/bundle/ alike), if there is one. */
+function packedTable(file: string): PackedSpectrum | undefined {
+  try {
+    return JSON.parse(readFileSync(fileURLToPath(new URL(`../../dist/spectra/${file}.json`, import.meta.url)), 'utf8')) as PackedSpectrum;
+  } catch {
+    return undefined;
+  }
+}
+
+/**
+ * A shipped ASTM G173-03 column, read once and cached: from the build's pack
+ * (parsed columns, no text to split and no hash to compute at every start), else
+ * from its file. Both give the same spectrum (a test compares them).
+ */
 function builtinSpectrum(file: string, name: string, source: string): Spectrum {
   let s = builtinCache.get(file);
   if (!s) {
-    const path = builtinSpectrumPath(file);
-    const bytes = readFileSync(path);
-    s = { ...spectrumFromText(path, bytes.toString('utf8'), undefined, sha256Hex(bytes)), name, source };
+    const t = packedTable(file) ?? parseBuiltinTable(file);
+    s = spectrumOfArrays({ name, source, sha256: t.sha256, wavelengthNm: Float64Array.from(t.wavelengthNm), irradiance: Float64Array.from(t.irradiance) });
     builtinCache.set(file, s);
   }
   return s;
 }
+
+/** The shipped tables the build packs. */
+export const BUILTIN_SPECTRUM_FILES = ['am1.5g.tsv', 'am1.5d.tsv', 'am0.tsv'] as const;
 
 /** ASTM G173-03 global tilt (AM1.5G) as shipped in spectra/am1.5g.tsv; P_in = 1000.37 W/m². */
 export function am15g(): Spectrum {
