@@ -219,17 +219,24 @@ export function clippedPlot(defsParent: Sel, g: Sel, clipId: string, p: MapPlot)
  * The under-range base and the filled bands from `lo` up, each coloured at
  * the middle of its step: everything below `lo` keeps the under-range grey.
  */
-function drawBands(plot: Sel, p: MapPlot, grid: number[], lo: number, hi: number): void {
+/** Contours already traced, by level, with their path data: the isolines reuse the bands' (a band's edge is the isoline of its level). */
+type Traced = Map<number, { c: ContourMultiPolygon; d: string }>;
+
+function drawBands(plot: Sel, p: MapPlot, grid: number[], lo: number, hi: number): Traced {
   const colour = viridisColour(lo, hi);
   const step = bandStep(lo, hi);
   plot.append('rect').attr('class', 'gs-map-base gs-under-range').attr('width', p.w).attr('height', p.h).attr('fill', MAP_COLOURS.under);
   const bands = plot.append('g').attr('class', 'gs-bands');
   const levels = [lo, ...stepLevels(lo, hi, step, true)];
+  const traced: Traced = new Map();
   for (const c of p.gen.thresholds(levels)(grid)) {
+    const d = c.coordinates.length === 0 ? '' : p.path(c);
+    traced.set(c.value, { c, d });
     if (c.coordinates.length === 0) continue;
     const next = levels.find((t) => t > c.value + 1e-9) ?? hi;
-    bands.append('path').attr('class', 'gs-band').attr('data-level', num(c.value, 2)).attr('fill', colour((c.value + Math.min(next, hi)) / 2)).attr('d', p.path(c));
+    bands.append('path').attr('class', 'gs-band').attr('data-level', num(c.value, 2)).attr('fill', colour((c.value + Math.min(next, hi)) / 2)).attr('d', d);
   }
+  return traced;
 }
 
 /** The hatch pattern of window edge bands, defined once per chart (`<id>-hatch`). */
@@ -363,15 +370,19 @@ export function isolabelCandidates(p: MapPlot, c: { coordinates: Pos[][][] }, ot
 }
 
 /** Isolines every `step` points within (lo, hi); each labelled once where the board has room, or left unlabelled. */
-function drawIsolines(plot: Sel, p: MapPlot, grid: number[], lo: number, hi: number, board: LabelBoard, away: Point[]): void {
+function drawIsolines(plot: Sel, p: MapPlot, grid: number[], lo: number, hi: number, board: LabelBoard, away: Point[], traced: Traced): void {
   const S = MAP_STYLE;
   const step = isoStep(lo, hi);
   const iso = plot.append('g').attr('class', 'gs-isolines');
   const labels = plot.append('g').attr('class', 'gs-isolabels');
   const others = [...away];
-  for (const c of p.gen.thresholds(stepLevels(lo, hi, step, true))(grid)) {
-    if (c.coordinates.length === 0) continue;
-    iso.append('path').attr('class', 'gs-isoline').attr('data-level', num(c.value, 2)).attr('fill', 'none').attr('stroke', S.isoline.stroke).attr('stroke-opacity', S.isoline.opacity).attr('stroke-width', S.isoline.width).attr('d', p.path(c));
+  const levels = stepLevels(lo, hi, step, true);
+  const untraced = levels.filter((v) => !traced.has(v));
+  const fresh = untraced.length > 0 ? p.gen.thresholds(untraced)(grid) : [];
+  const contoursAt = levels.map((v) => traced.get(v) ?? { c: fresh.find((f) => f.value === v) as ContourMultiPolygon, d: '' });
+  for (const { c, d } of contoursAt) {
+    if (!c || c.coordinates.length === 0) continue;
+    iso.append('path').attr('class', 'gs-isoline').attr('data-level', num(c.value, 2)).attr('fill', 'none').attr('stroke', S.isoline.stroke).attr('stroke-opacity', S.isoline.opacity).attr('stroke-width', S.isoline.width).attr('d', d || p.path(c));
     const pick = board.place(isolabelCandidates(p, c, others), `${num(c.value, step < 1 ? 1 : 0)} %`, ISO_TEXT);
     if (!pick) continue;
     others.push([pick.x, pick.y]);
@@ -520,10 +531,10 @@ export interface MapLayers {
  */
 export function drawMapLayers(plot: Sel, p: MapPlot, l: MapLayers): void {
   const { lo, hi } = l.domain;
-  drawBands(plot, p, l.grid, lo, hi);
+  const traced = drawBands(plot, p, l.grid, lo, hi);
   drawMarks(plot, p, l.marks, defineHatch(l.defs, l.id));
   const markLabels = placeMarkLabels(l.board, p, l.marks, l.markSide);
-  drawIsolines(plot, p, l.grid, lo, hi, l.board, l.away);
+  drawIsolines(plot, p, l.grid, lo, hi, l.board, l.away, traced);
   l.overlay?.(plot);
   drawTolerance(plot, p, l.grid, l.threshold);
   drawUnordered(plot, p);
