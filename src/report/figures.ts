@@ -83,9 +83,14 @@ async function takePng(svg: string): Promise<Uint8Array> {
   return job ? new Uint8Array(await job) : svgToPng(standaloneSvg(svg));
 }
 
+/** resvg's options for a figure's PNG: PNG_SCALE, white background, the chart font. */
+export function pngRenderOptions(): ResvgRenderOptions {
+  return { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font: fontOptions(), logLevel: 'off' };
+}
+
 /** Rasterise an SVG to PNG bytes at PNG_SCALE. */
 export function svgToPng(svg: string): Uint8Array {
-  const r = new Resvg(svg, { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font: fontOptions(), logLevel: 'off' });
+  const r = new Resvg(svg, pngRenderOptions());
   return r.render().asPng();
 }
 
