@@ -58,6 +58,11 @@ function pngWorker(): NonNullable<typeof worker> | null {
   return (worker = w);
 }
 
+/** Start the PNG worker thread now, so its start-up overlaps the report's computing. */
+export function preparePngWorker(): void {
+  pngWorker();
+}
+
 /**
  * Start rasterising a chart's SVG (standalone, at PNG_SCALE) on the PNG worker
  * thread while the main thread goes on drawing the next chart; figureFilesAsync
