@@ -70,6 +70,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   try {
     // With figures, each chart's PNG starts rendering on the thread pool as soon as it is drawn.
     const figures = a.figures !== undefined ? await import('../report/figures.js') : undefined;
+    figures?.preparePngWorker();
     const onChart = figures ? (c: { svg: string }) => figures.startPng(c.svg) : undefined;
     if (set.named) {
       // Several scenarios: one comparison table first, then each scenario's own sections.

@@ -58,6 +58,11 @@ function pngWorker(): NonNullable<typeof worker> | null {
   return (worker = w);
 }
 
+/** Start the PNG worker thread now, so its start-up overlaps the report's computing. */
+export function preparePngWorker(): void {
+  pngWorker();
+}
+
 /**
  * Start rasterising a chart's SVG (standalone, at PNG_SCALE) on the PNG worker
  * thread while the main thread goes on drawing the next chart; figureFilesAsync
@@ -83,9 +88,14 @@ async function takePng(svg: string): Promise<Uint8Array> {
   return job ? new Uint8Array(await job) : svgToPng(standaloneSvg(svg));
 }
 
+/** resvg's options for a figure's PNG: PNG_SCALE, white background, the chart font. */
+export function pngRenderOptions(): ResvgRenderOptions {
+  return { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font: fontOptions(), logLevel: 'off' };
+}
+
 /** Rasterise an SVG to PNG bytes at PNG_SCALE. */
 export function svgToPng(svg: string): Uint8Array {
-  const r = new Resvg(svg, { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font: fontOptions(), logLevel: 'off' });
+  const r = new Resvg(svg, pngRenderOptions());
   return r.render().asPng();
 }
 

@@ -31,8 +31,8 @@ export interface DesignSearchRequest {
   stepEv?: number;
   loss: number;
   freeTopAbsorptance?: boolean;
-  /** false: only the optimum is wanted; the tolerance region is left empty (default true). */
-  tolerance?: boolean;
+  /** Only the optimum is wanted (SearchProblem.optimumOnly): no tolerance region, no runner-up basins. */
+  optimumOnly?: boolean;
   progress?: (fraction: number) => void;
 }
 
@@ -95,7 +95,7 @@ function problemFor(req: DesignSearchRequest, constraints: SubcellConstraint[]):
     fixed: b.map((x) => x.fixed),
     stepEv: req.stepEv,
     loss: req.loss,
-    tolerance: req.tolerance,
+    optimumOnly: req.optimumOnly,
     progress: req.progress,
   };
 }

@@ -32,8 +32,13 @@ export interface SearchProblem {
   margin?: number;
   /** Seeds refined locally. */
   seeds?: number;
-  /** false: leave the tolerance region empty (a question that needs only the optimum, as a batch over sites); default true. */
-  tolerance?: boolean;
+  /**
+   * Only the optimum is wanted (a batch over sites): no tolerance region (left
+   * empty), no runner-up basins, and a one-gap scan that looks at every fourth
+   * grid point and every band edge first, then at every grid point around the
+   * promising ones (the same optimum, tested against the full scan).
+   */
+  optimumOnly?: boolean;
   progress?: (fraction: number) => void;
 }
 
@@ -225,16 +230,48 @@ function searchOneGap(obj: GapObjective, p: SearchProblem, prep: PreparedSearch)
   while (hi >= lo && !(axis[hi] < above)) hi--;
   if (hi < lo) throw new ParameterError('spanEv', 'gaps at which some stack produces power', says`no stack in the allowed ranges produces power; check ${ref('spanEv')}, ${ref('rangesEv')} and ${ref('fixedEv')}`);
   const xs = axis.subarray(lo, hi + 1);
-  const vs = new Float64Array(xs.length);
-  for (let k = 0; k < xs.length; k++) {
-    vs[k] = at(xs[k]);
-    if (p.progress && k % 16 === 0) p.progress((0.8 * k) / xs.length);
+  // NaN marks a point not evaluated (optimum-only scans skip the unpromising ones).
+  const vs = new Float64Array(xs.length).fill(NaN);
+  const scan = (k: number) => {
+    if (Number.isNaN(vs[k])) vs[k] = at(xs[k]);
+  };
+  if (p.optimumOnly) {
+    // Every fourth grid point, every band edge and range end, and both ends; then every point
+    // between the coarse neighbours of each coarse local maximum within the margin.
+    const coarse: number[] = [];
+    for (let k = 0; k < xs.length; k++) {
+      const q = (xs[k] - axis[0]) / step;
+      const onGrid = Math.abs(q - Math.round(q)) < 1e-6;
+      if (!onGrid || Math.round(q) % 4 === 0 || k === 0 || k === xs.length - 1) coarse.push(k);
+    }
+    coarse.forEach((k, c) => {
+      scan(k);
+      if (p.progress && c % 16 === 0) p.progress((0.4 * c) / coarse.length);
+    });
+    let coarseBest = 0;
+    for (const k of coarse) if (vs[k] > coarseBest) coarseBest = vs[k];
+    coarse.forEach((k, c) => {
+      const left = c === 0 ? -Infinity : vs[coarse[c - 1]];
+      const right = c === coarse.length - 1 ? -Infinity : vs[coarse[c + 1]];
+      if (!(vs[k] >= left && vs[k] >= right && vs[k] >= coarseBest * (1 - margin))) return;
+      const from = c === 0 ? k : coarse[c - 1];
+      const to = c === coarse.length - 1 ? k : coarse[c + 1];
+      for (let j = from; j <= to; j++) scan(j);
+    });
+  } else {
+    for (let k = 0; k < xs.length; k++) {
+      scan(k);
+      if (p.progress && k % 16 === 0) p.progress((0.8 * k) / xs.length);
+    }
   }
   let bestScan = 0;
   for (let k = 0; k < vs.length; k++) if (vs[k] > bestScan) bestScan = vs[k];
   if (!(bestScan > 0)) throw new ParameterError('spanEv', 'gaps at which some stack produces power', says`no stack in the allowed ranges produces power; check ${ref('spanEv')}, ${ref('rangesEv')} and ${ref('fixedEv')}`);
+  // Local maxima among evaluated points whose evaluated neighbours are both lower (a point beside an
+  // unevaluated one is not a peak: in an optimum-only scan that side was found unpromising).
   const peaks: number[] = [];
   for (let k = 0; k < vs.length; k++) {
+    if (Number.isNaN(vs[k])) continue;
     const left = k === 0 ? -Infinity : vs[k - 1];
     const right = k === vs.length - 1 ? -Infinity : vs[k + 1];
     if (vs[k] >= left && vs[k] >= right && vs[k] >= bestScan * (1 - margin)) peaks.push(k);
@@ -257,13 +294,13 @@ function searchOneGap(obj: GapObjective, p: SearchProblem, prep: PreparedSearch)
   for (const r of refined) if (basins.every((b) => Math.abs(b.gapsEv[cell] - r.gapsEv[cell]) > 0.003)) basins.push(r);
   const best = basins[0];
   p.progress?.(0.9);
-  const tolerance = p.tolerance === false ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
+  const tolerance = p.optimumOnly ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
   return {
     best,
-    basins: basins.slice(1, 8),
+    basins: p.optimumOnly ? [] : basins.slice(1, 8),
     tolerance,
     bounds,
-    stats: { stepEv: step, axisPoints: axis.length, edgePoints: prep.edgeCount, leaves: xs.length, pruned: 0, seeds: seeds.length, evaluations, seconds: (performance.now() - t0) / 1000 },
+    stats: { stepEv: step, axisPoints: axis.length, edgePoints: prep.edgeCount, leaves: vs.reduce((c, v) => (Number.isNaN(v) ? c : c + 1), 0), pruned: 0, seeds: seeds.length, evaluations, seconds: (performance.now() - t0) / 1000 },
   };
 }
 
@@ -360,7 +397,7 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
   const basins: Basin[] = [];
   for (const r of refined) if (basins.every((b) => b.gapsEv.some((g, i) => Math.abs(g - r.gapsEv[i]) > 0.003))) basins.push(r);
   const best = basins[0];
-  const tolerance = p.tolerance === false ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
+  const tolerance = p.optimumOnly ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
   return {
     best,
     basins: basins.slice(1, 8),

@@ -54,8 +54,8 @@ function request(design: Design, w: DesignWiring, spectra: DesignSearchRequest['
     spanEv: design.spanEv,
     stepEv: design.searchStepEv,
     loss: design.loss,
-    // A site's row holds the optimum and the AM1.5G design's loss, not the tolerance region.
-    tolerance: false,
+    // A site's row holds the optimum and the AM1.5G design's loss: no tolerance region, no runner-up basins.
+    optimumOnly: true,
   };
 }
 

@@ -34,16 +34,17 @@ describe('band edges of several weighted spectra', () => {
   });
 });
 
-describe('a search that does not ask for the tolerance region', () => {
-  test('finds the same optimum with fewer evaluations and leaves the region empty', () => {
+describe('a search that asks for the optimum only', () => {
+  test('finds the same optimum with fewer evaluations and leaves the tolerance region and basins empty', () => {
     const obj = () => new StepObjective({ cells: 2, wiring: 'series', ere: [1, 1], topAbsorptance: 1, spectra: [{ spectrum: ref, weight: 1, tempK: 300 }] });
     const problem = { cells: 2, spanEv: [0.5, 2.6] as [number, number], ranges: [], fixed: [undefined, 1.12], loss: 0.01 };
     const edges = bandEdgeEnergiesEv(ref, 0.5, 2.6);
     const full = searchGaps(obj(), problem, edges);
-    const bare = searchGaps(obj(), { ...problem, tolerance: false }, edges);
+    const bare = searchGaps(obj(), { ...problem, optimumOnly: true }, edges);
     expect(bare.best).toEqual(full.best);
     expect(full.tolerance.intervals.length).toBe(1);
     expect(bare.tolerance.intervals).toEqual([]);
+    expect(bare.basins).toEqual([]);
     expect(bare.tolerance.threshold).toBe(full.tolerance.threshold);
     expect(bare.stats.evaluations).toBeLessThan(full.stats.evaluations);
   });
