@@ -60,6 +60,16 @@ export interface MapPairEntry {
   y?: [number, number];
 }
 
+/** The optional light-model keys of `weather:` and `sites:` (tracking, albedo, aerosol, water, ozone, Faiman coefficients). */
+export interface WeatherLightKeys {
+  tracking?: 'none' | 'single-axis';
+  albedo?: number;
+  aod500?: number;
+  water_cm?: number;
+  ozone_atm_cm?: number;
+  faiman?: [number, number];
+}
+
 /** The file as written, after schema validation. */
 export interface DesignFile {
   name: string;
@@ -67,31 +77,19 @@ export interface DesignFile {
   spectrum?: string | SpectrumEntry;
   ensemble?: string;
   /** A weather file's hourly year as the ensemble (docs/PHYSICS.md §10). */
-  weather?: {
+  weather?: WeatherLightKeys & {
     file: string;
     tilt: number;
     azimuth: number;
-    tracking?: 'none' | 'single-axis';
-    albedo?: number;
-    aod500?: number;
-    water_cm?: number;
-    ozone_atm_cm?: number;
-    faiman?: [number, number];
   };
   /** The question asked at several sites, each under its weather file's hourly year on one plane; the report adds a Sites section. */
-  sites?: {
+  sites?: WeatherLightKeys & {
     /** Weather files or folders of them, relative to the design file. */
     files: string[];
     /** Tilt [°] or "latitude" (each site's own). */
     tilt: number | 'latitude';
     /** Azimuth [°] east of north, or "equator". */
     azimuth: number | 'equator';
-    tracking?: 'none' | 'single-axis';
-    albedo?: number;
-    aod500?: number;
-    water_cm?: number;
-    ozone_atm_cm?: number;
-    faiman?: [number, number];
   };
   temperature?: number;
   subcells: SubcellEntry[];
