@@ -58,6 +58,23 @@ export function makeSpectrum(input: SpectrumInput): Spectrum {
   return spectrumOfArrays({ ...input, wavelengthNm: Float64Array.from(input.wavelengthNm), irradiance: Float64Array.from(input.irradiance) });
 }
 
+/** Spectral photon flux φ_λ = E_λ·λ/(hc) [m⁻² s⁻¹ nm⁻¹] at grid point i: the one definition every table and integral uses. */
+export function photonFluxAt(irradiance: ArrayLike<number>, wavelengthNm: ArrayLike<number>, i: number): number {
+  return (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
+}
+
+/**
+ * Photons below λ [m⁻² s⁻¹] for λ inside grid interval i (λ_i ≤ λ ≤ λ_i+1): the
+ * cumulative table at λ_i plus the exact integral of the linear interpolant of φ_λ from λ_i.
+ */
+function photonsBelowInInterval(w: ArrayLike<number>, e: ArrayLike<number>, cumulative: ArrayLike<number>, i: number, lambda: number): number {
+  const t = lambda - w[i];
+  const f0 = photonFluxAt(e, w, i);
+  const f1 = photonFluxAt(e, w, i + 1);
+  const fx = f0 + ((f1 - f0) * t) / (w[i + 1] - w[i]);
+  return cumulative[i] + 0.5 * (f0 + fx) * t;
+}
+
 /**
  * makeSpectrum for arrays the spectrum may keep as they are (no copy): a large
  * ensemble's members are views into one table, and members with the same rows
@@ -68,11 +85,11 @@ export function spectrumOfArrays(input: Omit<SpectrumInput, 'sha256'> & { sha256
   if (n < 2 || input.irradiance.length !== n) throw new UserError('a spectrum needs at least two points with one irradiance each');
   const wavelengthNm = input.wavelengthNm;
   const irradiance = input.irradiance;
-  // φ_λ = E_λ·λ/(hc), computed where it is used (the same expression, so the same values).
+  // φ_λ is computed where it is used (photonFluxAt), not stored: see the lazy table below.
   const cumulativePhotons = new Float64Array(n);
-  let fPrev = (irradiance[0] * wavelengthNm[0]) / HC_J_NM;
+  let fPrev = photonFluxAt(irradiance, wavelengthNm, 0);
   for (let i = 1; i < n; i++) {
-    const f = (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
+    const f = photonFluxAt(irradiance, wavelengthNm, i);
     cumulativePhotons[i] = cumulativePhotons[i - 1] + 0.5 * (f + fPrev) * (wavelengthNm[i] - wavelengthNm[i - 1]);
     fPrev = f;
   }
@@ -86,7 +103,7 @@ export function spectrumOfArrays(input: Omit<SpectrumInput, 'sha256'> & { sha256
   // irradiance) and a hash given as a function are made on first read, then kept.
   lazyProperty(spectrum, 'photonFlux', () => {
     const photonFlux = new Float64Array(n);
-    for (let i = 0; i < n; i++) photonFlux[i] = (irradiance[i] * wavelengthNm[i]) / HC_J_NM;
+    for (let i = 0; i < n; i++) photonFlux[i] = photonFluxAt(irradiance, wavelengthNm, i);
     return photonFlux;
   });
   const sha = input.sha256;
@@ -137,14 +154,7 @@ export function photonsBelowWavelength(s: Spectrum, wavelengthNm: number): numbe
   const n = w.length;
   if (!(wavelengthNm > w[0])) return 0;
   if (wavelengthNm >= w[n - 1]) return s.cumulativePhotons[n - 1];
-  const i = bracket(w, wavelengthNm);
-  const t = wavelengthNm - w[i];
-  // φ at the two grid points, as the photon-flux table holds them (spectrumOfArrays).
-  const e = s.irradiance;
-  const f0 = (e[i] * w[i]) / HC_J_NM;
-  const f1 = (e[i + 1] * w[i + 1]) / HC_J_NM;
-  const fx = f0 + ((f1 - f0) * t) / (w[i + 1] - w[i]);
-  return s.cumulativePhotons[i] + 0.5 * (f0 + fx) * t;
+  return photonsBelowInInterval(w, s.irradiance, s.cumulativePhotons, bracket(w, wavelengthNm), wavelengthNm);
 }
 
 /**
@@ -187,12 +197,7 @@ export function stepJscManyAm2(cols: SpectraColumns, energyEv: number, out: Floa
       grid = w;
       i = bracket(w, lambda);
     }
-    const t = lambda - w[i];
-    const e = cols.irradiance[k];
-    const f0 = (e[i] * w[i]) / HC_J_NM;
-    const f1 = (e[i + 1] * w[i + 1]) / HC_J_NM;
-    const fx = f0 + ((f1 - f0) * t) / (w[i + 1] - w[i]);
-    out[offset + k] = ELEMENTARY_CHARGE_C * (cols.cumulativePhotons[k][i] + 0.5 * (f0 + fx) * t);
+    out[offset + k] = ELEMENTARY_CHARGE_C * photonsBelowInInterval(w, cols.irradiance[k], cols.cumulativePhotons[k], i, lambda);
   }
 }
 

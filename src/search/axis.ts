@@ -4,8 +4,8 @@
  * spectra the winning basin can be a few meV wide at an O₂ or H₂O band edge,
  * which no coarse grid is sure to land in), plus any fixed gaps.
  */
-import { HC_EV_NM, HC_J_NM } from '../physics/constants.js';
-import type { Spectrum } from '../light/spectrum.js';
+import { HC_EV_NM } from '../physics/constants.js';
+import { photonFluxAt, type Spectrum } from '../light/spectrum.js';
 
 /**
  * Band-edge energies [eV] of a spectrum: native grid points where the photon
@@ -14,9 +14,9 @@ import type { Spectrum } from '../light/spectrum.js';
  */
 export function bandEdgeEnergiesEv(s: Pick<Spectrum, 'wavelengthNm' | 'irradiance'>, loEv: number, hiEv: number, count = 40, separationNm = 4): number[] {
   const w = s.wavelengthNm;
-  // φ_λ = E_λ·λ/(hc) as the spectrum defines it, without making its photon-flux table.
+  // φ_λ as the spectrum defines it, without making its photon-flux table.
   const e = s.irradiance;
-  const flux = (i: number) => (e[i] * w[i]) / HC_J_NM;
+  const flux = (i: number) => photonFluxAt(e, w, i);
   let fmax = 0;
   for (let i = 0; i < w.length; i++) {
     const f = flux(i);

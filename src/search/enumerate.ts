@@ -7,7 +7,8 @@
  * below the last gap; no subcell's Voc exceeds that of the next-higher gap
  * with all remaining photons.
  */
-import { ELEMENTARY_CHARGE_C, HC_EV_NM, HC_J_NM, thermalVoltageV } from '../physics/constants.js';
+import { ELEMENTARY_CHARGE_C, HC_EV_NM, thermalVoltageV } from '../physics/constants.js';
+import { photonFluxAt } from '../light/spectrum.js';
 import { singlePowerWm2, type StepObjective } from '../stack/step-objective.js';
 import { CandidateKeeper, type Candidate } from './candidates.js';
 import { lastIndexNotPast } from '../numerics/sorted.js';
@@ -63,8 +64,8 @@ function axisTables(obj: StepObjective, axis: Float64Array): AxisTables {
       let m = 0;
       const w = ws.spectrum.wavelengthNm;
       const e = ws.spectrum.irradiance;
-      // φ_λ = E_λ·λ/(hc) as the spectrum defines it, without making its photon-flux table.
-      for (let i = 0; i < w.length; i++) m = Math.max(m, (((e[i] * w[i]) / HC_J_NM) * w[i] * w[i]) / HC_EV_NM);
+      // φ_λ as the spectrum defines it, without making its photon-flux table.
+      for (let i = 0; i < w.length; i++) m = Math.max(m, (photonFluxAt(e, w, i) * w[i] * w[i]) / HC_EV_NM);
       return ELEMENTARY_CHARGE_C * m;
     }),
   };

@@ -43,7 +43,6 @@ const NEWTON_LAST_STEP = 1e-7;
  * there, agrees with a solve run to |Δy| < 1e-13 within 1e-15 relative).
  */
 export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number): number {
-  if (n === 2) return seriesPair(jph[0], jph[1], j0[0], j0[1], vt);
   let jMax = Infinity;
   let s = 0;
   for (let i = 0; i < n; i++) {
@@ -82,48 +81,6 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
   let sum = 0;
   for (let i = 0; i < n; i++) sum += Math.log((jph[i] + j0[i] - j) / j0[i]);
   const p = j * vt * sum;
-  return p > 0 ? p : 0;
-}
-
-/**
- * seriesPowerWm2 for two cells, written out: the same operations in the same
- * order (so the same value, bit for bit), without the loops over cells, for
- * the two-cell maps and one-gap questions that call it millions of times.
- */
-function seriesPair(jph1: number, jph2: number, j01: number, j02: number, vt: number): number {
-  const a1 = jph1 + j01;
-  const a2 = jph2 + j02;
-  let jMax = Infinity;
-  if (a1 < jMax) jMax = a1;
-  if (a2 < jMax) jMax = a2;
-  const s = Math.log1p(jph1 / j01) + Math.log1p(jph2 / j02);
-  if (!(jMax > 0) || !(s > 0)) return 0;
-  const yMax = Math.log(jMax);
-  let y = yMax - Math.log(s + 1);
-  let j = 0;
-  for (let it = 0; it < 100; it++) {
-    const t = Math.exp(y);
-    j = jMax - t;
-    const u1 = a1 - j;
-    const u2 = a2 - j;
-    const sum = Math.log(u1 / j01) + Math.log(u2 / j02);
-    const r1 = 1 / u1;
-    const r2 = 1 / u2;
-    const s1 = r1 + r2;
-    const s2 = r1 * r1 + r2 * r2;
-    const g = sum - j * s1;
-    const gy = t * (2 * s1 + j * s2);
-    let next = y - g / gy;
-    if (next >= yMax) next = 0.5 * (y + yMax);
-    if (Math.abs(next - y) < NEWTON_LAST_STEP) {
-      y = next;
-      break;
-    }
-    y = next;
-  }
-  j = jMax - Math.exp(y);
-  if (!(j > 0)) return 0;
-  const p = j * vt * (Math.log((a1 - j) / j01) + Math.log((a2 - j) / j02));
   return p > 0 ? p : 0;
 }
 
