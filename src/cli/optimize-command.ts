@@ -208,7 +208,7 @@ export async function optimizeCommand(a: OptimizeArgs): Promise<string> {
   for (const w of d.warnings) lines.push('', `Warning: ${w}`);
   lines.push(
     '',
-    `Search: ${r.stats.leaves} combinations on a ${r.stats.stepEv * 1000} meV grid plus ${r.stats.edgePoints} band-edge gaps, ${r.stats.seeds} seeds refined, ${r.stats.seconds.toFixed(2)} s.`,
+    `Search: ${r.stats.leaves} gap combination${r.stats.leaves === 1 ? '' : 's'} on a ${r.stats.stepEv * 1000} meV grid plus ${r.stats.edgePoints} band-edge gaps, ${r.stats.seeds} seed${r.stats.seeds === 1 ? '' : 's'} refined, ${r.stats.seconds.toFixed(2)} s.`,
     ...ensembleAware(assumptionLines(bestSpec, first), members).map((l) => `  ${l}`),
     '',
     CAUTION,

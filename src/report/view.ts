@@ -326,7 +326,7 @@ export function assumptionList(data: ReportData): string[] {
   lines.push(`Search: gaps within ${design.spanEv[0]}–${design.spanEv[1]} eV, ordered top to bottom; coarse grid plus the spectrum's band-edge gaps, best distinct candidates refined below 1 meV.`);
   for (const o of data.outcomes) {
     const st = o.search.result.stats;
-    lines.push(`Search grid, ${o.wiring.key}: ${fx(st.stepEv * 1000, 1)} meV coarse step, ${st.axisPoints} axis points (${st.edgePoints} band edges), ${st.leaves} combinations, ${st.seeds} seeds refined.`);
+    lines.push(`Search grid, ${o.wiring.key}: ${fx(st.stepEv * 1000, 1)} meV coarse step, ${st.axisPoints} axis points (${st.edgePoints} band edges), ${st.leaves} gap combination${st.leaves === 1 ? '' : 's'}, ${st.seeds} seed${st.seeds === 1 ? '' : 's'} refined.`);
   }
   // Each wiring has its own maps (the default step depends on its search): one line per pair where every wiring's grid agrees, one per wiring where they differ.
   const mapLine = (m: MapOutcome): string => {
