@@ -31,56 +31,103 @@ export interface StepObjectiveOptions {
 
 /** A Newton step in y shorter than this is the last one taken (seriesPowerWm2). */
 const NEWTON_LAST_STEP = 1e-7;
+/** Σ ln x_i is taken as ln Π x_i, the product folded into the sum before it could overflow. */
+const PRODUCT_FOLD = 1e150;
 
 /**
  * Maximum power [W/m²] of a series string with photocurrents and saturation
  * currents [A/m²]. dP/dJ/V_t = Σ ln(u_i/J0_i) − J·Σ 1/u_i, u_i = J_ph,i + J0_i − J,
  * has a log barrier at J_max = min(J_ph + J0). Newton runs in y = ln(J_max − J),
- * where dP/dJ is concave and increasing: started left of its root (u = J_max/(S+1),
- * S = Σ ln(1 + J_ph/J0), below the optimum's u ≈ J/S) it converges monotonically
- * and quadratically: it stops after the first step shorter than 1e-7, which leaves
- * y within about 1e-14 of the root (four steps on average; the power, stationary
- * there, agrees with a solve run to |Δy| < 1e-13 within 1e-15 relative).
+ * where dP/dJ is concave and increasing, so from any start it converges
+ * quadratically, monotonically after its first step (a tangent of a concave
+ * function lies above it: a step from right of the root lands left of it).
+ * The start is the single-junction optimum J_max/u = r with r + ln r = S + 1,
+ * S = Σ ln(1 + J_ph/J0), to first order (r ≈ S + 1 − ln(S + 1)): about three
+ * steps on average. The solve stops when the next step would be shorter than
+ * 1e-7, leaving y within about 1e-14 of the root, and returns the power at the
+ * last point evaluated: the power is stationary there, so it agrees with a
+ * solve run to |Δy| < 1e-13 within 1e-15 relative. The logarithms of each
+ * sum are taken as one logarithm of a product. A near-dark string (S < 1) is
+ * bisected in J instead (darkSeriesPowerWm2).
  */
 export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number): number {
   let jMax = Infinity;
+  let prod = 1;
   let s = 0;
   for (let i = 0; i < n; i++) {
-    if (jph[i] + j0[i] < jMax) jMax = jph[i] + j0[i];
-    s += Math.log1p(jph[i] / j0[i]);
+    const m = jph[i] + j0[i];
+    if (m < jMax) jMax = m;
+    prod *= m / j0[i];
+    if (prod > PRODUCT_FOLD) {
+      s += Math.log(prod);
+      prod = 1;
+    }
   }
+  s += Math.log(prod);
   if (!(jMax > 0) || !(s > 0)) return 0;
+  if (s < 1) return darkSeriesPowerWm2(jph, j0, n, vt, jMax);
   const yMax = Math.log(jMax);
-  let y = yMax - Math.log(s + 1);
-  let j = 0;
+  let y = Math.log(jMax / (s + 1 - Math.log(s + 1)));
   for (let it = 0; it < 100; it++) {
     const t = Math.exp(y);
-    j = jMax - t;
+    const j = jMax - t;
     let s1 = 0;
     let s2 = 0;
-    let sum = 0;
+    let logs = 0;
+    let pr = 1;
     for (let i = 0; i < n; i++) {
       const u = jph[i] + j0[i] - j;
-      sum += Math.log(u / j0[i]);
+      pr *= u / j0[i];
+      if (pr > PRODUCT_FOLD) {
+        logs += Math.log(pr);
+        pr = 1;
+      }
       const r = 1 / u;
       s1 += r;
       s2 += r * r;
     }
+    const sum = logs + Math.log(pr);
     const g = sum - j * s1;
     const gy = t * (2 * s1 + j * s2);
     let next = y - g / gy;
     if (next >= yMax) next = 0.5 * (y + yMax);
     if (Math.abs(next - y) < NEWTON_LAST_STEP) {
-      y = next;
-      break;
+      const p = j * vt * sum;
+      return p > 0 ? p : 0;
     }
     y = next;
   }
-  j = jMax - Math.exp(y);
+  const j = jMax - Math.exp(y);
   if (!(j > 0)) return 0;
+  const p = j * vt * logSum1p(jph, j0, n, j);
+  return p > 0 ? p : 0;
+}
+
+/** Σ ln(u_i/J0_i) at current J [A/m²], term by term through log1p: exact where the terms are small. */
+function logSum1p(jph: Float64Array, j0: Float64Array, n: number, j: number): number {
   let sum = 0;
-  for (let i = 0; i < n; i++) sum += Math.log((jph[i] + j0[i] - j) / j0[i]);
-  const p = j * vt * sum;
+  for (let i = 0; i < n; i++) sum += Math.log1p((jph[i] - j) / j0[i]);
+  return sum;
+}
+
+/**
+ * seriesPowerWm2 for a near-dark string (S < 1: photocurrents not far above J0),
+ * where the optimum J is a small share of J_max and a step in y says little about J:
+ * dP/dJ, strictly decreasing from S at J = 0, bisected in J to the last bit.
+ */
+function darkSeriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, vt: number, jMax: number): number {
+  let lo = 0;
+  let hi = jMax;
+  for (let it = 0; it < 2000; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (mid <= lo || mid >= hi) break;
+    let s1 = 0;
+    for (let i = 0; i < n; i++) s1 += 1 / (jph[i] + j0[i] - mid);
+    if (logSum1p(jph, j0, n, mid) - mid * s1 > 0) lo = mid;
+    else hi = mid;
+  }
+  const j = 0.5 * (lo + hi);
+  const p = j * vt * logSum1p(jph, j0, n, j);
   return p > 0 ? p : 0;
 }
 
