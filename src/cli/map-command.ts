@@ -116,7 +116,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   ];
   const csv = () => withCsvWarnings(mapToCsvBytes(m, free, metaLines), warnings);
   if (out) writeFileAtomic(out, /\.json$/i.test(out) ? finiteJson(mapJson(m, { ...meta, warnings })) : csv(), '--out');
-  const points = m.values.reduce((s, v) => s + (Number.isNaN(v) ? 0 : 1), 0);
+  const points = m.points;
   const summary = {
     out: out ?? null,
     points,

@@ -38,6 +38,8 @@ export interface GapMap {
   profileGaps: Float64Array[];
   profile: boolean;
   best: { x: number; y: number; value: number };
+  /** Pixels with a value (the rest are NaN). */
+  points: number;
 }
 
 /** Uniform axis from lo to hi [eV] by step. */
@@ -64,8 +66,10 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   const free = Array.from({ length: n }, (_, i) => i).filter((i) => i !== xCell && i !== yCell && req.fixed[i] === undefined);
   const profileGaps = free.map(() => new Float64Array(nx * ny).fill(NaN));
   let best = { x: NaN, y: NaN, value: -Infinity };
+  let points = 0;
   const note = (ix: number, iy: number, v: number) => {
     values[iy * nx + ix] = v;
+    if (!Number.isNaN(v)) points++;
     if (v > best.value) best = { x: x[ix], y: y[iy], value: v };
   };
   const fast = obj instanceof StepObjective && n === 2 && typeof obj.options.topAbsorptance === 'number';
@@ -93,7 +97,7 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
         note(ix, iy, p / so.incidentPowerWm2);
       }
     }
-    return { x, y, xCell, yCell, values, profileGaps, profile: false, best };
+    return { x, y, xCell, yCell, values, profileGaps, profile: false, best, points };
   }
   const gaps = new Array<number>(n);
   for (let i = 0; i < n; i++) gaps[i] = req.fixed[i] ?? NaN;
@@ -148,7 +152,7 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
     }
     req.progress?.((iy + 1) / ny);
   }
-  return { x, y, xCell, yCell, values, profileGaps, profile: free.length > 0, best };
+  return { x, y, xCell, yCell, values, profileGaps, profile: free.length > 0, best, points };
 }
 
 const MAP_TITLE = '# gapstack map: detailed-balance efficiency [%] over two subcell gaps [eV]; theoretical limits under the stated assumptions, not device predictions';
@@ -182,77 +186,83 @@ export function mapToCsv(m: GapMap, freeCells: number[] = [], metaLines: readonl
 const DIGITS = 6;
 const SCALE = 10 ** DIGITS;
 
-/** ASCII bytes of each axis value as toFixed(5), formatted once per axis rather than once per pixel. */
-function fixedAxis(values: ArrayLike<number>): Uint8Array[] {
-  return Array.from(values as ArrayLike<number>, (v) => Buffer.from(v.toFixed(5), 'latin1'));
-}
+/** ASCII of the numbers 00–99, two bytes each. */
+const DIGIT_PAIRS = Uint8Array.from({ length: 200 }, (_, i) => 48 + (i % 2 === 0 ? Math.floor(i / 20) : (i >> 1) % 10));
 
-/** Copy a few bytes by hand: Buffer#copy is a native call, slower than a loop for a dozen bytes. */
-function put(buf: Uint8Array, pos: number, bytes: Uint8Array): number {
-  for (let i = 0; i < bytes.length; i++) buf[pos + i] = bytes[i];
-  return pos + bytes.length;
+/** Each axis value as lead + toFixed(5) + tail, formatted once per axis: the bytes end to end and where each starts. */
+function axisBytes(values: ArrayLike<number>, lead: string, tail: string): { bytes: Uint8Array; start: Int32Array } {
+  const parts = Array.from(values as ArrayLike<number>, (v) => `${lead}${v.toFixed(5)}${tail}`);
+  const start = new Int32Array(parts.length + 1);
+  for (let i = 0; i < parts.length; i++) start[i + 1] = start[i] + parts[i].length;
+  return { bytes: Buffer.from(parts.join(''), 'latin1'), start };
 }
 
 /**
- * Write v.toFixed(6) at buf[pos] and return the new position. For 0 < v < 1e7
- * the nearest integer to v·1e6 is found by rounding the product, whose error
- * (below 2e-6) cannot change it unless v·1e6 lies within 1e-6 of a half,
- * where toFixed itself decides; other values go through toFixed too.
+ * mapToCsv as bytes, for writing large maps: the same bytes, without a string
+ * per cell. A value w = 100·v in (0, 99.9999995) is written as toFixed(6) would: the
+ * nearest integer to w·1e6 is found by rounding the product, whose error
+ * (below 2e-6) cannot change it unless w·1e6 lies within 1e-6 of a half,
+ * where toFixed itself decides; other values go through toFixed too. One loop
+ * with no calls per row (a large map is written once, mostly before the
+ * optimising compiler has seen the loop).
  */
-function writeFixed6(buf: Buffer, pos: number, v: number): number {
-  const scaled = v * SCALE;
-  const frac = scaled - Math.floor(scaled);
-  if (!(v > 0 && v < 1e7) || Math.abs(frac - 0.5) < 1e-6) return pos + buf.write(v.toFixed(DIGITS), pos, 'latin1');
-  const n = Math.round(scaled);
-  let int = Math.floor(n / SCALE);
-  let fr = n - int * SCALE;
-  // Integer part: count its digits, then write them from the last (small integers: int32 arithmetic).
-  let digits = 1;
-  for (let t = int; t >= 10; t = Math.floor(t / 10)) digits++;
-  for (let d = digits - 1; d >= 0; d--) {
-    buf[pos + d] = 48 + (int % 10);
-    int = Math.floor(int / 10);
-  }
-  pos += digits;
-  buf[pos++] = 46;
-  // fr < 10^6 fits an int32.
-  for (let d = DIGITS - 1; d >= 0; d--) {
-    const q = ((fr | 0) / 10) | 0;
-    buf[pos + d] = 48 + ((fr | 0) - q * 10);
-    fr = q;
-  }
-  return pos + DIGITS;
-}
-
-/** mapToCsv as bytes, for writing large maps: the same bytes, without a string per cell. */
 export function mapToCsvBytes(m: GapMap, freeCells: number[] = [], metaLines: readonly string[] = []): Uint8Array {
   const preamble = Buffer.from(mapCsvHead(m, freeCells, metaLines), 'utf8');
   const nx = m.x.length;
-  const xs = fixedAxis(m.x);
-  const ys = fixedAxis(m.y);
-  let count = 0;
-  for (let k = 0; k < m.values.length; k++) if (!Number.isNaN(m.values[k])) count++;
-  // Room for every line: the widest x and y, each profile gap as toFixed(5) of up to 1e6, the value up to 1e7 (percent).
-  const widest = (a: Uint8Array[]) => a.reduce((w, b) => Math.max(w, b.length), 0);
-  const perLine = widest(xs) + widest(ys) + m.profileGaps.length * 16 + 20 + 4 + m.profileGaps.length;
-  const buf = Buffer.allocUnsafe(preamble.length + count * perLine + 2);
-  let pos = put(buf, 0, preamble);
-  for (let iy = 0; iy < m.y.length; iy++) {
-    const yb = ys[iy];
-    for (let ix = 0; ix < nx; ix++) {
-      const k = iy * nx + ix;
-      const v = m.values[k];
-      if (Number.isNaN(v)) continue;
-      buf[pos++] = 10;
-      pos = put(buf, pos, xs[ix]);
-      buf[pos++] = 44;
-      pos = put(buf, pos, yb);
-      buf[pos++] = 44;
-      for (const g of m.profileGaps) {
-        pos += buf.write(g[k].toFixed(5), pos, 'latin1');
+  const ny = m.y.length;
+  const xa = axisBytes(m.x, '\n', ',');
+  const ya = axisBytes(m.y, '', ',');
+  const xb = xa.bytes;
+  const xs = xa.start;
+  const yb = ya.bytes;
+  const ys = ya.start;
+  const values = m.values;
+  const profile = m.profileGaps;
+  const widest = (s: Int32Array) => s.reduce((w, v, i) => (i > 0 ? Math.max(w, v - s[i - 1]) : w), 0);
+  // Room for every line: the widest x and y, each profile gap as toFixed(5) of up to 1e6 and a comma, the value up to 1e7 (percent).
+  const perLine = widest(xs) + widest(ys) + profile.length * 16 + 20;
+  const buf = Buffer.allocUnsafe(preamble.length + m.points * perLine + 2);
+  buf.set(preamble, 0);
+  let pos = preamble.length;
+  for (let iy = 0; iy < ny; iy++) {
+    const y0 = ys[iy];
+    const y1 = ys[iy + 1];
+    let k = iy * nx;
+    for (let ix = 0; ix < nx; ix++, k++) {
+      const v = values[k];
+      if (v !== v) continue;
+      for (let i = xs[ix], e = xs[ix + 1]; i < e; i++) buf[pos++] = xb[i];
+      for (let i = y0; i < y1; i++) buf[pos++] = yb[i];
+      for (let g = 0; g < profile.length; g++) {
+        pos += buf.write(profile[g][k].toFixed(5), pos, 'latin1');
         buf[pos++] = 44;
       }
-      pos = writeFixed6(buf, pos, v * 100);
+      const w = v * 100;
+      const scaled = w * SCALE;
+      const n = Math.round(scaled);
+      const int = Math.floor(n / SCALE);
+      if (!(w > 0 && int < 100) || Math.abs(scaled - Math.floor(scaled) - 0.5) < 1e-6) {
+        pos += buf.write(w.toFixed(DIGITS), pos, 'latin1');
+        continue;
+      }
+      let fr = n - int * SCALE;
+      if (int >= 10) {
+        buf[pos++] = DIGIT_PAIRS[2 * int];
+        buf[pos++] = DIGIT_PAIRS[2 * int + 1];
+      } else buf[pos++] = 48 + int;
+      buf[pos++] = 46;
+      // Six decimals as three pairs: fr < 1e6.
+      const a = Math.floor(fr / 10000);
+      fr -= a * 10000;
+      const b = Math.floor(fr / 100);
+      const c = fr - b * 100;
+      buf[pos] = DIGIT_PAIRS[2 * a];
+      buf[pos + 1] = DIGIT_PAIRS[2 * a + 1];
+      buf[pos + 2] = DIGIT_PAIRS[2 * b];
+      buf[pos + 3] = DIGIT_PAIRS[2 * b + 1];
+      buf[pos + 4] = DIGIT_PAIRS[2 * c];
+      buf[pos + 5] = DIGIT_PAIRS[2 * c + 1];
+      pos += DIGITS;
     }
   }
   buf[pos++] = 10;
