@@ -75,29 +75,9 @@ export function computeMap(obj: GapObjective, req: MapRequest): GapMap {
   const fast = obj instanceof StepObjective && n === 2 && typeof obj.options.topAbsorptance === 'number';
   if (fast) {
     const so = obj as StepObjective;
-    const spectra = so.spectra;
-    const onX = so.axisTables(x);
-    const onY = so.axisTables(y);
-    const tables = onX.map((tx, k) => ({ qx: tx.qnAm2, qy: onY[k].qnAm2, jx: tx.j0RadAm2, jy: onY[k].j0RadAm2 }));
-    const qn = new Float64Array(2);
-    const j0 = new Float64Array(2);
-    const a = so.options.topAbsorptance as number;
-    for (let iy = 0; iy < ny; iy++) {
-      for (let ix = 0; ix < nx; ix++) {
-        if (!(y[iy] < x[ix])) continue;
-        let p = 0;
-        for (let k = 0; k < spectra.length; k++) {
-          const t = tables[k];
-          qn[0] = t.qx[ix];
-          qn[1] = t.qy[iy];
-          j0[0] = t.jx[ix];
-          j0[1] = t.jy[iy];
-          p += spectra[k].weight * so.powerFromTables(k, qn, j0, a);
-        }
-        note(ix, iy, p / so.incidentPowerWm2);
-      }
-    }
-    return { x, y, xCell, yCell, values, profileGaps, profile: false, best, points };
+    const done = so.mapTwoCells(x, y, so.options.topAbsorptance as number, values);
+    if (done.best >= 0) best = { x: x[done.best % nx], y: y[Math.floor(done.best / nx)], value: values[done.best] };
+    return { x, y, xCell, yCell, values, profileGaps, profile: false, best, points: done.points };
   }
   const gaps = new Array<number>(n);
   for (let i = 0; i < n; i++) gaps[i] = req.fixed[i] ?? NaN;
