@@ -96,8 +96,10 @@ await esbuild.build({
     ].join(' '),
   },
   legalComments: 'inline',
-  // Smaller files compile faster (V8 parses every byte of a chunk it loads); names are
-  // kept for stack traces (--debug) and for code that reads a function's or class's name.
-  minify: true,
-  keepNames: true,
+  // Whitespace and syntax are minified (V8 parses every byte of a chunk it loads);
+  // identifiers are not, so functions and classes keep their names (stack traces under
+  // --debug) without keepNames, whose call per function defined cost the report's
+  // bundled DOM library about a tenth of the command's time.
+  minifyWhitespace: true,
+  minifySyntax: true,
 });
