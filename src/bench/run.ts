@@ -82,7 +82,7 @@ if (npx.status === 0) {
 
 // Maps, with the numpy peer in the same run.
 const map5 = join(work, 'map-5meV.csv');
-const m5 = row('2T map 0.5–2.5 eV at 5 meV with --out', gapstack('map', '--x', '0.5:2.5', '--y', '0.5:2.5', '--step', '0.005', '--out', map5), 7, '≤ 0.25 s and ≥ 4× faster than the numpy peer', (r) => r.seconds.median <= 0.25);
+const m5 = row('2T map 0.5–2.5 eV at 5 meV with --out', gapstack('map', '--x', '0.5:2.5', '--y', '0.5:2.5', '--step', '0.005', '--out', map5), 7, '≤ 0.25 s (the time half of this row\'s target; the peer half follows)', (r) => r.seconds.median <= 0.25);
 const numpyOk = spawnSync('python3', ['-c', 'import numpy'], { encoding: 'utf8' }).status === 0;
 if (numpyOk) {
   const peerScript = join(root, 'src', 'bench', 'numpy-map-peer.py');
@@ -100,9 +100,12 @@ if (numpyOk) {
   }
   const ratio = stats(peer.map((p, k) => p / ours[k]));
   m5.peer = { command: `python3 src/bench/numpy-map-peer.py spectra/am1.5g.tsv <out.csv> 0.005`, seconds: stats(peer), peak_mib: peerPeak, ratio_peer_over_gapstack: ratio };
-  m5.met = m5.seconds.median <= 0.25 && ratio.median >= 4;
+  const timeMet = m5.met === true;
+  m5.target = '≤ 0.25 s and ≥ 4× faster than the numpy peer';
+  m5.met = timeMet && ratio.median >= 4;
   log(`  numpy peer (same run, paired with gapstack): ${stats(peer).median.toFixed(3)} s [${stats(peer).min.toFixed(3)}–${stats(peer).max.toFixed(3)}], peak ${peerPeak?.toFixed(0) ?? '?'} MiB; peer/gapstack ${ratio.median.toFixed(1)}× [${ratio.min.toFixed(1)}–${ratio.max.toFixed(1)}]`);
-  log(`  target with the peer: ${m5.met ? 'met' : 'NOT met'}`);
+  log(`  target ≥ 4× faster than the numpy peer (median of paired ratios): ${ratio.median >= 4 ? 'met' : 'NOT met'}`);
+  log(`  row target ${m5.target}: ${m5.met ? 'met' : 'NOT met'}`);
 } else {
   m5.note = 'python3 with numpy not found: the peer comparison was skipped';
   log(`  ${m5.note}`);
