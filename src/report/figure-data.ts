@@ -6,7 +6,7 @@
  */
 import type { Design } from '../design/index.js';
 import { HC_EV_NM, toMaCm2 } from '../physics/constants.js';
-import { mapToCsv, type GapMap } from '../search/map.js';
+import { mapToCsvBytes, type GapMap } from '../search/map.js';
 import { toolVersion } from './version.js';
 import type { MapOutcome, ReportData, WiringOutcome } from './compute.js';
 import { mapChartSvg } from './charts/map-chart.js';
@@ -120,7 +120,7 @@ export function mapChart(data: ReportData, o: WiringOutcome, m: MapOutcome, doma
     caution: CAUTION,
   };
   const meta = figureMeta(data, o.wiring.key, { gaps: 'eV', efficiency_percent: '%', current_matching_ma_cm2: 'mA/cm²' });
-  return { chart: { name: id, svg, csv: mapToCsv(mm, m.profiled), json, meta }, grid, id, gridId };
+  return { chart: { name: id, svg, csv: Buffer.from(mapToCsvBytes(mm, m.profiled)).toString('utf8'), json, meta }, grid, id, gridId };
 }
 
 export function detailCharts(data: ReportData, o: WiringOutcome): { spectrum: Chart; jv: Chart; sensitivity: Chart } {
