@@ -42,7 +42,11 @@ export interface FaimanCoefficients {
   u1: number;
 }
 
-/** U₀ = 25, U₁ = 6.84 (Faiman 2008 as usually quoted for glass-backsheet modules; from memory, user-settable). */
+/**
+ * U₀ = 25 W m⁻² K⁻¹, U₁ = 6.84 W s m⁻³ K⁻¹: Faiman's fit for seven silicon modules on an open rack
+ * (Prog. Photovolt. 16 (2008) 307), the defaults pvlib documents for temperature.faiman
+ * (pvlib-python, a general-purpose PV modelling library); user-settable.
+ */
 export const FAIMAN_DEFAULT: FaimanCoefficients = { u0: 25, u1: 6.84 };
 
 /**
