@@ -244,9 +244,9 @@ export class StepObjective implements GapObjective {
   /**
    * Efficiency [-] of two-cell stacks over two axes of gaps [eV], x the upper
    * cell and y the lower, written to out[iy·nx + ix] wherever y[iy] < x[ix]
-   * (other entries are left alone): the arithmetic of powerFromTables for each
-   * pixel and spectrum, in one loop with the per-axis tables read in place (a
-   * map's only work, mostly run before the optimising compiler has seen it).
+   * (other entries are left alone): powerFromTables for each pixel and
+   * spectrum, its cells filled straight from the per-axis tables (a map's only
+   * work, mostly run before the optimising compiler has seen it).
    * Returns the pixels written and the index of the best (the first on ties).
    */
   mapTwoCells(x: Float64Array, y: Float64Array, topA: number, out: Float64Array): { points: number; best: number } {
@@ -261,8 +261,6 @@ export class StepObjective implements GapObjective {
     const ere0 = this.ere[0];
     const ere1 = this.ere[1];
     const weights = this.weights;
-    const vts = this.vt;
-    const series = this.series;
     const pin = this.pinTotal;
     let points = 0;
     let best = -1;
@@ -278,14 +276,7 @@ export class StepObjective implements GapObjective {
           jph[1] = onY[k].qnAm2[iy] - qx;
           j0[0] = onX[k].j0RadAm2[ix] / ere0;
           j0[1] = onY[k].j0RadAm2[iy] / ere1;
-          if (topA !== 1) {
-            const band = jph[0];
-            jph[0] = topA * band;
-            jph[1] += (1 - topA) * band;
-            j0[0] *= topA;
-          }
-          const vt = vts[k];
-          p += weights[k] * (series ? seriesPowerWm2(jph, j0, 2, vt) : singlePowerWm2(jph[0], j0[0], vt) + singlePowerWm2(jph[1], j0[1], vt));
+          p += weights[k] * this.powerOfCells(k, topA);
         }
         const v = p / pin;
         const at = iy * nx + ix;
