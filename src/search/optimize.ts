@@ -294,11 +294,9 @@ function searchOneGap(obj: GapObjective, p: SearchProblem, prep: PreparedSearch)
   for (const r of refined) if (basins.every((b) => Math.abs(b.gapsEv[cell] - r.gapsEv[cell]) > 0.003)) basins.push(r);
   const best = basins[0];
   p.progress?.(0.9);
-  const tolerance = p.optimumOnly ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
   return {
     best,
-    basins: p.optimumOnly ? [] : basins.slice(1, 8),
-    tolerance,
+    ...regionAndRunnersUp(p, value, best, basins, bounds),
     bounds,
     stats: { stepEv: step, axisPoints: axis.length, edgePoints: prep.edgeCount, leaves: vs.reduce((c, v) => (Number.isNaN(v) ? c : c + 1), 0), pruned: 0, seeds: seeds.length, evaluations, seconds: (performance.now() - t0) / 1000 },
   };
@@ -397,11 +395,9 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
   const basins: Basin[] = [];
   for (const r of refined) if (basins.every((b) => b.gapsEv.some((g, i) => Math.abs(g - r.gapsEv[i]) > 0.003))) basins.push(r);
   const best = basins[0];
-  const tolerance = p.optimumOnly ? noTolerance(best, p.loss) : toleranceIntervals(value, best, bounds, p.loss);
   return {
     best,
-    basins: basins.slice(1, 8),
-    tolerance,
+    ...regionAndRunnersUp(p, value, best, basins, bounds),
     bounds,
     stats: {
       stepEv: step,
@@ -416,9 +412,14 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
   };
 }
 
-/** The tolerance region of a question that did not ask for it: its threshold, no intervals. */
-function noTolerance(best: Basin, loss: number): ToleranceRegion {
-  return { loss, threshold: best.value * (1 - loss), intervals: [] };
+/**
+ * The tolerance region and the runner-up basins (up to seven, best first) of a
+ * search. An optimum-only question gets neither: the region keeps its
+ * threshold with no intervals, and no basins.
+ */
+function regionAndRunnersUp(p: SearchProblem, value: (g: number[]) => number, best: Basin, basins: Basin[], bounds: [number, number][]): { tolerance: ToleranceRegion; basins: Basin[] } {
+  if (p.optimumOnly) return { tolerance: { loss: p.loss, threshold: best.value * (1 - p.loss), intervals: [] }, basins: [] };
+  return { tolerance: toleranceIntervals(value, best, bounds, p.loss), basins: basins.slice(1, 8) };
 }
 
 /** Slice intervals of the tolerance region: each free gap moved alone, others at the optimum. */

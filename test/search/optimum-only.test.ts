@@ -49,4 +49,18 @@ describe('optimum-only one-gap search', () => {
       }
     }
   }, 120_000);
+
+  test('a search over two free gaps asked for the optimum only: the same optimum, no tolerance intervals and no runner-up basins', () => {
+    const light = one(am15g());
+    const obj = () => new StepObjective({ cells: 3, wiring: 'series', ere: [1, 1, 1], topAbsorptance: 1, spectra: light });
+    const edges = weightedBandEdgeEnergiesEv(light, 0.5, 2.6);
+    const problem = { cells: 3, spanEv: [0.5, 2.6] as [number, number], ranges: [], fixed: [undefined, undefined, 0.95], loss: 0.01 };
+    const full = searchGaps(obj(), problem, edges);
+    const quick = searchGaps(obj(), { ...problem, optimumOnly: true }, edges);
+    expect(quick.best).toEqual(full.best);
+    expect(full.tolerance.intervals.length).toBeGreaterThan(0);
+    expect(quick.tolerance.intervals).toEqual([]);
+    expect(quick.tolerance.threshold).toBe(full.tolerance.threshold);
+    expect(quick.basins).toEqual([]);
+  });
 });
