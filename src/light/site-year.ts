@@ -339,7 +339,6 @@ export function siteYearFromWeather(w: WeatherFile, o: SiteLightOptions): SiteYe
   return { ensemble, site: w.site, format: w.format, hours, totals, monthly, skipped: [...skipped.values()], defaultsUsed, assumptions };
 }
 
-/** Day of year 1–366 of a local-time instant [ms]. */
 /** Whether two arrays hold the same values. */
 function sameValues(a: Float64Array, b: Float64Array): boolean {
   if (a === b) return true;
@@ -348,6 +347,7 @@ function sameValues(a: Float64Array, b: Float64Array): boolean {
   return true;
 }
 
+/** Day of year 1–366 of a local-time instant [ms]. */
 function dayOfYear(localMs: number): number {
   const d = new Date(localMs);
   return Math.floor((localMs - Date.UTC(d.getUTCFullYear(), 0, 1)) / 86_400_000) + 1;

@@ -86,8 +86,6 @@ export interface Row {
   cells: string[];
 }
 
-/** csv-parse loads on first use: the built-in spectrum never needs it. */
-const csvParse = csvParseSync;
 
 /**
  * Rows of a table without quoting, split directly (fast path: large ensembles
@@ -112,7 +110,7 @@ function splitPlainRows(text: string): Row[] | null {
 export function splitTableRows(file: string, text: string): Row[] {
   const plain = splitPlainRows(text);
   if (plain) return plain;
-  const parse = csvParse();
+  const parse = csvParseSync();
   const lines = text.split(/\r?\n/);
   const firstData = lines.find((l) => l.trim() !== '' && !l.trim().startsWith('#')) ?? '';
   const delimiter = firstData.includes(',') ? ',' : firstData.includes(';') ? ';' : '\t';

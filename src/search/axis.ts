@@ -22,9 +22,6 @@ export function bandEdgeEnergiesEv(s: Pick<Spectrum, 'wavelengthNm' | 'irradianc
     const f = flux(i);
     if (f > fmax) fmax = f;
   }
-  // Only grid points whose energy lies in [lo, hi]: λ from hc/hi to hc/lo.
-  const lambdaLo = HC_EV_NM / hiEv;
-  const lambdaHi = HC_EV_NM / loEv;
   const lambdas: number[] = [];
   const scores: number[] = [];
   let fPrev = w.length > 0 ? flux(0) : 0;
@@ -32,16 +29,12 @@ export function bandEdgeEnergiesEv(s: Pick<Spectrum, 'wavelengthNm' | 'irradianc
   for (let i = 1; i + 1 < w.length; i++) {
     const fNext = flux(i + 1);
     const x = w[i];
-    if (x >= lambdaLo * (1 - 1e-12) && x <= lambdaHi * (1 + 1e-12)) {
-      const en = HC_EV_NM / x;
-      if (en >= loEv && en <= hiEv) {
-        const drop = (fHere - fNext) / fmax;
-        // A local maximum of flux followed by a drop marks the band's blue edge.
-        if (drop > 0.01 && fHere >= fPrev) {
-          lambdas.push(x);
-          scores.push(drop);
-        }
-      }
+    const en = HC_EV_NM / x;
+    const drop = (fHere - fNext) / fmax;
+    // A local maximum of flux followed by a drop marks the band's blue edge.
+    if (en >= loEv && en <= hiEv && drop > 0.01 && fHere >= fPrev) {
+      lambdas.push(x);
+      scores.push(drop);
     }
     fPrev = fHere;
     fHere = fNext;
