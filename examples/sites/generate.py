@@ -15,7 +15,7 @@ writes byte-identical files.
 
     python3 examples/sites/generate.py [OUT_DIR]   # default: this script's folder
 
-Models (all simple, all standard textbook forms):
+Models (all simple published forms, each cited below):
 * sun position: Spencer (1971) Fourier series for declination and equation of
   time (from memory); hour angle at mid-interval of each hour-ending row.
 * clear sky: direct normal 1361 W/m² x E0 x 0.7^(AM^0.678) (Meinel & Meinel

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { BOLTZMANN_J_K, ELEMENTARY_CHARGE_C } from '../../src/physics/constants.js';
 import { seriesPowerWm2 } from '../../src/stack/step-objective.js';
 
 /**
@@ -22,7 +23,7 @@ function bisectedPower(jph: number[], j0: number[], vt: number): number {
   return j * vt * jph.reduce((s, p, i) => s + Math.log1p((p - j) / j0[i]), 0);
 }
 
-const VT_300K = 0.025852; // kT/q at 300 K [V], rounded
+const VT_300K = (BOLTZMANN_J_K * 300) / ELEMENTARY_CHARGE_C; // kT/q at 300 K [V], from the 2019 SI exact k_B and e
 
 describe('series string solver', () => {
   it('agrees with a bisection for two, four and six cells, mismatched and matched', () => {
