@@ -1,12 +1,14 @@
 #!/usr/bin/env node
 /**
  * Build step: bundle the command line (dist/cli/main.js, compiled by tsc)
- * into dist/bundle/, which bin/gapstack.js loads. Node 20's ES-module loader
+ * and the library entry (dist/index.js) into dist/bundle/, which
+ * bin/gapstack.js and the package's exports load. Node 20's ES-module loader
  * pays for every file it resolves and links (yargs alone is about 40 files and
  * 90 ms); one bundle with a chunk per lazily loaded command cuts that to a
  * few files. yargs, yaml (design files and manifests; about 60 CommonJS
- * files, 40 ms to load from node_modules) and d3-node (with its DOM library)
- * are bundled; other packages stay outside (loaded from node_modules only by
+ * files, 40 ms to load from node_modules) and d3-node are bundled, d3-node
+ * with the report's DOM (linkedom and d3's selection and axes, by the
+ * redirects of scripts/report-dom.mjs, which the tests use too); other packages stay outside (loaded from node_modules only by
  * the commands that use them), and every lazily loaded command is its own
  * chunk, so heavy ones (report, figures, maps) cost nothing on the engine
  * commands' path.
@@ -25,10 +27,11 @@ import { readFileSync, rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { fileURLToPath } from 'node:url';
 import * as esbuild from 'esbuild';
+import { reportDomEsbuild } from './report-dom.mjs';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const pkg = JSON.parse(readFileSync(`${root}package.json`, 'utf8'));
-const bundled = new Set(['yargs', 'd3-node', 'yaml']);
+const bundled = new Set(['yargs', 'd3-node', 'linkedom', 'd3-selection', 'd3-axis', 'yaml']);
 const external = [...Object.keys(pkg.dependencies ?? {}), ...Object.keys(pkg.devDependencies ?? {}), 'canvas'].filter((d) => !bundled.has(d));
 
 /** string-width, loaded on the first string that is not printable ASCII. */
@@ -56,29 +59,10 @@ const deferStringWidth = (name = 'string-width') => ({
   },
 });
 
-/**
- * jsdom (under d3-node) resolves its synchronous-XHR worker file next to its own
- * module when loaded; from the bundle that path is wrong, so it is resolved from
- * the installed package instead (null, as jsdom allows, where it cannot be: the
- * report never makes a request).
- */
-const jsdomXhrWorker = {
-  name: 'jsdom-xhr-worker',
-  setup(build) {
-    build.onLoad({ filter: /jsdom[\\/]lib[\\/]jsdom[\\/]living[\\/]xhr[\\/]XMLHttpRequest-impl\.js$/ }, (args) => {
-      const text = readFileSync(args.path, 'utf8');
-      const from = 'require.resolve ? require.resolve("./xhr-sync-worker.js") : null';
-      if (!text.includes(from)) throw new Error(`${args.path}: the worker look-up this build rewrites has changed; update scripts/bundle-cli.mjs`);
-      const to = '(() => { try { return require.resolve("jsdom/lib/jsdom/living/xhr/xhr-sync-worker.js"); } catch { return null; } })()';
-      return { contents: text.replace(from, to), loader: 'js' };
-    });
-  },
-};
-
 const outdir = `${root}dist/bundle`;
 rmSync(outdir, { recursive: true, force: true });
 await esbuild.build({
-  entryPoints: { main: `${root}dist/cli/main.js` },
+  entryPoints: { main: `${root}dist/cli/main.js`, index: `${root}dist/index.js` },
   bundle: true,
   splitting: true,
   format: 'esm',
@@ -86,9 +70,9 @@ await esbuild.build({
   target: 'node20',
   outdir,
   external,
-  plugins: [deferStringWidth(), jsdomXhrWorker],
+  plugins: [deferStringWidth(), reportDomEsbuild],
   logLevel: 'warning',
-  // Bundled CommonJS code (jsdom under d3-node) calls require() for Node's own modules.
+  // Bundled CommonJS code calls require() for Node's own modules.
   // Made on first use: createRequire costs milliseconds, and most chunks never call it.
   banner: {
     js: [

@@ -1,9 +1,10 @@
 /**
- * SVG as text, built from data with d3 on a server-side DOM (d3-node). One
- * DOM serves every chart of a report: each chart appends its <svg>, is
- * serialised and removed. Text goes in through text nodes only, so the
- * serialiser escapes whatever a user wrote; user text never goes into
- * attributes.
+ * SVG as text, built from data with d3 on a server-side DOM (d3-node, on the
+ * linkedom window every build gives it: src/report/dom/). One DOM serves
+ * every chart of a report: each chart appends its <svg>, is serialised and
+ * removed. Text goes in through text nodes only, so the serialiser escapes
+ * whatever a user wrote; user text never goes into attributes, and the
+ * serialiser escapes attributes too.
  */
 import { D3Node } from 'd3-node';
 
@@ -55,10 +56,58 @@ export function buildSvg(width: number, height: number, attrs: Record<string, st
   const svg = n.createSVG(width, height, { viewBox: `0 0 ${width} ${height}`, 'font-family': FONT_FAMILY, 'font-size': 12, ...attrs }) as Sel;
   try {
     draw(svg);
-    return n.svgString();
+    const root = svg.node();
+    if (!root) throw new Error('buildSvg: the chart has no <svg> element');
+    return svgMarkup(root);
   } finally {
     svg.remove();
   }
+}
+
+const TEXT_ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\u00A0': '&#160;' };
+const escapeText = (s: string): string => s.replace(/[&<>\u00A0]/g, (c) => TEXT_ESCAPES[c]);
+const escapeAttribute = (s: string): string => s.replace(/[&<"\u00A0]/g, (c) => TEXT_ESCAPES[c]);
+
+/**
+ * An element and its subtree as XML, which an HTML page also reads as inline
+ * SVG: names as created (clipPath keeps its capital), every element closed
+ * with an end tag, text escaped (& < >) and attribute values escaped (& < ").
+ * Attributes come in the order the chart set them, whichever order the DOM
+ * lists them in (linkedom lists them newest first, by design).
+ */
+export function svgMarkup(el: Element): string {
+  return markup(el, el.ownerDocument ? listsNewestFirst(el.ownerDocument) : false);
+}
+
+function markup(el: Element, newestFirst: boolean): string {
+  let out = `<${el.localName}`;
+  const attrs = el.attributes;
+  const n = attrs.length;
+  for (let k = 0; k < n; k++) {
+    const a = attrs[newestFirst ? n - 1 - k : k];
+    out += ` ${a.name}="${escapeAttribute(a.value)}"`;
+  }
+  out += '>';
+  for (const child of el.childNodes) {
+    if (child.nodeType === 1) out += markup(child as Element, newestFirst);
+    else if (child.nodeType === 3) out += escapeText((child as Text).data);
+  }
+  return `${out}</${el.localName}>`;
+}
+
+const newestFirstByDocument = new WeakMap<Document, boolean>();
+
+/** Whether a document's DOM lists an element's attributes newest first: asked once, of a probe element. */
+function listsNewestFirst(doc: Document): boolean {
+  let answer = newestFirstByDocument.get(doc);
+  if (answer === undefined) {
+    const probe = doc.createElementNS('http://www.w3.org/2000/svg', 'g');
+    probe.setAttribute('a', '');
+    probe.setAttribute('b', '');
+    answer = probe.attributes[0].name === 'b';
+    newestFirstByDocument.set(doc, answer);
+  }
+  return answer;
 }
 
 /** Text safe for SVG/XML text nodes: no control characters, no no-break spaces (the HTML serialiser writes &nbsp;). */

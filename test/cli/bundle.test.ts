@@ -46,3 +46,24 @@ describe('the command-line bundle', () => {
     expect(JSON.parse(bundled.stdout)).toEqual(JSON.parse(plain.stdout));
   }, 30_000);
 });
+
+describe('the report DOM in the bundles (scripts/report-dom.mjs)', () => {
+  const text = files.map((f) => readFileSync(join(bundleDir, f), 'utf8')).join('\n');
+
+  test('the library entry is bundled beside the command line, and the package exports it', () => {
+    expect(files).toContain('index.js');
+    const pkg = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8'));
+    expect(pkg.exports['.'].import).toBe('./dist/bundle/index.js');
+  });
+
+  test("d3-node's document is linkedom's, its d3 only selection and axes, and linkedom has no CSS parser", () => {
+    // Markers of what the redirects leave out (each present in a bundle built without them):
+    // jsdom's CommonJS module paths, d3's force layout, cssomnom's rule classes.
+    expect(text).not.toMatch(/node_modules\/jsdom\//);
+    expect(text).not.toMatch(/forceSimulation/);
+    expect(text).not.toMatch(/CSSKeyframesRule/);
+    // And what they bring in.
+    expect(text).toMatch(/node_modules\/linkedom\//);
+    expect(text).toMatch(/gapstack builds without a CSS parser/);
+  });
+});

@@ -60,7 +60,7 @@ describe('the packed package', () => {
 
   it('declares an ESM entry with types, and keeps the command line at bin', () => {
     const pkg = JSON.parse(readFileSync(join(dir, 'node_modules', 'gapstack', 'package.json'), 'utf8'));
-    expect(pkg.exports['.']).toEqual({ types: './dist/index.d.ts', import: './dist/index.js', default: './dist/index.js' });
+    expect(pkg.exports['.']).toEqual({ types: './dist/index.d.ts', import: './dist/bundle/index.js', default: './dist/bundle/index.js' });
     expect(pkg.types).toBe('./dist/index.d.ts');
     expect(pkg.bin).toEqual({ gapstack: 'bin/gapstack.js' });
     expect(existsSync(join(dir, 'node_modules', 'gapstack', 'dist', 'index.d.ts'))).toBe(true);
