@@ -7,16 +7,14 @@ import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { Resvg, type ResvgRenderOptions } from '@resvg/resvg-js';
+import { chartFontFiles } from './chart-fonts.js';
 import type { Chart, FigureMeta } from './figure-data.js';
 
 /** PNG pixels per SVG user unit. */
 export const PNG_SCALE = 2;
 
-/** DejaVu Sans where Debian installs it (fonts-dejavu-core); otherwise every system font. */
-const DEJAVU = ['/usr/share/fonts/truetype/dejavu/DejaVuSans.ttf', '/usr/share/fonts/truetype/dejavu/DejaVuSans-Bold.ttf'];
-
 function fontOptions(): ResvgRenderOptions['font'] {
-  const files = DEJAVU.filter((f) => existsSync(f));
+  const files = chartFontFiles();
   if (files.length > 0) return { loadSystemFonts: false, fontFiles: files, defaultFontFamily: 'DejaVu Sans', sansSerifFamily: 'DejaVu Sans' };
   return { loadSystemFonts: true };
 }
