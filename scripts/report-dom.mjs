@@ -7,6 +7,7 @@
  * element's sheet, is replaced by one that throws. Only imports made from
  * inside those two packages are redirected.
  */
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -27,7 +28,7 @@ export function reportDomFile(specifier, importer, from) {
   const at = importer.replace(/\\/g, '/');
   for (const [pkg, spec, file] of REDIRECTS) {
     if (specifier === spec && at.includes(`/node_modules/${pkg}/`)) {
-      return `${root}${from}/report/dom/${file}.${from === 'src' ? 'ts' : 'js'}`;
+      return join(root, from, 'report', 'dom', `${file}.${from === 'src' ? 'ts' : 'js'}`);
     }
   }
   return undefined;

@@ -12,9 +12,13 @@
  * resvg picks it for regular text; a character outside it falls back to the
  * full regular face listed next, and the PNGs come out the same bytes
  * (test/report/chart-fonts.test.ts). Bold (one label per map) keeps the full
- * face: resvg's fallback from a bold subset picked the regular face.
+ * face: resvg's fallback from a bold subset picked the regular face. The
+ * subset is used only with the face it was made from (size and SHA-256 in
+ * the note beside it), so a different DejaVu installed later is never mixed
+ * with it.
  */
-import { existsSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
 import { basename } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -47,9 +51,30 @@ export function subsetFileOf(face: string): string {
   return `${SUBSET_DIR}${basename(face, '.ttf')}-subset.ttf`;
 }
 
-/** Font files for resvg, the subset (when built) first; with `subset` false, the full faces only. Empty when DejaVu is not installed. */
+/** The note the build writes beside a subset: the face it came from, its size and SHA-256. */
+export function subsetNoteOf(face: string): string {
+  return `${SUBSET_DIR}${basename(face, '.ttf')}-subset.json`;
+}
+
+/** Whether a subset's note (the JSON the build writes) names this face: same size and SHA-256. */
+export function subsetMadeFrom(noteText: string, face: Uint8Array): boolean {
+  const made = JSON.parse(noteText) as { bytes?: unknown; sha256?: unknown };
+  return face.length === made.bytes && createHash('sha256').update(face).digest('hex') === made.sha256;
+}
+
+let subsetMatches: boolean | undefined;
+
+/** Whether the built subset exists and was made from the face installed now (checked once per process). */
+function subsetUsable(): boolean {
+  if (subsetMatches === undefined) {
+    const note = subsetNoteOf(SUBSET_FACE);
+    subsetMatches = existsSync(subsetFileOf(SUBSET_FACE)) && existsSync(note) && existsSync(SUBSET_FACE) && subsetMadeFrom(readFileSync(note, 'utf8'), readFileSync(SUBSET_FACE));
+  }
+  return subsetMatches;
+}
+
+/** Font files for resvg, the subset (when built from the installed face) first; with `subset` false, the full faces only. Empty when DejaVu is not installed. */
 export function chartFontFiles(subset = true): string[] {
   const full = DEJAVU_FACES.filter((f) => existsSync(f));
-  const sub = subsetFileOf(SUBSET_FACE);
-  return subset && full.includes(SUBSET_FACE) && existsSync(sub) ? [sub, ...full] : full;
+  return subset && subsetUsable() ? [subsetFileOf(SUBSET_FACE), ...full] : full;
 }

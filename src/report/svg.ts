@@ -64,16 +64,20 @@ export function buildSvg(width: number, height: number, attrs: Record<string, st
   }
 }
 
-const TEXT_ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\u00A0': '&#160;' };
-const escapeText = (s: string): string => s.replace(/[&<>\u00A0]/g, (c) => TEXT_ESCAPES[c]);
-const escapeAttribute = (s: string): string => s.replace(/[&<"\u00A0]/g, (c) => TEXT_ESCAPES[c]);
+const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\u00A0': '&#160;', '\t': '&#9;', '\n': '&#10;', '\r': '&#13;' };
+const escapeText = (s: string): string => s.replace(/[&<>\u00A0]/g, (c) => ESCAPES[c]);
+// Tabs and line breaks as references too: an XML reader turns them into spaces in attribute values.
+const escapeAttribute = (s: string): string => s.replace(/[&<"\u00A0\t\n\r]/g, (c) => ESCAPES[c]);
 
 /**
  * An element and its subtree as XML, which an HTML page also reads as inline
  * SVG: names as created (clipPath keeps its capital), every element closed
- * with an end tag, text escaped (& < >) and attribute values escaped (& < ").
- * Attributes come in the order the chart set them, whichever order the DOM
- * lists them in (linkedom lists them newest first, by design).
+ * with an end tag, text escaped (& < >) and attribute values escaped (& < "
+ * and tab, line feed, carriage return). Attributes come in the order the
+ * chart set them, whichever order the DOM lists them in (linkedom lists them
+ * newest first, by design). Only elements and text are written: charts hold
+ * no comments or CDATA. (linkedom also tidies a class list as it is set:
+ * repeated names and extra spaces go; charts set tidy ones.)
  */
 export function svgMarkup(el: Element): string {
   return markup(el, el.ownerDocument ? listsNewestFirst(el.ownerDocument) : false);
@@ -110,7 +114,7 @@ function listsNewestFirst(doc: Document): boolean {
   return answer;
 }
 
-/** Text safe for SVG/XML text nodes: no control characters, no no-break spaces (the HTML serialiser writes &nbsp;). */
+/** Text safe for SVG/XML text nodes: no control characters, no no-break spaces (a chart's text is plain spaces and printable characters). */
 export function svgText(s: string): string {
   // eslint-disable-next-line no-control-regex
   return s.replace(/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/g, '').replace(/\u00A0/g, ' ');

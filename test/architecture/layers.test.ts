@@ -21,7 +21,7 @@ describe('the layer rule of src/', () => {
 
   it('loads no heavy package when the library or the command line is imported (they load where used)', () => {
     // DEVELOPERS.md conventions: templating, charts, matrices and browsers load dynamically.
-    const heavy = /^(d3-node|linkedom|mathjs|ml-matrix|playwright|playwright-core|jsdom|@resvg\/resvg-js|handlebars)(\/.*)?$/;
+    const heavy = /^(d3-node|mathjs|ml-matrix|playwright|playwright-core|jsdom|@resvg\/resvg-js|handlebars)(\/.*)?$/;
     for (const entry of ['index.ts', 'cli/main.ts']) {
       const loaded = [...packagesLoadedBy(files, entry)];
       expect(loaded.length, entry).toBeGreaterThan(0);

@@ -66,4 +66,27 @@ describe('the report DOM in the bundles (scripts/report-dom.mjs)', () => {
     expect(text).toMatch(/node_modules\/linkedom\//);
     expect(text).toMatch(/gapstack builds without a CSS parser/);
   });
+
+  test('neither entry loads the DOM when it is imported: the report chunks come in only with a report', () => {
+    // The files each entry imports statically, followed through the chunks.
+    const closure = (entry: string): string[] => {
+      const seen = new Set<string>();
+      const visit = (f: string) => {
+        if (seen.has(f)) return;
+        seen.add(f);
+        const src = readFileSync(join(bundleDir, f), 'utf8');
+        for (const m of src.matchAll(/(?:^|[;}\s])import(?:[^"'();]*?from)?\s*["']\.\/([^"']+)["']/g)) visit(m[1]);
+      };
+      visit(entry);
+      return [...seen];
+    };
+    const domMarker = /node_modules\/linkedom\/|function D3Node\b/;
+    // The markers are in the bundle, in some chunk a report loads.
+    expect(files.some((f) => domMarker.test(readFileSync(join(bundleDir, f), 'utf8')))).toBe(true);
+    for (const entry of ['main.js', 'index.js']) {
+      const loaded = closure(entry);
+      expect(loaded.length, entry).toBeGreaterThan(1);
+      expect(loaded.filter((f) => domMarker.test(readFileSync(join(bundleDir, f), 'utf8'))), entry).toEqual([]);
+    }
+  });
 });

@@ -4,7 +4,7 @@
  * shipped declarations, and check one number against the specification.
  * Needs dist/ built (npm test's pretest does it) and a warm npm cache (npm ci).
  */
-import { execFileSync } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -37,6 +37,21 @@ const result = evaluateStack(idealStack([1.729, 1.12], seriesWiring(2)), am15g()
 console.log(JSON.stringify({ efficiency: result.efficiency }));
 `;
 
+/** A report through the installed library, with the example the package ships. */
+const REPORT_JS = `import { buildReportFromFile } from 'gapstack';
+const r = await buildReportFromFile('node_modules/gapstack/examples/perovskite-silicon.yaml', { date: new Date(0) });
+console.log(JSON.stringify({ charts: (r.html.match(/<svg[ >]/g) ?? []).length, caution: r.html.includes('no substitute for certified measurement') }));
+`;
+
+/** Preloaded with --require: names every jsdom module Node's CommonJS loader is asked for (jsdom is CommonJS). */
+const JSDOM_WATCH_CJS = `const Module = require('node:module');
+const load = Module._load;
+Module._load = function (request, ...rest) {
+  if (/(^|[\\/])jsdom([\\/]|$)/.test(request)) process.stderr.write('jsdom loaded: ' + request + '\\n');
+  return load.call(this, request, ...rest);
+};
+`;
+
 describe('the packed package', () => {
   let dir = '';
 
@@ -49,6 +64,8 @@ describe('the packed package', () => {
     writeFileSync(join(dir, 'use.ts'), SCRIPT_TS);
     writeFileSync(join(dir, 'use.mjs'), SCRIPT_JS);
     writeFileSync(join(dir, 'readme.ts'), readmeExample().script);
+    writeFileSync(join(dir, 'report.mjs'), REPORT_JS);
+    writeFileSync(join(dir, 'jsdom-watch.cjs'), JSDOM_WATCH_CJS);
     const compilerOptions = { target: 'ES2022', module: 'NodeNext', moduleResolution: 'NodeNext', strict: true, types: [] };
     writeFileSync(join(dir, 'tsconfig.json'), JSON.stringify({ compilerOptions: { ...compilerOptions, noEmit: true }, files: ['use.ts', 'readme.ts'] }));
     writeFileSync(join(dir, 'tsconfig.readme.json'), JSON.stringify({ compilerOptions: { ...compilerOptions, outDir: 'out' }, files: ['readme.ts'] }));
@@ -76,6 +93,19 @@ describe('the packed package', () => {
     const out = JSON.parse(execFileSync(process.execPath, ['use.mjs'], { cwd: dir, encoding: 'utf8' })) as { efficiency: number };
     // docs/PHYSICS.md §5 check table: 2T with a 1.12 eV bottom, top 1.729 eV: 45.04 %.
     expect(out.efficiency * 100).toBeCloseTo(45.04, 2);
+  }, 2 * MINUTES);
+
+  it('builds a report through the installed library bundle, its charts drawn without jsdom', () => {
+    const run = spawnSync(process.execPath, ['--require', './jsdom-watch.cjs', 'report.mjs'], { cwd: dir, encoding: 'utf8' });
+    expect(run.status, run.stderr).toBe(0);
+    const out = JSON.parse(run.stdout) as { charts: number; caution: boolean };
+    expect(out.charts).toBeGreaterThan(4);
+    expect(out.caution).toBe(true);
+    expect(run.stderr).not.toMatch(/jsdom loaded/);
+    // The watch does see jsdom when it loads: d3-node imported as installed, outside the bundle, brings it in.
+    const control = spawnSync(process.execPath, ['--require', './jsdom-watch.cjs', '--input-type=module', '-e', "await import('d3-node');"], { cwd: dir, encoding: 'utf8' });
+    expect(control.status, control.stderr).toBe(0);
+    expect(control.stderr).toMatch(/jsdom loaded/);
   }, 2 * MINUTES);
 
   it('runs the README example and prints what the README shows', () => {

@@ -11,14 +11,16 @@ import { Resvg } from '@resvg/resvg-js';
 import { describe, expect, it } from 'vitest';
 import { loadDesign } from '../../src/design/index.js';
 import { buildReport } from '../../src/report/build.js';
-import { chartFontFiles, DEJAVU_FACES, SUBSET_FACE, subsetFileOf } from '../../src/report/chart-fonts.js';
-import { PNG_SCALE, standaloneSvg } from '../../src/report/figures.js';
+import { chartFontFiles, DEJAVU_FACES, SUBSET_FACE, subsetFileOf, subsetMadeFrom, subsetNoteOf } from '../../src/report/chart-fonts.js';
+import { pngRenderOptions, standaloneSvg } from '../../src/report/figures.js';
 
 const installed = DEJAVU_FACES.every((f) => existsSync(f));
 
+/** A PNG as the figures folder renders it, with the given font files. */
 function png(svg: string, fontFiles: string[]): Buffer {
-  const font = { loadSystemFonts: false, fontFiles, defaultFontFamily: 'DejaVu Sans', sansSerifFamily: 'DejaVu Sans' };
-  return new Resvg(svg, { fitTo: { mode: 'zoom', value: PNG_SCALE }, background: '#ffffff', font, logLevel: 'off' }).render().asPng();
+  const options = pngRenderOptions();
+  expect(options.font?.fontFiles).toEqual(chartFontFiles());
+  return new Resvg(svg, { ...options, font: { ...options.font, fontFiles } }).render().asPng();
 }
 
 describe.skipIf(!installed)('the chart font subset', () => {
@@ -49,12 +51,29 @@ describe.skipIf(!installed)('the chart font subset', () => {
   }, 120_000);
 
   it('falls back to the full faces, with the same bytes, for characters it leaves out, in every weight and style', () => {
-    // Characters no DejaVu face has (CJK, say) are drawn as missing-glyph boxes either way, not compared.
     for (const weight of ['normal', 'bold', '300']) {
       for (const style of ['normal', 'italic']) {
         const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="260" height="40"><text x="5" y="25" font-family="DejaVu Sans, Liberation Sans, Arial, Helvetica, sans-serif" font-weight="${weight}" font-style="${style}" font-size="14">Жизнь ∮ ℏ Ա ✓ Ω ≥ η λ µ ° × −</text></svg>`;
         expect(png(svg, chartFontFiles()).equals(png(svg, chartFontFiles(false))), `${weight} ${style}`).toBe(true);
       }
     }
+  });
+
+  it('draws the missing-glyph box, as the full face does, for characters no DejaVu face has', () => {
+    const svg = '<svg xmlns="http://www.w3.org/2000/svg" width="200" height="40"><text x="5" y="25" font-size="14">a漢 가 ア ก</text></svg>';
+    const withSubset = png(svg, chartFontFiles());
+    expect(withSubset.equals(png(svg, chartFontFiles(false)))).toBe(true);
+    // And the box is drawn: the same text without those characters gives other bytes.
+    expect(withSubset.equals(png(svg.replace('a漢 가 ア ก', 'a'), chartFontFiles()))).toBe(false);
+  });
+
+  it('is used only with the face it was made from (size and SHA-256 in its note)', () => {
+    const note = readFileSync(subsetNoteOf(SUBSET_FACE), 'utf8');
+    const face = readFileSync(SUBSET_FACE);
+    expect(subsetMadeFrom(note, face)).toBe(true);
+    const other = Buffer.from(face);
+    other[other.length - 1] ^= 1;
+    expect(subsetMadeFrom(note, other)).toBe(false);
+    expect(subsetMadeFrom(note, face.subarray(1))).toBe(false);
   });
 });

@@ -29,21 +29,24 @@ describe('svgMarkup', () => {
     expect(svgMarkup(svg)).toBe(`<svg xmlns="${SVG_NS}" width="12" height="20"><clipPath id="c"><rect></rect></clipPath></svg>`);
   });
 
-  it('escapes text (& < >) and attribute values (& < ") so the markup is well-formed XML, and writes no-break spaces as a character reference', () => {
+  it('escapes text (& < >) and attribute values (& < " tab, line feed, carriage return) so the markup is well-formed XML that keeps its values, and writes no-break spaces as a character reference', () => {
     const t = doc.createElementNS(SVG_NS, 'text');
-    t.setAttribute('data-note', 'a<b & "c"');
+    t.setAttribute('data-note', 'a<b & "c"\t1\n2\r');
     t.textContent = 'x < y & z > w "q" \u00A0';
-    expect(svgMarkup(t)).toBe('<text data-note="a&lt;b &amp; &quot;c&quot;">x &lt; y &amp; z &gt; w "q" &#160;</text>');
+    expect(svgMarkup(t)).toBe('<text data-note="a&lt;b &amp; &quot;c&quot;&#9;1&#10;2&#13;">x &lt; y &amp; z &gt; w "q" &#160;</text>');
   });
 
   it('is what buildSvg returns, and the chart is removed from the shared document afterwards', () => {
+    let root: Element | null = null;
     const out = buildSvg(40, 30, { id: 'probe' }, (s) => {
+      root = s.node();
+      expect(root?.isConnected).toBe(true);
       s.append('g').attr('class', 'a').append('text').attr('x', 1).text('A & B');
     });
     expect(out).toBe(
       `<svg xmlns="${SVG_NS}" width="40" height="30" viewBox="0 0 40 30" font-family="DejaVu Sans, Liberation Sans, Arial, Helvetica, sans-serif" font-size="12" id="probe"><g class="a"><text x="1">A &amp; B</text></g></svg>`,
     );
-    expect(buildSvg(1, 1, {}, () => undefined)).not.toContain('probe');
+    expect((root as Element | null)?.isConnected).toBe(false);
   });
 });
 
@@ -61,15 +64,33 @@ describe('the report DOM', () => {
 });
 
 describe('the same markup from another DOM', () => {
-  it('jsdom (what d3-node loads when nothing redirects it: the compiled, unbundled modules) gives the same bytes for a chart with an axis and text', () => {
-    const draw = `(s) => { s.append('g').attr('class', 'gs-axis').attr('transform', 'translate(10,50)').call(d3().axisBottom(scaleLinear().domain([0.5, 2.5]).range([0, 200])).ticks(5)); s.append('text').attr('x', 4).attr('y', 12).text('η [%] < 50 & "gaps"'); }`;
+  it("jsdom and full d3 (what d3-node loads when nothing redirects it) give the same bytes, through svgMarkup and through d3-node's own serialiser, for a chart with axes, a clip path and text", () => {
+    const draw = `(s) => { s.append('defs').append('clipPath').attr('id', 'x-clip').append('rect').attr('width', 200).attr('height', 60); s.append('g').attr('class', 'gs-axis').attr('transform', 'translate(10,50)').call(d3().axisBottom(scaleLinear().domain([0.5, 2.5]).range([0, 200])).ticks(5)); s.append('g').attr('transform', 'translate(10,0)').call(d3().axisLeft(scaleLinear().domain([0, 50]).range([50, 0])).ticks(3)); s.append('text').attr('x', 4).attr('y', 12).attr('clip-path', 'url(#x-clip)').text('η [%] < 50 & "gaps"'); }`;
+    // The compiled, unbundled module: d3-node there imports the real jsdom and all of d3 (nothing redirects Node's own resolver).
     const compiled = pathToFileURL(resolve(import.meta.dirname, '../../dist/report/svg.js')).href;
-    const script = `import { buildSvg, d3 } from ${JSON.stringify(compiled)}; import { scaleLinear } from 'd3-scale'; process.stdout.write(buildSvg(240, 80, { id: 'x' }, ${draw}));`;
+    const script = [
+      `import { buildSvg, d3, FONT_FAMILY } from ${JSON.stringify(compiled)};`,
+      "import { D3Node } from 'd3-node';",
+      "import { scaleLinear } from 'd3-scale';",
+      `const draw = ${draw};`,
+      "const viaMarkup = buildSvg(240, 80, { id: 'x' }, draw);",
+      // The serialiser the report used before svgMarkup: d3-node's svgString on jsdom.
+      "const n = new D3Node();",
+      "const svg = n.createSVG(240, 80, { viewBox: '0 0 240 80', 'font-family': FONT_FAMILY, 'font-size': 12, id: 'x' });",
+      'draw(svg);',
+      "process.stdout.write(JSON.stringify({ document: n.document.constructor.name, d3Exports: Object.keys(n.d3).length, viaMarkup, viaD3Node: n.svgString() }));",
+    ].join('\n');
     const other = spawnSync(process.execPath, ['--input-type=module', '-e', script], { encoding: 'utf8', cwd: resolve(import.meta.dirname, '../..') });
     expect(other.status, other.stderr).toBe(0);
+    const jsdom = JSON.parse(other.stdout) as { document: string; d3Exports: number; viaMarkup: string; viaD3Node: string };
+    // It really was the other DOM: jsdom's Document (linkedom's is HTMLDocument) and the whole of d3.
+    expect(jsdom.document).toBe('Document');
+    expect(jsdom.d3Exports).toBeGreaterThan(100);
     // eslint-disable-next-line no-new-func -- the same drawing, run here on linkedom
     const here = buildSvg(240, 80, { id: 'x' }, new Function('d3', 'scaleLinear', `return ${draw}`)(d3, scaleLinear) as (s: Sel) => void);
     expect(here).toContain('class="tick"');
-    expect(other.stdout).toBe(here);
+    expect(here).toContain('<clipPath id="x-clip">');
+    expect(jsdom.viaMarkup).toBe(here);
+    expect(jsdom.viaD3Node).toBe(here);
   }, 30_000);
 });
