@@ -150,6 +150,47 @@ export function stepOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
 /** Energy step of the bin path [eV]. */
 export const BIN_STEP_EV = 0.002;
 
+/** The uniform part of a bin grid under one spectrum and temperature, with N(E) and the Bose–Einstein tail at each edge. */
+interface UniformGrid {
+  spectrum: Spectrum;
+  tempK: number;
+  lo: number;
+  hi: number;
+  /** lo, lo + step, … below hi, then hi [eV]. */
+  edges: number[];
+  /** photonsAboveEv at each edge [m⁻² s⁻¹]. */
+  photonsAbove: Float64Array;
+  /** boseEinsteinTailEv3 at each edge [eV³]. */
+  kernelTail: Float64Array;
+}
+
+/** How many uniform grids are kept: a search or a map row moves one gap and keeps the grid; an ensemble brings a new spectrum each time. */
+const KEPT_GRIDS = 4;
+const recentGrids: UniformGrid[] = [];
+
+/**
+ * The uniform edges from lo to hi with their N(E) and tail values, computed
+ * once and kept for the next evaluations under the same spectrum,
+ * temperature and ends (the edges follow from lo and hi alone), so the values
+ * are the ones the functions give, bit for bit.
+ */
+function uniformGrid(spectrum: Spectrum, tempK: number, lo: number, hi: number): UniformGrid {
+  for (const g of recentGrids) if (g.spectrum === spectrum && g.tempK === tempK && g.lo === lo && g.hi === hi) return g;
+  const edges: number[] = [];
+  for (let e = lo; e < hi; e += BIN_STEP_EV) edges.push(e);
+  edges.push(hi);
+  const photonsAbove = new Float64Array(edges.length);
+  const kernelTail = new Float64Array(edges.length);
+  for (let k = 0; k < edges.length; k++) {
+    photonsAbove[k] = photonsAboveEv(spectrum, edges[k]);
+    kernelTail[k] = boseEinsteinTailEv3(edges[k], tempK);
+  }
+  const grid: UniformGrid = { spectrum, tempK, lo, hi, edges, photonsAbove, kernelTail };
+  recentGrids.unshift(grid);
+  if (recentGrids.length > KEPT_GRIDS) recentGrids.pop();
+  return grid;
+}
+
 /**
  * General optics on energy bins. Bin edges are a uniform grid plus every
  * subcell gap, so step edges are exact; each bin's photons are a difference
@@ -162,14 +203,11 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
   const minOnset = Math.min(...cells.map((c) => Math.min(c.gapEv - URBACH_TAIL_DEPTH_EV, absorptionOnsetEv(c.absorptance, c.gapEv))));
   const lo = Math.max(0.05, minOnset - 0.1);
   const hi = Math.max(4.6, Math.max(...cells.map((c) => c.gapEv)) + 0.5);
-  const edges: number[] = [];
-  for (let e = lo; e < hi; e += BIN_STEP_EV) edges.push(e);
-  edges.push(hi);
-  for (const c of cells) if (c.gapEv > lo && c.gapEv < hi) edges.push(c.gapEv);
-  edges.sort((a, b) => a - b);
+  const grid = uniformGrid(spectrum, spec.tempK, lo, hi);
+  // Gap edges inside the grid, ascending; each comes after the uniform edges not above it.
+  const gaps = cells.map((c) => c.gapEv).filter((g) => g > lo && g < hi).sort((a, b) => a - b);
   const jgen = new Float64Array(n);
   const j0 = new Float64Array(n);
-  const t = spec.tempK;
   const addBin = (eMid: number, photons: number, kernel: number) => {
     const front = 1 - spectralValueAt(spec.frontReflectance, eMid);
     // Share of the incident photons of this bin that reach the current cell [-].
@@ -192,15 +230,34 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
       if (i < n - 1) reach *= spectralValueAt(spec.interlayerTransmittance[i], eMid);
     }
   };
-  let nPrev = photonsAboveEv(spectrum, edges[0]);
-  let bPrev = boseEinsteinTailEv3(edges[0], t);
-  for (let k = 1; k < edges.length; k++) {
-    if (edges[k] - edges[k - 1] < 1e-12) continue;
-    const nk = photonsAboveEv(spectrum, edges[k]);
-    const bk = boseEinsteinTailEv3(edges[k], t);
-    addBin(0.5 * (edges[k] + edges[k - 1]), nPrev - nk, bPrev - bk);
-    nPrev = nk;
-    bPrev = bk;
+  // Walk the uniform edges and the gaps in order, one bin between each edge and the one before
+  // (a bin narrower than 1e-12 eV is skipped); a gap comes after the uniform edges not above it.
+  const { edges, photonsAbove, kernelTail } = grid;
+  const m = edges.length;
+  let ePrev = edges[0];
+  let nPrev = photonsAbove[0];
+  let bPrev = kernelTail[0];
+  let k = 1;
+  let gi = 0;
+  while (k < m || gi < gaps.length) {
+    let e: number;
+    let nk: number;
+    let bk: number;
+    if (gi < gaps.length && gaps[gi] < edges[k]) {
+      e = gaps[gi++];
+      nk = photonsAboveEv(spectrum, e);
+      bk = boseEinsteinTailEv3(e, spec.tempK);
+    } else {
+      e = edges[k];
+      nk = photonsAbove[k];
+      bk = kernelTail[k++];
+    }
+    if (e - ePrev >= 1e-12) {
+      addBin(0.5 * (e + ePrev), nPrev - nk, bPrev - bk);
+      nPrev = nk;
+      bPrev = bk;
+    }
+    ePrev = e;
   }
   // Everything above the last edge, at the last absorptance.
   addBin(hi, nPrev, bPrev);
