@@ -7,7 +7,10 @@
  * it) a few seconds per site keep the batches at 4 and 16 sites; the batch
  * machinery alone (the demo ensemble at every site) is measured at 10 and 200.
  * Each batch runs in its own process on one core (the design search of one site
- * is single-threaded).
+ * is single-threaded), three times: one process's peak moves by a fifth from
+ * run to run with the collector's timing (156–195 MiB measured for the same
+ * 4-site batch), so each size's time and peak are medians, printed with their
+ * range.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, mkdirSync } from 'node:fs';
@@ -40,10 +43,22 @@ interface Measured {
   max_rss_mib: number;
 }
 
-function measure(design: string, sitesDir: string, out: string, light: 'weather' | 'demo'): Measured {
+/** Runs of each batch size. */
+const RUNS = 3;
+
+const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+
+function measureOnce(design: string, sitesDir: string, out: string, light: 'weather' | 'demo'): Measured {
   const r = spawnSync(process.execPath, [CHILD, design, sitesDir, out, light], { encoding: 'utf8', env: { ...process.env, UV_THREADPOOL_SIZE: '1' } });
   if (r.status !== 0) throw new Error(`sites benchmark batch failed: ${r.stderr}`);
   return JSON.parse(r.stdout.trim().split('\n').pop()!) as Measured;
+}
+
+/** RUNS batches of one size: median time and peak, and the peaks' range [MiB]. */
+function measure(design: string, sitesDir: string, out: string, light: 'weather' | 'demo'): Measured & { rss_range_mib: [number, number] } {
+  const runs = Array.from({ length: RUNS }, (_, k) => measureOnce(design, sitesDir, `${out}-${k}`, light));
+  const peaks = runs.map((r) => r.max_rss_mib);
+  return { sites: runs[0]!.sites, seconds: median(runs.map((r) => r.seconds)), max_rss_mib: median(peaks), rss_range_mib: [Math.min(...peaks), Math.max(...peaks)] };
 }
 
 /** Run the sites benchmark; returns rows for the bench's table/JSON and logs a line per result. */
@@ -60,7 +75,10 @@ export function benchSites(log: (line: string) => void): Record<string, unknown>
       const large = measure(design, join(dir, `${light}-s${many}`), join(dir, `${light}-o${many}`), light);
       const perSite = (large.seconds - small.seconds) / (large.sites - small.sites);
       const growth = large.max_rss_mib / small.max_rss_mib;
-      log(`sites, 2T fixed bottom (each site's light: ${words}): ${perSite.toFixed(3)} s per site (target ≤ ${SITE_SECONDS_TARGET} s); peak memory ${small.max_rss_mib.toFixed(0)} MiB at ${small.sites} sites, ${large.max_rss_mib.toFixed(0)} MiB at ${large.sites} (×${growth.toFixed(2)}, flat if ≤ ×${MEMORY_GROWTH_LIMIT})`);
+      const range = (m: { rss_range_mib: [number, number] }) => `[${m.rss_range_mib[0].toFixed(0)}–${m.rss_range_mib[1].toFixed(0)}]`;
+      log(
+        `sites, 2T fixed bottom (each site's light: ${words}): ${perSite.toFixed(3)} s per site (target ≤ ${SITE_SECONDS_TARGET} s); peak memory, median of ${RUNS} runs, ${small.max_rss_mib.toFixed(0)} ${range(small)} MiB at ${small.sites} sites, ${large.max_rss_mib.toFixed(0)} ${range(large)} MiB at ${large.sites} (×${growth.toFixed(2)}, flat if ≤ ×${MEMORY_GROWTH_LIMIT})`,
+      );
       rows.push(
         { item: `sites-2T-fixed-bottom-per-site-${light}`, seconds: perSite, target: `≤ ${SITE_SECONDS_TARGET} s`, met: perSite <= SITE_SECONDS_TARGET, light: words },
         { item: `sites-peak-memory-${light}`, sites: [small.sites, large.sites], mib_few: small.max_rss_mib, mib_many: large.max_rss_mib, growth, target: `≤ ×${MEMORY_GROWTH_LIMIT}`, met: growth <= MEMORY_GROWTH_LIMIT },
