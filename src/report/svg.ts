@@ -92,7 +92,8 @@ function markup(el: Element, newestFirst: boolean): string {
     out += ` ${a.name}="${escapeAttribute(a.value)}"`;
   }
   out += '>';
-  for (const child of el.childNodes) {
+  // Sibling links, not childNodes: linkedom builds a fresh list for each childNodes read.
+  for (let child = el.firstChild; child; child = child.nextSibling) {
     if (child.nodeType === 1) out += markup(child as Element, newestFirst);
     else if (child.nodeType === 3) out += escapeText((child as Text).data);
   }
