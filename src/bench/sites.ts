@@ -17,6 +17,7 @@ import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, mkdirSyn
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { stats } from './whole-command.js';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const CHILD = fileURLToPath(new URL('./sites-child.js', import.meta.url));
@@ -46,8 +47,6 @@ interface Measured {
 /** Runs of each batch size. */
 const RUNS = 3;
 
-const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
-
 function measureOnce(design: string, sitesDir: string, out: string, light: 'weather' | 'demo'): Measured {
   const r = spawnSync(process.execPath, [CHILD, design, sitesDir, out, light], { encoding: 'utf8', env: { ...process.env, UV_THREADPOOL_SIZE: '1' } });
   if (r.status !== 0) throw new Error(`sites benchmark batch failed: ${r.stderr}`);
@@ -57,8 +56,8 @@ function measureOnce(design: string, sitesDir: string, out: string, light: 'weat
 /** RUNS batches of one size: median time and peak, and the peaks' range [MiB]. */
 function measure(design: string, sitesDir: string, out: string, light: 'weather' | 'demo'): Measured & { rss_range_mib: [number, number] } {
   const runs = Array.from({ length: RUNS }, (_, k) => measureOnce(design, sitesDir, `${out}-${k}`, light));
-  const peaks = runs.map((r) => r.max_rss_mib);
-  return { sites: runs[0]!.sites, seconds: median(runs.map((r) => r.seconds)), max_rss_mib: median(peaks), rss_range_mib: [Math.min(...peaks), Math.max(...peaks)] };
+  const peaks = stats(runs.map((r) => r.max_rss_mib));
+  return { sites: runs[0]!.sites, seconds: stats(runs.map((r) => r.seconds)).median, max_rss_mib: peaks.median, rss_range_mib: [peaks.min, peaks.max] };
 }
 
 /** Run the sites benchmark; returns rows for the bench's table/JSON and logs a line per result. */

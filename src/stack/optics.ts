@@ -191,24 +191,24 @@ function uniformGrid(spectrum: Spectrum, tempK: number, lo: number, hi: number):
   return grid;
 }
 
+/** The bin grid's ends [eV] for a stack: 0.1 eV below its lowest onset (not under 0.05 eV), and at least 0.5 eV above its highest gap (not under 4.6 eV). */
+export function binGridEnds(spec: StackSpec): { lo: number; hi: number } {
+  const cells = spec.subcells;
+  const minOnset = Math.min(...cells.map((c) => Math.min(c.gapEv - URBACH_TAIL_DEPTH_EV, absorptionOnsetEv(c.absorptance, c.gapEv))));
+  return { lo: Math.max(0.05, minOnset - 0.1), hi: Math.max(4.6, Math.max(...cells.map((c) => c.gapEv)) + 0.5) };
+}
+
 /**
- * General optics on energy bins. Bin edges are a uniform grid plus every
- * subcell gap, so step edges are exact; each bin's photons are a difference
- * of the cumulative table and each bin's emission kernel a difference of the
- * Bose–Einstein series. Absorptance is taken at bin centres.
+ * The bin path's sums for a stack: `add` takes one bin (its centre [eV], its
+ * incident photons [m⁻² s⁻¹] and its Bose–Einstein kernel [eV³]) down the
+ * stack; `result` gives J_gen and J0_rad [A/m²].
  */
-export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
+export function binSums(spec: StackSpec): { add: (eMid: number, photons: number, kernel: number) => void; result: () => StackOptics } {
   const cells = spec.subcells;
   const n = cells.length;
-  const minOnset = Math.min(...cells.map((c) => Math.min(c.gapEv - URBACH_TAIL_DEPTH_EV, absorptionOnsetEv(c.absorptance, c.gapEv))));
-  const lo = Math.max(0.05, minOnset - 0.1);
-  const hi = Math.max(4.6, Math.max(...cells.map((c) => c.gapEv)) + 0.5);
-  const grid = uniformGrid(spectrum, spec.tempK, lo, hi);
-  // Gap edges inside the grid, ascending; each comes after the uniform edges not above it.
-  const gaps = cells.map((c) => c.gapEv).filter((g) => g > lo && g < hi).sort((a, b) => a - b);
   const jgen = new Float64Array(n);
   const j0 = new Float64Array(n);
-  const addBin = (eMid: number, photons: number, kernel: number) => {
+  const add = (eMid: number, photons: number, kernel: number) => {
     const front = 1 - spectralValueAt(spec.frontReflectance, eMid);
     // Share of the incident photons of this bin that reach the current cell [-].
     let reach = front;
@@ -230,9 +230,30 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
       if (i < n - 1) reach *= spectralValueAt(spec.interlayerTransmittance[i], eMid);
     }
   };
+  const result = (): StackOptics => {
+    for (let i = 0; i < n; i++) {
+      jgen[i] *= ELEMENTARY_CHARGE_C;
+      j0[i] *= ELEMENTARY_CHARGE_C * BLACKBODY_PREFACTOR_EV;
+    }
+    return { jgenAm2: jgen, j0RadAm2: j0 };
+  };
+  return { add, result };
+}
+
+/**
+ * General optics on energy bins. Bin edges are a uniform grid plus every
+ * subcell gap, so step edges are exact; each bin's photons are a difference
+ * of the cumulative table and each bin's emission kernel a difference of the
+ * Bose–Einstein series. Absorptance is taken at bin centres.
+ */
+export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
+  const { lo, hi } = binGridEnds(spec);
+  const { edges, photonsAbove, kernelTail } = uniformGrid(spectrum, spec.tempK, lo, hi);
+  // Gap edges inside the grid, ascending; each comes after the uniform edges not above it.
+  const gaps = spec.subcells.map((c) => c.gapEv).filter((g) => g > lo && g < hi).sort((a, b) => a - b);
+  const sums = binSums(spec);
   // Walk the uniform edges and the gaps in order, one bin between each edge and the one before
-  // (a bin narrower than 1e-12 eV is skipped); a gap comes after the uniform edges not above it.
-  const { edges, photonsAbove, kernelTail } = grid;
+  // (a bin narrower than 1e-12 eV is skipped).
   const m = edges.length;
   let ePrev = edges[0];
   let nPrev = photonsAbove[0];
@@ -253,19 +274,15 @@ export function binnedOptics(spec: StackSpec, spectrum: Spectrum): StackOptics {
       bk = kernelTail[k++];
     }
     if (e - ePrev >= 1e-12) {
-      addBin(0.5 * (e + ePrev), nPrev - nk, bPrev - bk);
+      sums.add(0.5 * (e + ePrev), nPrev - nk, bPrev - bk);
       nPrev = nk;
       bPrev = bk;
     }
     ePrev = e;
   }
   // Everything above the last edge, at the last absorptance.
-  addBin(hi, nPrev, bPrev);
-  for (let i = 0; i < n; i++) {
-    jgen[i] *= ELEMENTARY_CHARGE_C;
-    j0[i] *= ELEMENTARY_CHARGE_C * BLACKBODY_PREFACTOR_EV;
-  }
-  return { jgenAm2: jgen, j0RadAm2: j0 };
+  sums.add(hi, nPrev, bPrev);
+  return sums.result();
 }
 
 /** Optics of a stack under a spectrum, by the fastest exact path that applies. */

@@ -12,59 +12,36 @@ import { describe, expect, test } from 'vitest';
 import { blackbodySpectrum } from '../../src/light/blackbody.js';
 import { am15g } from '../../src/light/sources.js';
 import { photonsAboveEv, type Spectrum } from '../../src/light/spectrum.js';
-import { BLACKBODY_PREFACTOR_EV, ELEMENTARY_CHARGE_C } from '../../src/physics/constants.js';
 import { boseEinsteinTailEv3 } from '../../src/junction/radiative.js';
-import { absorptanceAt, absorptionOnsetEv, BIN_STEP_EV, binnedOptics, spectralValueAt, URBACH_TAIL_DEPTH_EV, type StackOptics } from '../../src/stack/optics.js';
+import { BIN_STEP_EV, binGridEnds, binnedOptics, binSums, URBACH_TAIL_DEPTH_EV, type StackOptics } from '../../src/stack/optics.js';
 import { idealStack, seriesWiring, type AbsorptanceModel, type StackSpec } from '../../src/stack/model.js';
 
-/** The bin path computed straight through: every edge's N(E) and tail afresh, the gaps sorted in. */
+/**
+ * The bin path computed straight through: every edge's N(E) and tail afresh,
+ * the gaps sorted into the edges. It shares the grid's ends and the sums down
+ * the stack (binGridEnds, binSums) with binnedOptics; what it writes out is
+ * the part binnedOptics does differently, the edges and their values.
+ */
 function reference(spec: StackSpec, spectrum: Spectrum): StackOptics {
-  const cells = spec.subcells;
-  const n = cells.length;
-  const minOnset = Math.min(...cells.map((c) => Math.min(c.gapEv - URBACH_TAIL_DEPTH_EV, absorptionOnsetEv(c.absorptance, c.gapEv))));
-  const lo = Math.max(0.05, minOnset - 0.1);
-  const hi = Math.max(4.6, Math.max(...cells.map((c) => c.gapEv)) + 0.5);
+  const { lo, hi } = binGridEnds(spec);
   const edges: number[] = [];
   for (let e = lo; e < hi; e += BIN_STEP_EV) edges.push(e);
   edges.push(hi);
-  for (const c of cells) if (c.gapEv > lo && c.gapEv < hi) edges.push(c.gapEv);
+  for (const c of spec.subcells) if (c.gapEv > lo && c.gapEv < hi) edges.push(c.gapEv);
   edges.sort((a, b) => a - b);
-  const jgen = new Float64Array(n);
-  const j0 = new Float64Array(n);
-  const addBin = (eMid: number, photons: number, kernel: number) => {
-    const front = 1 - spectralValueAt(spec.frontReflectance, eMid);
-    let reach = front;
-    for (let i = 0; i < n; i++) {
-      const model = cells[i].absorptance;
-      let a = absorptanceAt(model, cells[i].gapEv, eMid);
-      if (model.kind === 'eqe-table') {
-        jgen[i] += photons * a;
-        j0[i] += kernel * a;
-        a = reach > 0 ? Math.min(1, a / reach) : 1;
-      } else {
-        jgen[i] += photons * reach * a;
-        j0[i] += kernel * a * front;
-      }
-      reach *= 1 - a;
-      if (i < n - 1) reach *= spectralValueAt(spec.interlayerTransmittance[i], eMid);
-    }
-  };
+  const sums = binSums(spec);
   let nPrev = photonsAboveEv(spectrum, edges[0]);
   let bPrev = boseEinsteinTailEv3(edges[0], spec.tempK);
   for (let k = 1; k < edges.length; k++) {
     if (edges[k] - edges[k - 1] < 1e-12) continue;
     const nk = photonsAboveEv(spectrum, edges[k]);
     const bk = boseEinsteinTailEv3(edges[k], spec.tempK);
-    addBin(0.5 * (edges[k] + edges[k - 1]), nPrev - nk, bPrev - bk);
+    sums.add(0.5 * (edges[k] + edges[k - 1]), nPrev - nk, bPrev - bk);
     nPrev = nk;
     bPrev = bk;
   }
-  addBin(hi, nPrev, bPrev);
-  for (let i = 0; i < n; i++) {
-    jgen[i] *= ELEMENTARY_CHARGE_C;
-    j0[i] *= ELEMENTARY_CHARGE_C * BLACKBODY_PREFACTOR_EV;
-  }
-  return { jgenAm2: jgen, j0RadAm2: j0 };
+  sums.add(hi, nPrev, bPrev);
+  return sums.result();
 }
 
 const urbachFilm = (thicknessNm: number): AbsorptanceModel => ({ kind: 'beer-lambert', passes: 1, thicknessNm, alpha: { kind: 'direct', alpha0PerCm: 1e5, urbachEv: 0.016 } });
