@@ -8,10 +8,10 @@
  * few files. yargs, yaml (design files and manifests; about 60 CommonJS
  * files, 40 ms to load from node_modules) and d3-node are bundled, d3-node
  * with the report's DOM (linkedom and d3's selection and axes, by the
- * redirects of scripts/report-dom.mjs, which the tests use too); other packages stay outside (loaded from node_modules only by
- * the commands that use them), and every lazily loaded command is its own
- * chunk, so heavy ones (report, figures, maps) cost nothing on the engine
- * commands' path.
+ * redirects of scripts/report-dom.mjs, which the tests use too). Other
+ * packages stay outside, loaded from node_modules only by the commands that
+ * use them, and every lazily loaded command is its own chunk, so heavy ones
+ * (report, figures, maps) cost nothing on the engine commands' path.
  *
  * The bundle sits one folder below dist/, like every compiled module, so the
  * paths the modules build from import.meta.url ('../../spectra/…') resolve
