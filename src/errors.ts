@@ -1,9 +1,20 @@
 /**
+ * The command line's front and each command are separate bundles, each with
+ * its own copy of this module, so the front cannot tell a command's errors by
+ * `instanceof`: these marks, shared through the global symbol registry, can.
+ */
+const USER_ERROR = Symbol.for('gapstack.UserError');
+const PARAMETER_ERROR = Symbol.for('gapstack.ParameterError');
+
+/**
  * Errors that a user can fix (bad option, bad file, impossible constraint).
  * The command line prints `message` alone and exits with code 2; anything else
  * is an internal fault (exit 1, hint to rerun with --debug).
  */
 export class UserError extends Error {
+  /** Marks a UserError from any copy of this module (isUserError). */
+  readonly [USER_ERROR] = true;
+
   constructor(message: string) {
     super(message);
     this.name = 'UserError';
@@ -51,6 +62,8 @@ export function says(strings: TemplateStringsArray, ...values: unknown[]): Messa
  * still exits with code 2.
  */
 export class ParameterError extends UserError {
+  /** Marks a ParameterError from any copy of this module (isParameterError). */
+  readonly [PARAMETER_ERROR] = true;
   /** The parameter at fault, as the library names it (e.g. `stepEv`, `fixedEv[1]`). */
   readonly parameter: string;
   /** What the parameter accepts, in words. */
@@ -82,6 +95,14 @@ export class ParameterError extends UserError {
     return render(parts, (p) => rename(p) ?? p);
   }
 }
+
+const marked = (err: unknown, mark: symbol): boolean => typeof err === 'object' && err !== null && (err as Record<symbol, unknown>)[mark] === true;
+
+/** A UserError, from this copy of the module or another. */
+export const isUserError = (err: unknown): err is UserError => err instanceof UserError || marked(err, USER_ERROR);
+
+/** A ParameterError, from this copy of the module or another. */
+export const isParameterError = (err: unknown): err is ParameterError => err instanceof ParameterError || marked(err, PARAMETER_ERROR);
 
 function render(parts: MessageParts, name: (parameter: string) => string): string {
   return parts.map((p) => (typeof p === 'string' ? p : name(p.parameter))).join('');

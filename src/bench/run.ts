@@ -27,7 +27,7 @@ const log = (line = '') => {
 };
 
 const root = fileURLToPath(new URL('../../', import.meta.url));
-const bin = join(root, 'bin', 'gapstack.js');
+const bin = join(root, 'bin', 'gapstack.cjs');
 const work = mkdtempSync(join(tmpdir(), 'gapstack-bench-'));
 const gapstack = (...args: string[]): [string, string[]] => [process.execPath, [bin, ...args]];
 

@@ -26,7 +26,7 @@ function runChild(bin: string, args: string[]): { seconds: number; peakMiB: numb
 
 export function benchSiteLight(log: (line: string) => void): Record<string, unknown>[] {
   const weather = fileURLToPath(new URL('../../examples/sites/cinder-reach.epw', import.meta.url));
-  const bin = fileURLToPath(new URL('../../bin/gapstack.js', import.meta.url));
+  const bin = fileURLToPath(new URL('../../bin/gapstack.cjs', import.meta.url));
   const plane = ['--weather', weather, '--tilt', '30', '--azimuth', '180'];
 
   const builds = [0, 1, 2].map(() => {

@@ -4,9 +4,10 @@
  */
 import yargs, { type Argv } from 'yargs';
 import { hideBin } from 'yargs/helpers';
-import { UserError } from '../errors.js';
+import { isUserError, UserError } from '../errors.js';
 import { assertFiniteText, checkRepeatedOptions, EXIT_INTERNAL, EXIT_USER, guardStandardStreams, joinNegativeValues, sanitiseForTerminal } from './guards.js';
 import { commandLineMessage } from './parameter-flags.js';
+import { commandModules } from './commands.js';
 
 function lightOptions<T>(y: Argv<T>) {
   return y
@@ -102,7 +103,7 @@ export async function run(rawArgv: string[]): Promise<void> {
       'evaluate',
       'efficiency of one stack: Jsc, Voc, FF, operating point of every subcell',
       (y) => stackOptions(lightOptions(y)).option('gaps', { type: 'string', describe: 'band gaps [eV], top first, e.g. 1.72,1.12', demandOption: true }).option('json', { type: 'boolean', default: false }),
-      async (a) => print((await import('./evaluate-command.js')).evaluateCommand(a as never)),
+      async (a) => print((await commandModules.evaluate()).evaluateCommand(a as never)),
     );
   cli = command(
       cli,
@@ -116,7 +117,7 @@ export async function run(rawArgv: string[]): Promise<void> {
           .option('json', { type: 'boolean', default: false }),
       async (args) => {
         if (args.source !== undefined) args.spectrum = args.source;
-        print((await import('./spectrum-command.js')).spectrumCommand(args as never));
+        print((await commandModules.spectrum()).spectrumCommand(args as never));
       },
     );
   const searchOptions = (y: Argv) =>
@@ -141,7 +142,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('free-top-absorptance', { type: 'boolean', default: false, describe: '2T: let the search thin the top cell (constant absorptance above its gap)' })
         .option('threads', { type: 'string', describe: 'most worker threads for large searches (default: the number of cores; the size of the work decides)' })
         .option('json', { type: 'boolean', default: false }),
-    async (a) => print(await (await import('./optimize-command.js')).optimizeCommand(a as never)),
+    async (a) => print(await (await commandModules.optimize()).optimizeCommand(a as never)),
   );
   cli = command(
     cli,
@@ -155,7 +156,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('step', { type: 'string', describe: 'map resolution [eV]', demandOption: true })
         .option('out', { type: 'string', describe: 'write the map to a .csv or .json file (atomically)' })
         .option('json', { type: 'boolean', default: false }),
-    async (a) => print(await (await import('./map-command.js')).mapCommand(a as never)),
+    async (a) => print(await (await commandModules.map()).mapCommand(a as never)),
   );
   cli = command(
     cli,
@@ -168,7 +169,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('units', { type: 'string', describe: 'units of headerless member files' })
         .option('ape-window', { type: 'string', describe: 'window for the average photon energy [nm], low:high (default 350:1050)' })
         .option('json', { type: 'boolean', default: false }),
-    async (a) => print((await import('./yield-command.js')).yieldCommand(a as never)),
+    async (a) => print((await commandModules.yield()).yieldCommand(a as never)),
   );
   cli = command(
     cli,
@@ -182,7 +183,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('sites-rows', { type: 'string', describe: 'a design with sites: take the Sites rows from this batch already run (gapstack sites, merged; .csv or .jsonl) instead of running it again' })
         .option('accept-large', { type: 'boolean', default: false, describe: 'a design with sites: run its batch even when the size check (stacks × hours of a year) estimates hours of work per site' })
         .option('json', { type: 'boolean', default: false, describe: 'print a JSON summary of the answer' }),
-    async (a) => print(await (await import('./report-command.js')).reportCommand(a as never)),
+    async (a) => print(await (await commandModules.report()).reportCommand(a as never)),
   );
   cli = command(
     cli,
@@ -216,7 +217,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('faiman', { type: 'string', describe: 'with --weather: Faiman coefficients "U0,U1" (default 25,6.84)' })
         .option('out', { type: 'string', describe: 'with --weather: folder to write the hourly spectra and manifest (an ensemble)' })
         .option('json', { type: 'boolean', default: false }),
-    async (a) => print(await (await import('./sky-command.js')).skyCommand(a as never)),
+    async (a) => print(await (await commandModules.sky()).skyCommand(a as never)),
   );
   cli = command(
     cli,
@@ -237,7 +238,7 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('colour-range', { type: 'string', describe: "fixed colour scale low:high [%] (default: the report's scale for the pair, shared by every wiring)" })
         .option('scenario', { type: 'string', describe: 'in a file with scenarios: which one (name or number)' })
         .option('json', { type: 'boolean', default: false }),
-    async (a) => print(await (await import('./figure-command.js')).figureCommand(a as never)),
+    async (a) => print(await (await commandModules.figure()).figureCommand(a as never)),
   );
   cli = command(
     cli,
@@ -259,20 +260,11 @@ export async function run(rawArgv: string[]): Promise<void> {
         .option('json', { type: 'boolean', default: false }),
     async (a) => {
       if (a.id === 'fit') {
-        const { materialsFitCommand } = await import('./materials-fit-command.js');
+        const { materialsFitCommand } = await commandModules['materials-fit']();
         print(await materialsFitCommand(a as never));
         return;
       }
-      const { parseNumber } = await import('./options.js');
-      const { materialsCommand } = await import('./materials-command.js');
-      print(
-        materialsCommand({
-          id: a.id as string | undefined,
-          gap: a.gap === undefined ? undefined : parseNumber('gap', a.gap),
-          composition: a.composition === undefined ? undefined : parseNumber('composition', a.composition),
-          json: Boolean(a.json),
-        }),
-      );
+      print((await commandModules.materials()).materialsCommandFromArgs(a));
     },
   );
   cli = command(
@@ -289,7 +281,7 @@ export async function run(rawArgv: string[]): Promise<void> {
             .positional('parts', { type: 'string', array: true, describe: 'part files of all shards (all .csv or all .jsonl)' })
             .option('out', { alias: 'o', type: 'string', describe: 'merged file to write (atomically)', demandOption: true })
             .option('json', { type: 'boolean', default: false }),
-        async (a) => print((await import('./sites-command.js')).sitesMergeCommand(a as never)),
+        async (a) => print((await commandModules.sites()).sitesMergeCommand(a as never)),
       )
         .command(
           'map <rows>',
@@ -301,7 +293,7 @@ export async function run(rawArgv: string[]): Promise<void> {
               .option('wiring', { type: 'string', describe: 'wiring column prefix for top-gap (default: the first, e.g. 2t)' })
               .option('world', { type: 'boolean', default: false, describe: 'show the whole world even when the sites fit in a region' })
               .option('out', { alias: 'o', type: 'string', describe: 'file name for <out>.svg and <out>.png', demandOption: true }),
-          (async (a: Record<string, unknown>) => print(await (await import('./sites-command.js')).sitesMapCommand(a as never))) as never,
+          (async (a: Record<string, unknown>) => print(await (await commandModules.sites()).sitesMapCommand(a as never))) as never,
         )
         .command(
           '$0 <design> [weather..]',
@@ -324,7 +316,7 @@ export async function run(rawArgv: string[]): Promise<void> {
               .option('faiman', { type: 'string', describe: 'Faiman cell-temperature coefficients "U0,U1"' })
               .option('accept-large', { type: 'boolean', default: false, describe: 'run even when the size check (stacks × hours of a year) estimates hours of work per site' })
               .option('json', { type: 'boolean', default: false }),
-          (async (a: Record<string, unknown>) => print(await (await import('./sites-command.js')).sitesWeatherCommand(a as never))) as never,
+          (async (a: Record<string, unknown>) => print(await (await commandModules.sites()).sitesWeatherCommand(a as never))) as never,
         ),
     async () => {},
   );
@@ -352,11 +344,11 @@ export async function run(rawArgv: string[]): Promise<void> {
     checkRepeatedOptions(argv);
     await cli.parseAsync();
   } catch (err) {
-    if (err instanceof UserError || (err as Error)?.name === 'YError') {
+    if (isUserError(err) || (err as Error)?.name === 'YError') {
       // One line; a design with several problems lists the others below it (its first line says so).
       const [, ...more] = (err as Error).message.split('\n');
       const first = commandLineMessage(err as Error);
-      const listed = err instanceof UserError && /listed below\)$/.test(first) ? more : [];
+      const listed = isUserError(err) && /listed below\)$/.test(first) ? more : [];
       process.stderr.write(`${sanitiseForTerminal([`gapstack: ${first}`, ...listed.map((d) => `  ${d}`)].join('\n'))}\n`);
       process.exitCode = EXIT_USER;
       return;
@@ -367,7 +359,7 @@ export async function run(rawArgv: string[]): Promise<void> {
   }
 }
 
-/** The command line of this process (bin/gapstack.js calls it). */
+/** The command line of this process (bin/gapstack.cjs calls it). */
 export async function main(): Promise<void> {
   // A closed pipe or a full disk on this process's own output: see guardStandardStreams.
   guardStandardStreams();

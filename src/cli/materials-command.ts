@@ -4,6 +4,7 @@
  * argument parsing lives with the command-line entry point.
  */
 import { UserError } from '../errors.js';
+import { parseNumber } from './options.js';
 import {
   type AbsorberFamily,
   type GapModel,
@@ -112,6 +113,16 @@ function detailText(f: AbsorberFamily): string {
     CAUTION,
   ];
   return `${lines.join('\n')}\n`;
+}
+
+/** `gapstack materials [id]` from the parsed command line: --gap and --composition read as numbers. */
+export function materialsCommandFromArgs(a: { id?: unknown; gap?: unknown; composition?: unknown; json?: unknown }): string {
+  return materialsCommand({
+    id: a.id as string | undefined,
+    gap: a.gap === undefined ? undefined : parseNumber('gap', a.gap),
+    composition: a.composition === undefined ? undefined : parseNumber('composition', a.composition),
+    json: Boolean(a.json),
+  });
 }
 
 /**

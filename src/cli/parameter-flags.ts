@@ -3,7 +3,7 @@
  * parameters as the library does (`stepEv`, `fixedEv[1]`); people at the
  * command line read them as the flags they typed (`--step`, `--fix 2`).
  */
-import { ParameterError } from '../errors.js';
+import { isParameterError } from '../errors.js';
 
 const FLAGS: Record<string, string> = {
   cells: '--cells',
@@ -37,7 +37,7 @@ export function flagForParameter(parameter: string): string | undefined {
 
 /** The one-line message a user sees for a user error, with engine parameters as flags. */
 export function commandLineMessage(err: Error): string {
-  const text = err instanceof ParameterError ? err.messageWith(flagForParameter) : err.message;
+  const text = isParameterError(err) ? err.messageWith(flagForParameter) : err.message;
   return text.split('\n')[0];
 }
 

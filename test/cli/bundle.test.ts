@@ -1,26 +1,43 @@
-import { readFileSync, readdirSync, existsSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, utimesSync, writeFileSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
+import { isBuiltin } from 'node:module';
+import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { describe, expect, test } from 'vitest';
 
-// The command line runs from the esbuild bundle in dist/bundle (scripts/bundle-cli.mjs, built by
-// `npm run build`, which the test script runs first).
+// The command line runs from the CommonJS bundles in dist/bundle (scripts/bundle-cli.mjs) with
+// their code caches (scripts/prime-code-cache.mjs), built by `npm run build`, which the test
+// script runs first; the library entry is an ES-module bundle beside them.
 const root = resolve(import.meta.dirname, '../..');
 const bundleDir = join(root, 'dist', 'bundle');
-const files = existsSync(bundleDir) ? readdirSync(bundleDir).filter((f) => f.endsWith('.js')) : [];
+const listed = existsSync(bundleDir) ? readdirSync(bundleDir) : [];
+const files = listed.filter((f) => f.endsWith('.js') || f.endsWith('.cjs'));
+const cjs = listed.filter((f) => f.endsWith('.cjs'));
+const loader = join(root, 'bin', 'load-bundle.cjs');
+const commandNames = [...readFileSync(join(root, 'src', 'cli', 'commands.ts'), 'utf8').matchAll(/^\s+'?([a-z-]+)'?: \(\) => import\('\.\/([a-z-]+)-command\.js'\),$/gm)].map((m) => m[1]);
 
-describe('the command-line bundle', () => {
-  test('bin/gapstack.js loads the bundle, and the bundle exists', () => {
-    expect(readFileSync(join(root, 'bin', 'gapstack.js'), 'utf8')).toMatch(/from '\.\.\/dist\/bundle\/main\.js'/);
-    expect(files).toContain('main.js');
+/** Runs a script in a fresh node and returns its stdout (it must exit 0). */
+function nodeScript(code: string, cwd = root): string {
+  const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd });
+  expect(r.status, r.stderr).toBe(0);
+  return r.stdout;
+}
+
+describe('the command-line bundles', () => {
+  test('bin/gapstack.cjs runs the front through the loader; the front and every command of the table have a bundle', () => {
+    expect(readFileSync(join(root, 'bin', 'gapstack.cjs'), 'utf8')).toMatch(/require\('\.\/load-bundle\.cjs'\)\.loadBundle\('cli'\)\.main\(\)/);
+    expect(commandNames.length).toBeGreaterThan(8);
+    expect(cjs.sort()).toEqual(['cli.cjs', ...commandNames.map((c) => `${c}-command.cjs`)].sort());
+    // Every command in the table names its own module (the pattern the build replaces).
+    for (const m of readFileSync(join(root, 'src', 'cli', 'commands.ts'), 'utf8').matchAll(/^\s+'?([a-z-]+)'?: \(\) => import\('\.\/([a-z-]+)-command\.js'\),$/gm)) expect(m[1]).toBe(m[2]);
   });
 
   test('every path a bundled module builds from import.meta.url names a file that exists', () => {
     const found: string[] = [];
     for (const f of files) {
       const text = readFileSync(join(bundleDir, f), 'utf8');
-      for (const m of text.matchAll(/new URL\(\s*["'`]([^"'`$]+)["'`]\s*,\s*import\.meta\.url\s*\)/g)) found.push(m[1]);
-      for (const m of text.matchAll(/new URL\(\s*`([^`]*)\$\{[^}]*\}`\s*,\s*import\.meta\.url\s*\)/g)) found.push(`${m[1]}<dir>`);
+      for (const m of text.matchAll(/new URL\(\s*["'`]([^"'`$]+)["'`]\s*,\s*(?:import\.meta\.url|gapstackBundleUrl)\s*\)/g)) found.push(m[1]);
+      for (const m of text.matchAll(/new URL\(\s*`([^`]*)\$\{[^}]*\}`\s*,\s*(?:import\.meta\.url|gapstackBundleUrl)\s*\)/g)) found.push(`${m[1]}<dir>`);
     }
     expect(found.length).toBeGreaterThan(3);
     for (const rel of found) {
@@ -31,19 +48,116 @@ describe('the command-line bundle', () => {
     expect(found).toContain('../search/enumerate-worker.js');
   });
 
-  test('the entry chunk imports no package (heavy ones load only in the commands that use them)', () => {
-    const main = readFileSync(join(bundleDir, 'main.js'), 'utf8');
-    const statics = [...main.matchAll(/^import\s[^;]*?from\s*["']([^"']+)["']/gm)].map((m) => m[1]);
-    expect(statics.filter((s) => !s.startsWith('node:') && !s.startsWith('./'))).toEqual([]);
+  test('the CommonJS bundles keep no import() (the loader gives compiled scripts no dynamic-import hook) and no import.meta', () => {
+    for (const f of cjs) {
+      const text = readFileSync(join(bundleDir, f), 'utf8');
+      expect(text, f).not.toMatch(/\bimport\s*\(/);
+      expect(text, f).not.toMatch(/import\.meta/);
+    }
+  });
+
+  test('the front requires no package (heavy ones load only in the commands that use them)', () => {
+    const front = readFileSync(join(bundleDir, 'cli.cjs'), 'utf8');
+    const required = [...front.matchAll(/\brequire\("([^"]+)"\)/g)].map((m) => m[1]);
+    expect(required.length).toBeGreaterThan(0);
+    expect(required.filter((r) => !isBuiltin(r))).toEqual([]);
   });
 
   test('the bundled command line and the compiled modules give the same answer', () => {
-    const run = (entry: string) => spawnSync(process.execPath, ['--input-type=module', '-e', `const { run } = await import(${JSON.stringify(entry)}); await run(['evaluate', '--gaps', '1.73,1.12', '--json']);`], { encoding: 'utf8', cwd: root });
-    const bundled = run(join(bundleDir, 'main.js'));
-    const plain = run(join(root, 'dist', 'cli', 'main.js'));
-    expect(bundled.status).toBe(0);
+    const args = JSON.stringify(['evaluate', '--gaps', '1.73,1.12', '--json']);
+    const bundled = nodeScript(`require(${JSON.stringify(loader)}).loadBundle('cli').run(${args});`);
+    const plain = spawnSync(process.execPath, ['--input-type=module', '-e', `const { run } = await import(${JSON.stringify(join(root, 'dist', 'cli', 'main.js'))}); await run(${args});`], { encoding: 'utf8', cwd: root });
     expect(plain.status).toBe(0);
-    expect(JSON.parse(bundled.stdout)).toEqual(JSON.parse(plain.stdout));
+    expect(JSON.parse(bundled)).toEqual(JSON.parse(plain.stdout));
+  }, 30_000);
+
+  test('a command loads two bundles, the front and its own, each with a code cache V8 takes', () => {
+    const code = `const l = require(${JSON.stringify(loader)}); l.loadBundle('cli').run(['map', '--x', '1.5:1.7', '--y', '1.0:1.2', '--step', '0.1', '--json']).then(() => console.error('REPORT ' + JSON.stringify(l.cacheReport())));`;
+    const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: root });
+    expect(r.status, r.stderr).toBe(0);
+    expect(JSON.parse(r.stderr.split('REPORT ')[1])).toEqual([{ name: 'cli', cache: 'used' }, { name: 'map-command', cache: 'used' }]);
+    expect(JSON.parse(r.stdout).best.efficiency).toBeGreaterThan(0.4);
+  }, 30_000);
+
+  test('every bundle has a cache V8 takes', () => {
+    const names = cjs.map((f) => f.slice(0, -'.cjs'.length));
+    const report = JSON.parse(nodeScript(`const l = require(${JSON.stringify(loader)}); for (const b of ${JSON.stringify(names)}) l.loadBundle(b); console.log(JSON.stringify(l.cacheReport()));`));
+    expect(report).toEqual(names.map((name) => ({ name, cache: 'used' })));
+  }, 30_000);
+});
+
+describe('the code caches, in a copy of the package', () => {
+  /** A copy of bin/ and dist/bundle/ in a temporary package whose other files link to this one's. */
+  function copyPackage(): string {
+    const dir = mkdtempSync(join(tmpdir(), 'gapstack-cache-'));
+    for (const entry of readdirSync(root)) {
+      if (entry === 'bin' || entry === 'dist' || entry.startsWith('.')) continue;
+      symlinkSync(join(root, entry), join(dir, entry));
+    }
+    cpSync(join(root, 'bin'), join(dir, 'bin'), { recursive: true });
+    mkdirSync(join(dir, 'dist'));
+    for (const entry of readdirSync(join(root, 'dist'))) {
+      if (entry === 'bundle') cpSync(join(root, 'dist', 'bundle'), join(dir, 'dist', 'bundle'), { recursive: true, preserveTimestamps: true });
+      else symlinkSync(join(root, 'dist', entry), join(dir, 'dist', entry));
+    }
+    return dir;
+  }
+  const evaluateIn = (dir: string) => {
+    const code = `const l = require(${JSON.stringify(join(dir, 'bin', 'load-bundle.cjs'))}); l.loadBundle('cli').run(['evaluate', '--gaps', '1.73,1.12', '--json']).then(() => console.error('REPORT ' + JSON.stringify(l.cacheReport())));`;
+    const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: dir });
+    expect(r.status, r.stderr).toBe(0);
+    return { answer: JSON.parse(r.stdout), report: JSON.parse(r.stderr.split('REPORT ')[1]) as { name: string; cache: string }[] };
+  };
+
+  test('a cache that is not a V8 cache is refused and the bundle compiled: the same answer', () => {
+    const dir = copyPackage();
+    try {
+      const before = evaluateIn(dir);
+      expect(before.report.map((b) => b.cache)).toEqual(['used', 'used']);
+      const cache = join(dir, 'dist', 'bundle', 'evaluate-command.cjs.v8cache');
+      writeFileSync(cache, Buffer.alloc(4096, 7));
+      const after = evaluateIn(dir);
+      expect(after.report).toEqual([{ name: 'cli', cache: 'used' }, { name: 'evaluate-command', cache: 'rejected' }]);
+      expect(after.answer).toEqual(before.answer);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 30_000);
+
+  test('a cache older than its bundle is not read; without caches the answer is the same', () => {
+    const dir = copyPackage();
+    try {
+      const before = evaluateIn(dir);
+      const bundle = join(dir, 'dist', 'bundle', 'evaluate-command.cjs');
+      const later = new Date(Date.now() + 60_000);
+      utimesSync(bundle, later, later);
+      const stale = evaluateIn(dir);
+      expect(stale.report).toEqual([{ name: 'cli', cache: 'used' }, { name: 'evaluate-command', cache: 'none' }]);
+      for (const f of readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache'))) rmSync(join(dir, 'dist', 'bundle', f));
+      const none = evaluateIn(dir);
+      expect(none.report.map((b) => b.cache)).toEqual(['none', 'none']);
+      expect(stale.answer).toEqual(before.answer);
+      expect(none.answer).toEqual(before.answer);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 30_000);
+
+  test('GAPSTACK_WRITE_CODE_CACHE=1 writes the caches of the bundles a run loaded, which the next run takes', () => {
+    const dir = copyPackage();
+    try {
+      for (const f of readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache'))) rmSync(join(dir, 'dist', 'bundle', f));
+      const r = spawnSync(process.execPath, [join(dir, 'bin', 'gapstack.cjs'), 'spectrum', 'am1.5g'], { encoding: 'utf8', cwd: dir, env: { ...process.env, GAPSTACK_WRITE_CODE_CACHE: '1' } });
+      expect(r.status, r.stderr).toBe(0);
+      expect(readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache')).sort()).toEqual(['cli.cjs.v8cache', 'spectrum-command.cjs.v8cache']);
+      const code = `const l = require(${JSON.stringify(join(dir, 'bin', 'load-bundle.cjs'))}); l.loadBundle('cli').run(['spectrum', 'am1.5g']).then(() => console.error('REPORT ' + JSON.stringify(l.cacheReport())));`;
+      const again = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: dir });
+      expect(again.status, again.stderr).toBe(0);
+      expect(again.stdout).toBe(r.stdout);
+      expect(JSON.parse(again.stderr.split('REPORT ')[1])).toEqual([{ name: 'cli', cache: 'used' }, { name: 'spectrum-command', cache: 'used' }]);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   }, 30_000);
 });
 
@@ -67,8 +181,8 @@ describe('the report DOM in the bundles (scripts/report-dom.mjs)', () => {
     expect(text).toMatch(/gapstack builds without a CSS parser/);
   });
 
-  test('neither entry loads the DOM when it is imported: the report chunks come in only with a report', () => {
-    // The files each entry imports statically, followed through the chunks.
+  test('neither the library entry nor the front loads the DOM, nor do the quick commands: it comes in only with a report or figure', () => {
+    // The files the library entry imports statically, followed through the chunks.
     const closure = (entry: string): string[] => {
       const seen = new Set<string>();
       const visit = (f: string) => {
@@ -81,12 +195,13 @@ describe('the report DOM in the bundles (scripts/report-dom.mjs)', () => {
       return [...seen];
     };
     const domMarker = /node_modules\/linkedom\/|function D3Node\b/;
-    // The markers are in the bundle, in some chunk a report loads.
-    expect(files.some((f) => domMarker.test(readFileSync(join(bundleDir, f), 'utf8')))).toBe(true);
-    for (const entry of ['main.js', 'index.js']) {
-      const loaded = closure(entry);
-      expect(loaded.length, entry).toBeGreaterThan(1);
-      expect(loaded.filter((f) => domMarker.test(readFileSync(join(bundleDir, f), 'utf8'))), entry).toEqual([]);
-    }
+    const has = (f: string) => domMarker.test(readFileSync(join(bundleDir, f), 'utf8'));
+    // The markers are in the bundles that draw charts.
+    expect(has('report-command.cjs')).toBe(true);
+    expect(has('figure-command.cjs')).toBe(true);
+    const loaded = closure('index.js');
+    expect(loaded.length).toBeGreaterThan(1);
+    expect(loaded.filter(has)).toEqual([]);
+    for (const f of ['cli.cjs', 'evaluate-command.cjs', 'map-command.cjs', 'optimize-command.cjs', 'yield-command.cjs', 'spectrum-command.cjs']) expect(has(f), f).toBe(false);
   });
 });

@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 
 export const ROOT = fileURLToPath(new URL('../..', import.meta.url));
-export const BIN = fileURLToPath(new URL('../../bin/gapstack.js', import.meta.url));
+export const BIN = fileURLToPath(new URL('../../bin/gapstack.cjs', import.meta.url));
 
 export interface CliResult {
   code: number;

@@ -79,7 +79,7 @@ describe('the packed package', () => {
     const pkg = JSON.parse(readFileSync(join(dir, 'node_modules', 'gapstack', 'package.json'), 'utf8'));
     expect(pkg.exports['.']).toEqual({ types: './dist/index.d.ts', import: './dist/bundle/index.js', default: './dist/bundle/index.js' });
     expect(pkg.types).toBe('./dist/index.d.ts');
-    expect(pkg.bin).toEqual({ gapstack: 'bin/gapstack.js' });
+    expect(pkg.bin).toEqual({ gapstack: 'bin/gapstack.cjs' });
     expect(existsSync(join(dir, 'node_modules', 'gapstack', 'dist', 'index.d.ts'))).toBe(true);
   });
 

@@ -38,7 +38,7 @@ describe.skipIf(typeof cluster === 'string')('Slurm job array', () => {
     const sb = spawnSync('sbatch', ['--array=0-2', '--wait', `--chdir=${ROOT}`, `--output=${join(work, 'task-%a.log')}`, join(ROOT, 'examples/slurm/sites-array.sbatch')], {
       encoding: 'utf8',
       timeout: 600_000,
-      env: { ...cluster.env, DESIGN, SITES: sites, OUT: out, TILT: 'latitude', AZIMUTH: 'equator', GAPSTACK: `${process.execPath} ${join(ROOT, 'bin/gapstack.js')}` },
+      env: { ...cluster.env, DESIGN, SITES: sites, OUT: out, TILT: 'latitude', AZIMUTH: 'equator', GAPSTACK: `${process.execPath} ${join(ROOT, 'bin/gapstack.cjs')}` },
     });
     const logs = readdirSync(work).filter((f) => f.startsWith('task-')).map((f) => readFileSync(join(work, f), 'utf8')).join('\n');
     expect(sb.status, `${sb.stdout}${sb.stderr}\n${logs}`).toBe(0);

@@ -1,0 +1,5 @@
+#!/usr/bin/env node
+'use strict';
+// Entry point: the command line's bundles (scripts/bundle-cli.mjs), built by `npm ci`
+// through the prepare script, loaded with their V8 code caches (load-bundle.cjs).
+require('./load-bundle.cjs').loadBundle('cli').main();
