@@ -21,6 +21,34 @@ describe('the byte map writer writes exactly the bytes of the plain writer', () 
     expect(Buffer.from(mapToCsvBytes(m, [2])).equals(Buffer.from(mapToCsv(m, [2]), 'utf8'))).toBe(true);
   });
 
+  test('values whose product with 1e8 is a half as a double round as toFixed does, whichever side of the half they lie', () => {
+    // toFixed rounds the exact decimal value: of these, some lie above the half (rounded up) and some below (down).
+    const vals: number[] = [];
+    let up = 0;
+    let down = 0;
+    for (let k = 0; k < 5e6 && vals.length < 6000; k += 997) {
+      const v = (k + 0.5) / 1e8;
+      if (v * 100 * 1e6 !== k + 0.5) continue;
+      vals.push(v);
+      if (Number((v * 100).toFixed(6).replace('.', '')) === k + 1) up++;
+      else down++;
+    }
+    expect(up).toBeGreaterThan(500);
+    expect(down).toBeGreaterThan(500);
+    const m: GapMap = {
+      x: Float64Array.from(vals, (_, i) => 1 + 0.0001 * i),
+      y: Float64Array.of(0.9),
+      xCell: 0,
+      yCell: 1,
+      values: Float64Array.from(vals),
+      profileGaps: [],
+      profile: false,
+      best: { x: 1, y: 0.9, value: 0 },
+      points: vals.length,
+    };
+    expect(Buffer.from(mapToCsvBytes(m)).toString('latin1')).toBe(mapToCsv(m));
+  });
+
   test('any values, including exact halves of the last digit, zero, negatives and empty pixels', () => {
     const value = fc.oneof(
       fc.double({ min: 0, max: 1, noNaN: true }),
