@@ -102,6 +102,15 @@ describe('the code caches, in a copy of the package', () => {
     }
     return dir;
   }
+  /** Runs the test in a fresh copy of the package, removed afterwards. */
+  const inCopy = (body: (dir: string) => void) => {
+    const dir = copyPackage();
+    try {
+      body(dir);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  };
   const evaluateIn = (dir: string) => {
     const code = `const l = require(${JSON.stringify(join(dir, 'bin', 'load-bundle.cjs'))}); l.loadBundle('cli').run(['evaluate', '--gaps', '1.73,1.12', '--json']).then(() => console.error('REPORT ' + JSON.stringify(l.cacheReport())));`;
     const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: dir });
@@ -110,8 +119,7 @@ describe('the code caches, in a copy of the package', () => {
   };
 
   test('a cache that is not a V8 cache is refused and the bundle compiled: the same answer', () => {
-    const dir = copyPackage();
-    try {
+    inCopy((dir) => {
       const before = evaluateIn(dir);
       expect(before.report.map((b) => b.cache)).toEqual(['used', 'used']);
       const cache = join(dir, 'dist', 'bundle', 'evaluate-command.cjs.v8cache');
@@ -119,14 +127,11 @@ describe('the code caches, in a copy of the package', () => {
       const after = evaluateIn(dir);
       expect(after.report).toEqual([{ name: 'cli', cache: 'used' }, { name: 'evaluate-command', cache: 'rejected' }]);
       expect(after.answer).toEqual(before.answer);
-    } finally {
-      rmSync(dir, { recursive: true, force: true });
-    }
+    });
   }, 30_000);
 
   test('a cache older than its bundle is not read; without caches the answer is the same', () => {
-    const dir = copyPackage();
-    try {
+    inCopy((dir) => {
       const before = evaluateIn(dir);
       const bundle = join(dir, 'dist', 'bundle', 'evaluate-command.cjs');
       const later = new Date(Date.now() + 60_000);
@@ -138,14 +143,11 @@ describe('the code caches, in a copy of the package', () => {
       expect(none.report.map((b) => b.cache)).toEqual(['none', 'none']);
       expect(stale.answer).toEqual(before.answer);
       expect(none.answer).toEqual(before.answer);
-    } finally {
-      rmSync(dir, { recursive: true, force: true });
-    }
+    });
   }, 30_000);
 
   test('GAPSTACK_WRITE_CODE_CACHE=1 writes the caches of the bundles a run loaded, which the next run takes', () => {
-    const dir = copyPackage();
-    try {
+    inCopy((dir) => {
       for (const f of readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache'))) rmSync(join(dir, 'dist', 'bundle', f));
       const r = spawnSync(process.execPath, [join(dir, 'bin', 'gapstack.cjs'), 'spectrum', 'am1.5g'], { encoding: 'utf8', cwd: dir, env: { ...process.env, GAPSTACK_WRITE_CODE_CACHE: '1' } });
       expect(r.status, r.stderr).toBe(0);
@@ -155,9 +157,7 @@ describe('the code caches, in a copy of the package', () => {
       expect(again.status, again.stderr).toBe(0);
       expect(again.stdout).toBe(r.stdout);
       expect(JSON.parse(again.stderr.split('REPORT ')[1])).toEqual([{ name: 'cli', cache: 'used' }, { name: 'spectrum-command', cache: 'used' }]);
-    } finally {
-      rmSync(dir, { recursive: true, force: true });
-    }
+    });
   }, 30_000);
 });
 

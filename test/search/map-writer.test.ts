@@ -6,6 +6,21 @@ import { computeMap, mapToCsv, mapToCsvBytes, uniformAxis, type GapMap } from '.
 
 const spectra = [{ spectrum: am15g(), weight: 1, tempK: 300 }];
 
+/** A one-row map of these values at x0, x0 + dx, … (NaN for an empty pixel). */
+function rowMap(vals: number[], x0: number, dx: number): GapMap {
+  return {
+    x: Float64Array.from(vals, (_, i) => x0 + dx * i),
+    y: Float64Array.of(0.9),
+    xCell: 0,
+    yCell: 1,
+    values: Float64Array.from(vals),
+    profileGaps: [],
+    profile: false,
+    best: { x: x0, y: 0.9, value: 0 },
+    points: vals.filter((v) => !Number.isNaN(v)).length,
+  };
+}
+
 describe('the byte map writer writes exactly the bytes of the plain writer', () => {
   test('a 2T map at 5 meV over 0.5–2.5 eV (about 80 000 pixels, half of them empty)', () => {
     const obj = new StepObjective({ cells: 2, wiring: 'series', ere: [1, 1], topAbsorptance: 1, spectra });
@@ -35,17 +50,7 @@ describe('the byte map writer writes exactly the bytes of the plain writer', () 
     }
     expect(up).toBeGreaterThan(500);
     expect(down).toBeGreaterThan(500);
-    const m: GapMap = {
-      x: Float64Array.from(vals, (_, i) => 1 + 0.0001 * i),
-      y: Float64Array.of(0.9),
-      xCell: 0,
-      yCell: 1,
-      values: Float64Array.from(vals),
-      profileGaps: [],
-      profile: false,
-      best: { x: 1, y: 0.9, value: 0 },
-      points: vals.length,
-    };
+    const m = rowMap(vals, 1, 0.0001);
     expect(Buffer.from(mapToCsvBytes(m)).toString('latin1')).toBe(mapToCsv(m));
   });
 
@@ -58,17 +63,7 @@ describe('the byte map writer writes exactly the bytes of the plain writer', () 
     );
     fc.assert(
       fc.property(fc.array(value, { minLength: 1, maxLength: 30 }), fc.double({ min: 0.3, max: 3, noNaN: true }), (vals, x0) => {
-        const m: GapMap = {
-          x: Float64Array.from(vals, (_, i) => x0 + 0.001 * i),
-          y: Float64Array.of(0.9),
-          xCell: 0,
-          yCell: 1,
-          values: Float64Array.from(vals),
-          profileGaps: [],
-          profile: false,
-          best: { x: x0, y: 0.9, value: 0 },
-          points: vals.filter((v) => !Number.isNaN(v)).length,
-        };
+        const m = rowMap(vals, x0, 0.001);
         expect(Buffer.from(mapToCsvBytes(m)).toString('latin1')).toBe(mapToCsv(m));
       }),
       { numRuns: 2000 },
