@@ -30,6 +30,8 @@ function node(args, what) {
 }
 
 try {
+  // Caches of an earlier build are dropped first: each is rewritten below.
+  for (const f of readdirSync(bundleDir).filter((f) => f.endsWith('.v8cache'))) rmSync(join(bundleDir, f));
   const runs = [
     ['spectrum', 'am1.5g', '--gaps', '1.12,1.7'],
     ['optimize', '--cells', '2', '--fix', '2=1.12'],

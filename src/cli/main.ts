@@ -8,6 +8,7 @@ import { isUserError, UserError } from '../errors.js';
 import { assertFiniteText, checkRepeatedOptions, EXIT_INTERNAL, EXIT_USER, guardStandardStreams, joinNegativeValues, sanitiseForTerminal } from './guards.js';
 import { commandLineMessage } from './parameter-flags.js';
 import { commandModules } from './commands.js';
+import { toolVersion } from '../io/version.js';
 
 function lightOptions<T>(y: Argv<T>) {
   return y
@@ -326,7 +327,8 @@ export async function run(rawArgv: string[]): Promise<void> {
     .strict()
     .help()
     .alias('h', 'help')
-    .version()
+    // The version from gapstack's own package.json: yargs would look for the nearest one above the process's entry, which an installed copy does not own.
+    .version(toolVersion())
     .wrap(Math.min(110, process.stdout.columns || 100))
     .fail((msg, err) => {
       throw err ?? new UserError(msg);

@@ -1,5 +1,6 @@
 import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, utimesSync, writeFileSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
 import { isBuiltin } from 'node:module';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
@@ -25,7 +26,9 @@ function nodeScript(code: string, cwd = root): string {
 
 describe('the command-line bundles', () => {
   test('bin/gapstack.cjs runs the front through the loader; the front and every command of the table have a bundle', () => {
-    expect(readFileSync(join(root, 'bin', 'gapstack.cjs'), 'utf8')).toMatch(/require\('\.\/load-bundle\.cjs'\)\.loadBundle\('cli'\)\.main\(\)/);
+    const bin = readFileSync(join(root, 'bin', 'gapstack.cjs'), 'utf8');
+    expect(bin).toMatch(/require\('\.\/load-bundle\.cjs'\)\.loadBundle\('cli'\)/);
+    expect(bin).toMatch(/cli\?\.main\(\)/);
     expect(commandNames.length).toBeGreaterThan(8);
     expect(cjs.sort()).toEqual(['cli.cjs', ...commandNames.map((c) => `${c}-command.cjs`)].sort());
     // Every command in the table names its own module (the pattern the build replaces).
@@ -118,31 +121,45 @@ describe('the code caches, in a copy of the package', () => {
     return { answer: JSON.parse(r.stdout), report: JSON.parse(r.stderr.split('REPORT ')[1]) as { name: string; cache: string }[] };
   };
 
-  test('a cache that is not a V8 cache is refused and the bundle compiled: the same answer', () => {
+  test('a cache made from this bundle whose data V8 cannot take is refused and the bundle compiled: the same answer', () => {
     inCopy((dir) => {
       const before = evaluateIn(dir);
       expect(before.report.map((b) => b.cache)).toEqual(['used', 'used']);
-      const cache = join(dir, 'dist', 'bundle', 'evaluate-command.cjs.v8cache');
-      writeFileSync(cache, Buffer.alloc(4096, 7));
+      const bundle = join(dir, 'dist', 'bundle', 'evaluate-command.cjs');
+      const id = createHash('sha256').update(readFileSync(bundle)).digest('hex');
+      writeFileSync(`${bundle}.v8cache`, Buffer.concat([Buffer.from(id, 'latin1'), Buffer.alloc(4096, 7)]));
       const after = evaluateIn(dir);
       expect(after.report).toEqual([{ name: 'cli', cache: 'used' }, { name: 'evaluate-command', cache: 'rejected' }]);
       expect(after.answer).toEqual(before.answer);
     });
   }, 30_000);
 
-  test('a cache older than its bundle is not read; without caches the answer is the same', () => {
+  test('a cache made from other bytes of the same length is never given to V8, whatever the file dates say; without caches the answer is the same', () => {
     inCopy((dir) => {
       const before = evaluateIn(dir);
+      // Patch the bundle in place, same length, and date it back before its cache.
       const bundle = join(dir, 'dist', 'bundle', 'evaluate-command.cjs');
-      const later = new Date(Date.now() + 60_000);
-      utimesSync(bundle, later, later);
-      const stale = evaluateIn(dir);
-      expect(stale.report).toEqual([{ name: 'cli', cache: 'used' }, { name: 'evaluate-command', cache: 'none' }]);
+      const text = readFileSync(bundle, 'utf8');
+      expect(text).toContain('stated assumptions');
+      writeFileSync(bundle, text.replace('stated assumptions', 'STATED assumptions'));
+      utimesSync(bundle, new Date(2000, 0, 1), new Date(2000, 0, 1));
+      const patched = evaluateIn(dir);
+      expect(patched.report).toEqual([{ name: 'cli', cache: 'used' }, { name: 'evaluate-command', cache: 'stale' }]);
+      expect(patched.answer.caution).toContain('STATED assumptions');
+      writeFileSync(bundle, text);
       for (const f of readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache'))) rmSync(join(dir, 'dist', 'bundle', f));
       const none = evaluateIn(dir);
       expect(none.report.map((b) => b.cache)).toEqual(['none', 'none']);
-      expect(stale.answer).toEqual(before.answer);
       expect(none.answer).toEqual(before.answer);
+    });
+  }, 30_000);
+
+  test('without its bundles the command line says to build, in one line, exit 1', () => {
+    inCopy((dir) => {
+      rmSync(join(dir, 'dist', 'bundle', 'cli.cjs'));
+      const r = spawnSync(process.execPath, [join(dir, 'bin', 'gapstack.cjs'), 'evaluate', '--gaps', '1.7,1.1'], { encoding: 'utf8', cwd: dir });
+      expect(r.status).toBe(1);
+      expect(r.stderr).toMatch(/^gapstack: cannot read .*cli\.cjs \(ENOENT\): build the package first \(npm ci, or npm run build in a clone\)\n$/);
     });
   }, 30_000);
 

@@ -83,6 +83,19 @@ describe('the packed package', () => {
     expect(existsSync(join(dir, 'node_modules', 'gapstack', 'dist', 'index.d.ts'))).toBe(true);
   });
 
+  it('runs the installed command line (its bundles and code caches came in the tarball) with its own version', () => {
+    const bin = join(dir, 'node_modules', '.bin', 'gapstack');
+    const out = JSON.parse(execFileSync(bin, ['evaluate', '--gaps', '1.729,1.12', '--json'], { cwd: dir, encoding: 'utf8' })) as { efficiency: number };
+    // docs/PHYSICS.md §5 check table: 2T with a 1.12 eV bottom, top 1.729 eV: 45.04 %.
+    expect(out.efficiency * 100).toBeCloseTo(45.04, 2);
+    const version = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')).version as string;
+    expect(execFileSync(bin, ['--version'], { cwd: dir, encoding: 'utf8' }).trim()).toBe(version);
+    // A library error from inside a command's bundle reaches the user by the flag's name, as a user error.
+    const bad = spawnSync(bin, ['map', '--x', '0.5:2.5', '--y', '0.5:2.5', '--step', '0.0001'], { cwd: dir, encoding: 'utf8' });
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/^gapstack: 20001 points per axis .* use a coarser --step/);
+  }, 2 * MINUTES);
+
   it('type-checks scripts against the shipped declarations (tsc --noEmit): a small one and the README example', () => {
     // Throws, with the compiler's messages, on any type error.
     const out = execFileSync(process.execPath, [TSC, '-p', 'tsconfig.json'], { cwd: dir, encoding: 'utf8' });

@@ -10,7 +10,7 @@ import { mapToCsvBytes, uniformAxis, type GapMap } from '../../src/search/map.js
  * then powerFromTables per spectrum, weighted and divided by the incident
  * power) and must agree, with the same count and best pixel: bit for bit for
  * independent cells; for a series pair, whose solve starts from the pixels
- * before it (seriesPairPowerWm2), within 2e-15 relative, both being the
+ * before it (seriesPairPowerWm2), within 5e-15 relative, both being the
  * stationary power within 1e-14 of the same root in y.
  */
 function longWay(obj: StepObjective, x: Float64Array, y: Float64Array, topA: number) {
@@ -76,7 +76,7 @@ describe('the two-cell map loop', () => {
       if (out[i] !== ref.out[i]) differing++;
       worst = Math.max(worst, Math.abs(out[i] - ref.out[i]) / ref.out[i]);
     }
-    expect(worst).toBeLessThan(2e-15);
+    expect(worst).toBeLessThan(5e-15);
     // The series loop does take its own path (a copy of the long way would differ nowhere).
     if (o.wiring === 'series') expect(differing).toBeGreaterThan(0);
   });
@@ -106,7 +106,7 @@ describe('the series pair solve along a row', () => {
   const vt = thermalVoltageV(300);
   const general = (a0: number, a1: number, b0: number, b1: number) => seriesPowerWm2(Float64Array.of(a0, a1), Float64Array.of(b0, b1), 2, vt);
 
-  test('any start the row hands it (none, close, far, absurd) gives seriesPowerWm2\'s power within 2e-15 and leaves the optimum\'s R = J_max/(J_max − J)', () => {
+  test('any start the row hands it (none, close, far, absurd) gives seriesPowerWm2\'s power within 5e-15 and leaves the optimum\'s R = J_max/(J_max − J)', () => {
     // Photocurrents [A/m²] from 1 to 400, J0 [A/m²] from 1e-40 to 1e-3, mismatched both ways.
     const cases: [number, number, number, number][] = [
       [200, 180, 1e-25, 1e-12],
@@ -121,7 +121,7 @@ describe('the series pair solve along a row', () => {
       for (const [r1, r2] of starts) {
         const warm = Float64Array.of(7, r1, r2);
         const got = seriesPairPowerWm2(a0, a1, b0, b1, vt, warm, 1);
-        expect(Math.abs(got - want) / want).toBeLessThan(2e-15);
+        expect(Math.abs(got - want) / want).toBeLessThan(5e-15);
         // The optimum's R, and the one before it moved down.
         expect(warm[0]).toBe(7);
         expect(Object.is(warm[2], r1)).toBe(true);
