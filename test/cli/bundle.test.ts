@@ -35,6 +35,16 @@ describe('the command-line bundles', () => {
     for (const m of readFileSync(join(root, 'src', 'cli', 'commands.ts'), 'utf8').matchAll(/^\s+'?([a-z-]+)'?: \(\) => import\('\.\/([a-z-]+)-command\.js'\),$/gm)) expect(m[1]).toBe(m[2]);
   });
 
+  test('the former entry point bin/gapstack.js still runs the command line, exit codes included', () => {
+    const via = (entry: string, args: string[]) => spawnSync(process.execPath, [join(root, 'bin', entry), ...args], { encoding: 'utf8', cwd: root });
+    const ok = [via('gapstack.js', ['evaluate', '--gaps', '1.73,1.12', '--json']), via('gapstack.cjs', ['evaluate', '--gaps', '1.73,1.12', '--json'])];
+    for (const r of ok) expect(r.status, r.stderr).toBe(0);
+    expect(JSON.parse(ok[0].stdout)).toEqual(JSON.parse(ok[1].stdout));
+    const bad = via('gapstack.js', ['evaluate', '--gaps', 'x']);
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/^gapstack: /);
+  }, 30_000);
+
   test('every path a bundled module builds from import.meta.url names a file that exists', () => {
     const found: string[] = [];
     for (const f of files) {
