@@ -108,23 +108,25 @@ const PAIR_JPH = new Float64Array(2);
 const PAIR_J0 = new Float64Array(2);
 
 /**
- * seriesPowerWm2 for two cells, along a line of pixels (a map row): the same
- * Newton in y = ln(J_max − J) with the same last step, written out for two
- * cells and started from the pixels before. `warm[at]` and `warm[at + 1]`
- * hold R = J_max/(J_max − J) at the optimum of the last two pixels (NaN
- * after a row starts); the start is their geometric extrapolation R₁²/R₂
- * (linear in y), or R₁ after one pixel, or the cold start of seriesPowerWm2
- * on a row's first pixel. Neighbouring pixels 5 meV apart then take 2.2
- * evaluations on average instead of 3.25 (the 0.5–2.5 eV map; 2.0 at 1 meV). The stop is
- * the same (a next step shorter than 1e-7 in y), so the power agrees with
- * seriesPowerWm2's within a few 1e-15 relative (measured up to 2e-15 on maps,
- * 3e-14 for strings near the dark limit): both are the stationary value at a
- * y within 1e-14 of the root. A map's pixel therefore depends, at that level,
- * on the pixels before it in its row; the CSV's six decimals of a percent
- * have come out the same bytes on every map tried. The step runs in t = e^y, so no
- * logarithm of J_max is needed. A near-dark string (Π(1 + J_ph/J0) below 3),
- * a product near overflow, or a solve that does not settle goes to
- * seriesPowerWm2 instead, and the row's start is forgotten.
+ * Maximum power [W/m²] of two cells in series, photocurrents jph0, jph1 and
+ * saturation currents j00, j01 [A/m²], thermal voltage vt [V]: seriesPowerWm2
+ * along a line of pixels (a map row), the same Newton in y = ln(J_max − J)
+ * with the same last step, written out for two cells and started from the
+ * pixels before. `warm[at]` and `warm[at + 1]` hold R = J_max/(J_max − J) at
+ * the optimum of the last two pixels (NaN after a row starts); the start is
+ * their geometric extrapolation R₁²/R₂ (linear in y), or R₁ after one pixel,
+ * or the cold start of seriesPowerWm2 on a row's first pixel. Neighbouring
+ * pixels 5 meV apart then take 2.2 evaluations on average instead of 3.25 (the
+ * 0.5–2.5 eV map; 2.0 at 1 meV). The stop is the same (a next step shorter
+ * than 1e-7 in y), so the power agrees with seriesPowerWm2's within a few
+ * 1e-15 relative (measured up to 2e-15 on maps, 3e-14 for strings near the
+ * dark limit): both are the stationary value at a y within 1e-14 of the root.
+ * A map's pixel therefore depends, at that level, on the pixels before it in
+ * its row; the CSV's six decimals of a percent have come out the same bytes on
+ * every map tried. The step runs in t = e^y, so no logarithm of J_max is
+ * needed. A near-dark string (Π(1 + J_ph/J0) below 3), a product near
+ * overflow, or a solve that does not settle goes to seriesPowerWm2 instead,
+ * and the row's start is forgotten.
  */
 export function seriesPairPowerWm2(jph0: number, jph1: number, j00: number, j01: number, vt: number, warm: Float64Array, at: number): number {
   const m0 = jph0 + j00;
