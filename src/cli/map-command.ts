@@ -17,6 +17,7 @@ import { toolVersion } from '../io/version.js';
 import { createHash } from 'node:crypto';
 import { coverageWarnings } from '../light/coverage.js';
 import { assertNotAnInput, forgetInputs } from '../io/inputs.js';
+import { clockSeconds } from '../io/clock.js';
 
 export interface MapArgs extends StackArgs, ConstraintArgs, SpectraArgs {
   /** Run even when the size check estimates hours of work. */
@@ -84,7 +85,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   const profiled = fixed.some((g, i) => g === undefined && i !== xCell && i !== yCell);
   checkWorkSize('map', mapStacks(xAxis.length, yAxis.length, profiled), members.length, Boolean(a.acceptLarge));
   const obj = buildObjective(spec, members);
-  const t0 = performance.now();
+  const t0 = clockSeconds();
   const bar = a.json ? null : await startProgress('mapping');
   let m: GapMap;
   try {
@@ -92,7 +93,7 @@ export async function mapCommand(a: MapArgs): Promise<string> {
   } finally {
     bar?.stop();
   }
-  const seconds = (performance.now() - t0) / 1000;
+  const seconds = clockSeconds() - t0;
   const meta = {
     wiring: spec.wiring.label,
     cells,

@@ -15,6 +15,7 @@ import { publishReport } from '../io/publish.js';
 import { CAUTION } from '../report/assumptions.js';
 import { finiteJson } from './guards.js';
 import { startStagedProgress } from './progress.js';
+import { clockSeconds } from '../io/clock.js';
 
 export interface ReportArgs {
   /** Design file (YAML or JSON). */
@@ -49,7 +50,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   if (typeof a.design !== 'string' || a.design === '') throw new UserError('name a design file, e.g. gapstack report examples/perovskite-silicon.yaml -o report.html');
   const output = a.output ?? 'report.html';
   if (!/\.html?$/i.test(output)) throw new UserError(`-o/--output must end in .html, got "${output}"`);
-  const t0 = performance.now();
+  const t0 = clockSeconds();
   forgetInputs();
   const { loadScenarioSet } = await import('../design/index.js');
   const set = await loadScenarioSet(a.design);
@@ -100,7 +101,7 @@ export async function reportCommand(a: ReportArgs): Promise<string> {
   // Every byte exists in memory now: publish the page and its figures together, or nothing.
   publishReport(output, built.html, a.figures !== undefined ? { folder: a.figures, files } : undefined);
   const written = [output, ...files.map((f) => join(a.figures as string, f.name))];
-  const seconds = (performance.now() - t0) / 1000;
+  const seconds = clockSeconds() - t0;
   if (a.json) {
     return finiteJson(
       {

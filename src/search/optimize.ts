@@ -14,6 +14,7 @@ import { compassMax, nelderMeadMax, type Box } from './refine.js';
 import { goldenSectionMax } from '../numerics/golden.js';
 import type { GapObjective } from '../stack/gap-objective.js';
 import { StepObjective } from '../stack/step-objective.js';
+import { clockSeconds } from '../io/clock.js';
 
 /** What the global search may vary: number of subcells, gap span [eV], per-subcell ranges or fixed gaps [eV], grid step [eV] and the tolerance loss [-]. */
 export interface SearchProblem {
@@ -141,7 +142,7 @@ interface PreparedSearch {
 }
 
 function prepareSearch(obj: GapObjective, p: SearchProblem, edgeEnergiesEv: number[]): PreparedSearch {
-  const t0 = performance.now();
+  const t0 = clockSeconds();
   const n = p.cells;
   if (!(n >= 1 && n <= 6)) throw new ParameterError('cells', '1 to 6', says`${ref('cells')} must be 1 to 6, got ${n}`);
   if (obj.cells !== n) throw new Error('objective and problem disagree on the number of subcells');
@@ -298,7 +299,7 @@ function searchOneGap(obj: GapObjective, p: SearchProblem, prep: PreparedSearch)
     best,
     ...regionAndRunnersUp(p, value, best, basins, bounds),
     bounds,
-    stats: { stepEv: step, axisPoints: axis.length, edgePoints: prep.edgeCount, leaves: vs.reduce((c, v) => (Number.isNaN(v) ? c : c + 1), 0), pruned: 0, seeds: seeds.length, evaluations, seconds: (performance.now() - t0) / 1000 },
+    stats: { stepEv: step, axisPoints: axis.length, edgePoints: prep.edgeCount, leaves: vs.reduce((c, v) => (Number.isNaN(v) ? c : c + 1), 0), pruned: 0, seeds: seeds.length, evaluations, seconds: clockSeconds() - t0 },
   };
 }
 
@@ -407,7 +408,7 @@ function finishSearch(obj: GapObjective, p: SearchProblem, prep: PreparedSearch,
       pruned: en.pruned,
       seeds: seeds.length,
       evaluations,
-      seconds: (performance.now() - t0) / 1000,
+      seconds: clockSeconds() - t0,
     },
   };
 }
