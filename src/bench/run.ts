@@ -91,7 +91,7 @@ if (numpyOk) {
   const peer: number[] = [];
   const ours: number[] = [];
   let peerPeak: number | null = null;
-  for (let k = 0; k < (runsOverride ?? 5); k++) {
+  for (let k = 0; k < (runsOverride ?? 7); k++) {
     const p = runOnce('python3', peerArgs);
     const g = runOnce(process.execPath, [bin, 'map', '--x', '0.5:2.5', '--y', '0.5:2.5', '--step', '0.005', '--out', map5]);
     peer.push(p.seconds);
