@@ -23,6 +23,11 @@ const loader = join(root, 'bin', 'load-bundle.cjs');
 const bundleDir = join(root, 'dist', 'bundle');
 const out = mkdtempSync(join(tmpdir(), 'gapstack-prime-'));
 
+/** Removes every cache beside the bundles. */
+function removeCaches() {
+  for (const f of readdirSync(bundleDir).filter((f) => f.endsWith('.v8cache'))) rmSync(join(bundleDir, f), { force: true });
+}
+
 /** Runs node with these arguments, writing caches; stops the build on a failure. */
 function node(args, what) {
   const r = spawnSync(process.execPath, args, { cwd: root, encoding: 'utf8', env: { ...process.env, GAPSTACK_WRITE_CODE_CACHE: '1' } });
@@ -31,7 +36,7 @@ function node(args, what) {
 
 try {
   // Caches of an earlier build are dropped first: each is rewritten below.
-  for (const f of readdirSync(bundleDir).filter((f) => f.endsWith('.v8cache'))) rmSync(join(bundleDir, f));
+  removeCaches();
   const runs = [
     ['spectrum', 'am1.5g', '--gaps', '1.12,1.7'],
     ['optimize', '--cells', '2', '--fix', '2=1.12'],
@@ -53,7 +58,7 @@ try {
   const refused = JSON.parse(check.stdout).filter((b) => b.cache !== 'used');
   if (refused.length > 0) throw new Error(`code caches not used: ${refused.map((b) => `${b.name} (${b.cache})`).join(', ')}`);
 } catch (err) {
-  for (const f of readdirSync(bundleDir).filter((f) => f.endsWith('.v8cache'))) rmSync(join(bundleDir, f), { force: true });
+  removeCaches();
   process.stderr.write(`gapstack build: no code caches written (${err.message.split('\n').filter(Boolean).slice(0, 2).join(' ')}); the command line works without them, only slower to start\n`);
 } finally {
   rmSync(out, { recursive: true, force: true });

@@ -86,7 +86,6 @@ export interface Row {
   cells: string[];
 }
 
-
 /**
  * Rows of a table without quoting, split directly (fast path: large ensembles
  * hold millions of cells). Without quotes, CSV fields are exactly the text

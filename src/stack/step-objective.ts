@@ -34,6 +34,9 @@ const NEWTON_LAST_STEP = 1e-7;
 /** Σ ln x_i is taken as ln Π x_i, the product folded into the sum before it could overflow. */
 const PRODUCT_FOLD = 1e150;
 
+/** The series solve's start, J_max/(J_max − J): the single-junction optimum r with r + ln r = S + 1, to first order in S = Σ ln(1 + J_ph/J0). */
+const firstOrderStart = (s: number): number => s + 1 - Math.log(s + 1);
+
 /**
  * Maximum power [W/m²] of a series string with photocurrents and saturation
  * currents [A/m²]. dP/dJ/V_t = Σ ln(u_i/J0_i) − J·Σ 1/u_i, u_i = J_ph,i + J0_i − J,
@@ -67,7 +70,7 @@ export function seriesPowerWm2(jph: Float64Array, j0: Float64Array, n: number, v
   if (!(jMax > 0) || !(s > 0)) return 0;
   if (s < 1) return darkSeriesPowerWm2(jph, j0, n, vt, jMax);
   const yMax = Math.log(jMax);
-  let y = Math.log(jMax / (s + 1 - Math.log(s + 1)));
+  let y = Math.log(jMax / firstOrderStart(s));
   for (let it = 0; it < 100; it++) {
     const t = Math.exp(y);
     const j = jMax - t;
@@ -140,7 +143,7 @@ export function seriesPairPowerWm2(jph0: number, jph1: number, j00: number, j01:
     if (r1 === r1) t = jMax / (r2 === r2 ? (r1 * r1) / r2 : r1);
     else {
       const s = Math.log(prod);
-      t = jMax / (s + 1 - Math.log(s + 1));
+      t = jMax / firstOrderStart(s);
     }
     for (let it = 0; it < 100; it++) {
       const j = jMax - t;

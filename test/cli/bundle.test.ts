@@ -17,6 +17,23 @@ const cjs = listed.filter((f) => f.endsWith('.cjs'));
 const loader = join(root, 'bin', 'load-bundle.cjs');
 const commandNames = [...readFileSync(join(root, 'src', 'cli', 'commands.ts'), 'utf8').matchAll(/^\s+'?([a-z-]+)'?: \(\) => import\('\.\/([a-z-]+)-command\.js'\),$/gm)].map((m) => m[1]);
 
+/**
+ * Runs the command line on `args` through the loader of the package at `dir`, in a fresh node
+ * (it must exit 0): what it printed, and what became of each bundle's cache.
+ */
+function runThroughLoader(dir: string, args: string[]): { stdout: string; caches: { name: string; cache: string }[] } {
+  const code = `const l = require(${JSON.stringify(join(dir, 'bin', 'load-bundle.cjs'))}); l.loadBundle('cli').run(${JSON.stringify(args)}).then(() => console.error('CACHES ' + JSON.stringify(l.cacheReport())));`;
+  const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: dir });
+  expect(r.status, r.stderr).toBe(0);
+  return { stdout: r.stdout, caches: JSON.parse(r.stderr.split('CACHES ')[1]) };
+}
+
+/** Removes every code cache of the package at `dir`. */
+function removeCaches(dir: string): void {
+  const bundles = join(dir, 'dist', 'bundle');
+  for (const f of readdirSync(bundles).filter((f) => f.endsWith('.v8cache'))) rmSync(join(bundles, f));
+}
+
 /** Runs a script in a fresh node and returns its stdout (it must exit 0). */
 function nodeScript(code: string, cwd = root): string {
   const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd });
@@ -85,10 +102,8 @@ describe('the command-line bundles', () => {
   }, 30_000);
 
   test('a command loads two bundles, the front and its own, each with a code cache V8 takes', () => {
-    const code = `const l = require(${JSON.stringify(loader)}); l.loadBundle('cli').run(['map', '--x', '1.5:1.7', '--y', '1.0:1.2', '--step', '0.1', '--json']).then(() => console.error('REPORT ' + JSON.stringify(l.cacheReport())));`;
-    const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: root });
-    expect(r.status, r.stderr).toBe(0);
-    expect(JSON.parse(r.stderr.split('REPORT ')[1])).toEqual([{ name: 'cli', cache: 'used' }, { name: 'map-command', cache: 'used' }]);
+    const r = runThroughLoader(root, ['map', '--x', '1.5:1.7', '--y', '1.0:1.2', '--step', '0.1', '--json']);
+    expect(r.caches).toEqual([{ name: 'cli', cache: 'used' }, { name: 'map-command', cache: 'used' }]);
     expect(JSON.parse(r.stdout).best.efficiency).toBeGreaterThan(0.4);
   }, 30_000);
 
@@ -125,10 +140,8 @@ describe('the code caches, in a copy of the package', () => {
     }
   };
   const evaluateIn = (dir: string) => {
-    const code = `const l = require(${JSON.stringify(join(dir, 'bin', 'load-bundle.cjs'))}); l.loadBundle('cli').run(['evaluate', '--gaps', '1.73,1.12', '--json']).then(() => console.error('REPORT ' + JSON.stringify(l.cacheReport())));`;
-    const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: dir });
-    expect(r.status, r.stderr).toBe(0);
-    return { answer: JSON.parse(r.stdout), report: JSON.parse(r.stderr.split('REPORT ')[1]) as { name: string; cache: string }[] };
+    const r = runThroughLoader(dir, ['evaluate', '--gaps', '1.73,1.12', '--json']);
+    return { answer: JSON.parse(r.stdout), report: r.caches };
   };
 
   test('a cache made from this bundle whose data V8 cannot take is refused and the bundle compiled: the same answer', () => {
@@ -157,7 +170,7 @@ describe('the code caches, in a copy of the package', () => {
       expect(patched.report).toEqual([{ name: 'cli', cache: 'used' }, { name: 'evaluate-command', cache: 'stale' }]);
       expect(patched.answer.caution).toContain('STATED assumptions');
       writeFileSync(bundle, text);
-      for (const f of readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache'))) rmSync(join(dir, 'dist', 'bundle', f));
+      removeCaches(dir);
       const none = evaluateIn(dir);
       expect(none.report.map((b) => b.cache)).toEqual(['none', 'none']);
       expect(none.answer).toEqual(before.answer);
@@ -175,15 +188,13 @@ describe('the code caches, in a copy of the package', () => {
 
   test('GAPSTACK_WRITE_CODE_CACHE=1 writes the caches of the bundles a run loaded, which the next run takes', () => {
     inCopy((dir) => {
-      for (const f of readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache'))) rmSync(join(dir, 'dist', 'bundle', f));
+      removeCaches(dir);
       const r = spawnSync(process.execPath, [join(dir, 'bin', 'gapstack.cjs'), 'spectrum', 'am1.5g'], { encoding: 'utf8', cwd: dir, env: { ...process.env, GAPSTACK_WRITE_CODE_CACHE: '1' } });
       expect(r.status, r.stderr).toBe(0);
       expect(readdirSync(join(dir, 'dist', 'bundle')).filter((f) => f.endsWith('.v8cache')).sort()).toEqual(['cli.cjs.v8cache', 'spectrum-command.cjs.v8cache']);
-      const code = `const l = require(${JSON.stringify(join(dir, 'bin', 'load-bundle.cjs'))}); l.loadBundle('cli').run(['spectrum', 'am1.5g']).then(() => console.error('REPORT ' + JSON.stringify(l.cacheReport())));`;
-      const again = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: dir });
-      expect(again.status, again.stderr).toBe(0);
+      const again = runThroughLoader(dir, ['spectrum', 'am1.5g']);
       expect(again.stdout).toBe(r.stdout);
-      expect(JSON.parse(again.stderr.split('REPORT ')[1])).toEqual([{ name: 'cli', cache: 'used' }, { name: 'spectrum-command', cache: 'used' }]);
+      expect(again.caches).toEqual([{ name: 'cli', cache: 'used' }, { name: 'spectrum-command', cache: 'used' }]);
     });
   }, 30_000);
 });
