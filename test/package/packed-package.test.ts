@@ -86,7 +86,8 @@ describe('the packed package', () => {
   it('runs the installed command line (its bundles and code caches came in the tarball) with its own version', () => {
     const bin = join(dir, 'node_modules', '.bin', 'gapstack');
     const out = JSON.parse(execFileSync(bin, ['evaluate', '--gaps', '1.729,1.12', '--json'], { cwd: dir, encoding: 'utf8' })) as { efficiency: number };
-    // docs/PHYSICS.md §5 check table: 2T with a 1.12 eV bottom, top 1.729 eV: 45.04 %.
+    // Independent reference test/fixtures/reference/runner.py (reference.json, 2T 1.729 / 1.12 eV under AM1.5G at 300 K):
+    // 45.04 %, as in the check table of docs/PHYSICS.md §5.
     expect(out.efficiency * 100).toBeCloseTo(45.04, 2);
     const version = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')).version as string;
     expect(execFileSync(bin, ['--version'], { cwd: dir, encoding: 'utf8' }).trim()).toBe(version);
